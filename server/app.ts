@@ -1,0 +1,123 @@
+import fs from 'node:fs';
+import path from 'node:path';
+import connectPgSimple from 'connect-pg-simple';
+import express, { type Express, type RequestHandler } from 'express';
+import session from 'express-session';
+import helmet from 'helmet';
+import pg from 'pg';
+import type { Sequelize } from 'sequelize';
+import { rootDir, type Config } from './config';
+import { configurePassport } from './auth/passport';
+import { csrf } from './http/csrf';
+import type { RouteInfo } from './http/guard';
+import { apiNotFound, errorHandler } from './http/problem';
+import { initModels } from './models';
+import { authRoutes } from './routes/auth';
+import { healthRoutes } from './routes/health';
+import { userRoutes } from './routes/users';
+import { workshopRoutes } from './routes/workshop';
+
+export interface AppDeps {
+  config: Config;
+  sequelize: Sequelize;
+  /** The same database as `sequelize`, for the session store's own small pool. */
+  databaseUrl: string;
+  /** Serve the built client from dist/ (off in API tests). */
+  serveClient?: boolean;
+}
+
+export interface BuiltApp {
+  app: Express;
+  /** Every API route with the roles it allows; the role-matrix test walks it. */
+  routes: RouteInfo[];
+  close(): Promise<void>;
+}
+
+/** Paths under /api that are not cookie-authenticated and so need no CSRF token (signed links, webhooks). */
+const CSRF_EXEMPT = [/^\/api\/public\//, /^\/api\/webhooks\//];
+
+/** Builds the Express app without listening. */
+export function createApp({ config, sequelize, databaseUrl, serveClient = true }: AppDeps): BuiltApp {
+  initModels(sequelize);
+  const routes: RouteInfo[] = [];
+  const app = express();
+  app.disable('x-powered-by');
+  app.set('trust proxy', config.trustProxy ? 1 : false);
+  app.set('query parser', 'simple');
+
+  app.use(
+    helmet({
+      contentSecurityPolicy: {
+        useDefaults: false,
+        directives: {
+          defaultSrc: ["'self'"],
+          baseUri: ["'self'"],
+          connectSrc: ["'self'"],
+          fontSrc: ["'self'", 'data:'],
+          formAction: ["'self'"],
+          frameAncestors: ["'none'"],
+          imgSrc: ["'self'", 'data:', 'blob:'],
+          objectSrc: ["'none'"],
+          scriptSrc: ["'self'"],
+          styleSrc: ["'self'", "'unsafe-inline'"],
+        },
+      },
+    }),
+  );
+  app.use(express.json({ limit: '1mb' }));
+
+  // Health answers before the session store is touched, so it works while the database is down.
+  app.use(healthRoutes(sequelize, routes));
+
+  const sessionPool = new pg.Pool({ connectionString: databaseUrl, max: 4, connectionTimeoutMillis: 3_000 });
+  sessionPool.on('error', () => {
+    /* a dropped idle connection: the next query opens a new one */
+  });
+  const PgStore = connectPgSimple(session);
+  app.use(
+    session({
+      name: 'sw.sid',
+      store: new PgStore({ pool: sessionPool, tableName: 'session', createTableIfMissing: false, pruneSessionInterval: 15 * 60 }),
+      secret: config.sessionSecret,
+      resave: false,
+      saveUninitialized: false,
+      rolling: true,
+      proxy: config.trustProxy,
+      cookie: { httpOnly: true, sameSite: 'lax', secure: 'auto', maxAge: 12 * 60 * 60 * 1000 },
+    }),
+  );
+  const passport = configurePassport();
+  app.use(passport.initialize());
+  app.use(passport.session());
+
+  const csrfCheck: RequestHandler = (req, res, next) => {
+    if (CSRF_EXEMPT.some((re) => re.test(req.path))) return next();
+    csrf.csrfSynchronisedProtection(req, res, next);
+  };
+  app.use('/api', csrfCheck);
+
+  app.use(authRoutes(config, sequelize, routes));
+  app.use(userRoutes(sequelize, routes));
+  app.use(workshopRoutes(routes));
+  app.use('/api', apiNotFound);
+
+  if (serveClient) {
+    const dist = path.join(rootDir, 'dist');
+    if (fs.existsSync(path.join(dist, 'index.html'))) {
+      app.use(express.static(dist, { index: false, maxAge: '1h' }));
+      app.get('/{*splat}', (_req, res) => {
+        res.setHeader('Cache-Control', 'no-cache');
+        res.sendFile(path.join(dist, 'index.html'));
+      });
+    }
+  }
+  app.use(errorHandler);
+
+  return {
+    app,
+    routes,
+    close: async () => {
+      await sessionPool.end();
+    },
+  };
+}

@@ -1,0 +1,72 @@
+import { randomBytes } from 'node:crypto';
+import fs from 'node:fs';
+import path from 'node:path';
+import { fileURLToPath } from 'node:url';
+
+/** The repository root, found from this file so that scripts work from any folder. */
+export const rootDir = path.resolve(path.dirname(fileURLToPath(import.meta.url)), '..');
+
+/** Everything the server reads from its environment, read and checked once at start-up. */
+export interface Config {
+  env: 'development' | 'production' | 'test';
+  port: number;
+  host: string;
+  /** Set when the database is another server; unset means the private cluster in .data/. */
+  databaseUrl: string | undefined;
+  dataDir: string;
+  uploadsDir: string;
+  sessionSecret: string;
+  /** Load the invented demo workshop (never in production unless SHELLWRIGHT_DEMO=1). */
+  demo: boolean;
+  trustProxy: boolean;
+  /** Failed sign-in attempts allowed per address and e-mail in the window. */
+  loginAttempts: number;
+  loginWindowMs: number;
+}
+
+function intFromEnv(name: string, fallback: number): number {
+  const raw = process.env[name];
+  if (raw === undefined || raw === '') return fallback;
+  const value = Number(raw);
+  if (!Number.isInteger(value) || value < 0) {
+    throw new Error(`${name} must be a whole number, got "${raw}"`);
+  }
+  return value;
+}
+
+/** A development secret kept in .data/ so that sessions survive a restart. */
+function localSecret(dataDir: string): string {
+  const file = path.join(dataDir, 'session-secret');
+  try {
+    return fs.readFileSync(file, 'utf8').trim();
+  } catch {
+    const secret = randomBytes(32).toString('hex');
+    fs.mkdirSync(dataDir, { recursive: true });
+    fs.writeFileSync(file, secret, { mode: 0o600 });
+    return secret;
+  }
+}
+
+/** Reads the configuration from process.env. */
+export function loadConfig(): Config {
+  const nodeEnv = process.env.NODE_ENV;
+  const env = nodeEnv === 'production' ? 'production' : nodeEnv === 'test' ? 'test' : 'development';
+  const dataDir = path.resolve(process.env.SHELLWRIGHT_DATA_DIR ?? path.join(rootDir, '.data'));
+  const secret = process.env.SESSION_SECRET;
+  if (env === 'production' && !secret) {
+    throw new Error('SESSION_SECRET must be set in production (a long random string)');
+  }
+  return {
+    env,
+    port: intFromEnv('PORT', 3000),
+    host: process.env.HOST ?? '127.0.0.1',
+    databaseUrl: process.env.DATABASE_URL || undefined,
+    dataDir,
+    uploadsDir: path.resolve(process.env.SHELLWRIGHT_UPLOADS_DIR ?? path.join(dataDir, 'uploads')),
+    sessionSecret: secret ?? localSecret(dataDir),
+    demo: env !== 'production' || process.env.SHELLWRIGHT_DEMO === '1',
+    trustProxy: process.env.TRUST_PROXY === '1',
+    loginAttempts: intFromEnv('SHELLWRIGHT_LOGIN_ATTEMPTS', 10),
+    loginWindowMs: intFromEnv('SHELLWRIGHT_LOGIN_WINDOW_MS', 15 * 60 * 1000),
+  };
+}

@@ -1,0 +1,52 @@
+import express, { type RequestHandler, type Router } from 'express';
+import type { Role } from '@shared/schemas/auth';
+import { problems } from './problem';
+
+/**
+ * Who may call a route: a list of roles, any signed-in user, or the public (the customer's signed link, health,
+ * sign-in). Every route must say; there is no default.
+ */
+export type Access = readonly Role[] | 'signed-in' | 'public';
+
+export interface RouteInfo {
+  method: 'get' | 'post' | 'put' | 'patch' | 'delete';
+  path: string;
+  access: Access;
+}
+
+/** The one guard: 401 when signed out, 403 for a role the route does not name. */
+export function guard(access: Access): RequestHandler {
+  return (req, _res, next) => {
+    if (access === 'public') return next();
+    if (!req.user) return next(problems.unauthenticated());
+    if (access !== 'signed-in' && !access.includes(req.user.role)) return next(problems.forbidden());
+    next();
+  };
+}
+
+type AddRoute = (path: string, access: Access, ...handlers: RequestHandler[]) => void;
+
+export interface SecureRouter {
+  router: Router;
+  get: AddRoute;
+  post: AddRoute;
+  put: AddRoute;
+  patch: AddRoute;
+  delete: AddRoute;
+}
+
+/**
+ * A router whose every route names its access. Routes are recorded in `table` (the app's route table), which the
+ * role-matrix test walks so that a new route joins it by declaring its roles.
+ */
+export function secureRouter(prefix: string, table: RouteInfo[]): SecureRouter {
+  const router = express.Router();
+  const add =
+    (method: RouteInfo['method']): AddRoute =>
+    (path, access, ...handlers) => {
+      const full = prefix + path;
+      table.push({ method, path: full, access });
+      router[method](full, guard(access), ...handlers);
+    };
+  return { router, get: add('get'), post: add('post'), put: add('put'), patch: add('patch'), delete: add('delete') };
+}

@@ -1,0 +1,106 @@
+import type { ErrorRequestHandler, RequestHandler, Response } from 'express';
+import { ConnectionError, UniqueConstraintError } from 'sequelize';
+import { ZodError, type z } from 'zod';
+import type { Problem } from '@shared/schemas/problem';
+
+/** An error that leaves the server as application/problem+json with a stable code. */
+export class HttpProblem extends Error {
+  constructor(
+    readonly status: number,
+    readonly code: string,
+    readonly title: string,
+    readonly detail?: string,
+    readonly extra: Partial<Pick<Problem, 'field' | 'errors'>> = {},
+  ) {
+    super(detail ?? title);
+  }
+}
+
+export const problems = {
+  unauthenticated: () => new HttpProblem(401, 'unauthenticated', 'Sign in required', 'Sign in to use this.'),
+  forbidden: () => new HttpProblem(403, 'forbidden', 'Not allowed', 'Your role may not do this.'),
+  notFound: (what = 'That') => new HttpProblem(404, 'not_found', 'Not found', `${what} was not found.`),
+  conflict: (code: string, detail: string) => new HttpProblem(409, code, 'Conflict', detail),
+  badRequest: (code: string, detail: string, field?: string) =>
+    new HttpProblem(400, code, 'Bad request', detail, field ? { field, errors: [{ field, message: detail }] } : {}),
+  dbDown: () =>
+    new HttpProblem(503, 'database_unavailable', 'Database unavailable', 'The database cannot be reached just now. Try again shortly.'),
+};
+
+/** Turns zod issues into a 400 that names the first field and lists them all. */
+export function fromZod(error: ZodError): HttpProblem {
+  const errors = error.issues.slice(0, 20).map((issue) => ({
+    field: issue.path.length ? issue.path.map(String).join('.') : '(body)',
+    message: issue.message,
+  }));
+  const first = errors[0] ?? { field: '(body)', message: 'is invalid' };
+  return new HttpProblem(400, 'validation_failed', 'Invalid input', `${first.field}: ${first.message}`, {
+    field: first.field,
+    errors,
+  });
+}
+
+/** Parses a value with a schema or throws a 400 naming the field. */
+export function parseOr400<S extends z.ZodType>(schema: S, value: unknown): z.output<S> {
+  const result = schema.safeParse(value);
+  if (!result.success) throw fromZod(result.error);
+  return result.data;
+}
+
+export function sendProblem(res: Response, problem: HttpProblem): void {
+  const body: Problem = {
+    type: `https://shellwright.invalid/problems/${problem.code}`,
+    title: problem.title,
+    status: problem.status,
+    code: problem.code,
+    ...(problem.detail ? { detail: problem.detail } : {}),
+    ...problem.extra,
+  };
+  res.status(problem.status).type('application/problem+json').send(JSON.stringify(body));
+}
+
+function isDbDown(err: unknown): boolean {
+  if (err instanceof ConnectionError) return true;
+  const code = (err as { code?: string } | null)?.code;
+  return (
+    code === 'ECONNREFUSED' ||
+    code === 'ECONNRESET' ||
+    code === '57P01' || // admin shutdown
+    code === '57P03' || // cannot connect now
+    code === '3D000' || // database does not exist
+    code === '55000' || // database not accepting connections
+    /Connection terminated|connect ECONNREFUSED|timeout exceeded when trying to connect/i.test(String((err as Error)?.message))
+  );
+}
+
+/** The last error handler: every error leaves as problem+json. */
+export const errorHandler: ErrorRequestHandler = (err: unknown, _req, res, next) => {
+  if (res.headersSent) {
+    next(err);
+    return;
+  }
+  if (err instanceof HttpProblem) return sendProblem(res, err);
+  if (err instanceof ZodError) return sendProblem(res, fromZod(err));
+  if (err instanceof UniqueConstraintError) {
+    const field = Object.keys(err.fields ?? {})[0];
+    return sendProblem(res, new HttpProblem(409, 'already_exists', 'Already exists', `${field ?? 'a value'} is already in use`, field ? { field } : {}));
+  }
+  const typed = err as { type?: string; status?: number; code?: string };
+  if (typed?.type === 'entity.too.large') {
+    return sendProblem(res, new HttpProblem(413, 'too_large', 'Request too large', 'The request body is larger than allowed.'));
+  }
+  if (typed?.type === 'entity.parse.failed') {
+    return sendProblem(res, new HttpProblem(400, 'invalid_json', 'Invalid JSON', 'The request body is not valid JSON.'));
+  }
+  if (typed?.code === 'EBADCSRFTOKEN' || typed?.code === 'csrf_invalid') {
+    return sendProblem(res, new HttpProblem(403, 'csrf_invalid', 'Missing or invalid CSRF token', 'Fetch a token from GET /api/auth/csrf and send it in the x-csrf-token header.'));
+  }
+  if (isDbDown(err)) return sendProblem(res, problems.dbDown());
+  console.error('[server] unexpected error', err);
+  sendProblem(res, new HttpProblem(500, 'internal', 'Internal error', 'Something went wrong on the server.'));
+};
+
+/** 404 for any /api path no route answers. */
+export const apiNotFound: RequestHandler = (req, res) => {
+  sendProblem(res, new HttpProblem(404, 'no_such_route', 'Not found', `No API route ${req.method} ${req.originalUrl.split('?')[0]}`));
+};

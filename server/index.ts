@@ -1,0 +1,65 @@
+/**
+ * Starts the server: connects, applies pending migrations, loads the demo workshop where allowed, listens, and
+ * shuts down cleanly on SIGINT/SIGTERM. `npm start` prepares the private database first and then calls this.
+ */
+import http from 'node:http';
+import { pathToFileURL } from 'node:url';
+import { createApp } from './app';
+import { loadConfig, type Config } from './config';
+import { resolveDatabaseUrl } from './db/connect';
+import { createMigrator } from './db/migrator';
+import { createSequelize } from './db/sequelize';
+import { initModels } from './models';
+import { loadDemo } from './seeders/demo';
+
+export interface RunningServer {
+  server: http.Server;
+  url: string;
+  stop(): Promise<void>;
+}
+
+export async function runServer(config: Config = loadConfig()): Promise<RunningServer> {
+  const databaseUrl = await resolveDatabaseUrl(config);
+  const sequelize = createSequelize(databaseUrl);
+  await createMigrator(sequelize).up();
+  initModels(sequelize);
+  if (config.demo) await loadDemo(sequelize, (m) => console.log(`[demo] ${m}`));
+
+  const built = createApp({ config, sequelize, databaseUrl });
+  const server = http.createServer(built.app);
+  await new Promise<void>((resolve, reject) => {
+    server.once('error', reject);
+    server.listen(config.port, config.host, resolve);
+  });
+  const url = `http://${config.host}:${config.port}`;
+  console.log(`[server] Shellwright is up at ${url}`);
+
+  let stopping: Promise<void> | undefined;
+  const stop = () => {
+    stopping ??= (async () => {
+      server.closeAllConnections();
+      await new Promise<void>((resolve) => server.close(() => resolve()));
+      await built.close();
+      await sequelize.close();
+    })();
+    return stopping;
+  };
+  return { server, url, stop };
+}
+
+if (process.argv[1] && import.meta.url === pathToFileURL(process.argv[1]).href) {
+  runServer().then(
+    (running) => {
+      for (const signal of ['SIGINT', 'SIGTERM'] as const) {
+        process.once(signal, () => {
+          console.log(`\n[server] ${signal}: stopping`);
+          running.stop().then(() => process.exit(0));
+        });
+      }
+    },
+    (err: unknown) => {
+      console.error(`[server] could not start: ${err instanceof Error ? err.message : String(err)}`);
+      process.exit(1);
+    },
+  );
+}

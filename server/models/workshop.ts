@@ -1,0 +1,47 @@
+import {
+  DataTypes,
+  Model,
+  type CreationOptional,
+  type InferAttributes,
+  type InferCreationAttributes,
+  type Sequelize,
+} from 'sequelize';
+import type { Workshop as WorkshopDto, WorkshopSettings } from '@shared/schemas/workshop';
+
+export class Workshop extends Model<InferAttributes<Workshop>, InferCreationAttributes<Workshop>> {
+  declare id: CreationOptional<number>;
+  declare name: string;
+  declare email: string | null;
+  declare phone: string | null;
+  declare address: string | null;
+  declare settings: WorkshopSettings;
+  declare createdAt: CreationOptional<Date>;
+  declare updatedAt: CreationOptional<Date>;
+
+  toDto(): WorkshopDto {
+    return {
+      id: this.id,
+      name: this.name,
+      email: this.email,
+      phone: this.phone,
+      address: this.address,
+      settings: this.settings,
+    };
+  }
+
+  static initModel(sequelize: Sequelize): void {
+    Workshop.init(
+      {
+        id: { type: DataTypes.INTEGER, primaryKey: true, autoIncrement: true },
+        name: { type: DataTypes.STRING(160), allowNull: false },
+        email: { type: DataTypes.STRING(254), allowNull: true },
+        phone: { type: DataTypes.STRING(40), allowNull: true },
+        address: { type: DataTypes.TEXT, allowNull: true },
+        settings: { type: DataTypes.JSONB, allowNull: false },
+        createdAt: DataTypes.DATE,
+        updatedAt: DataTypes.DATE,
+      },
+      { sequelize, tableName: 'workshops', underscored: true },
+    );
+  }
+}

@@ -1,0 +1,83 @@
+import { z } from 'zod';
+
+/** The staff roles. The customer has no account: they reach their own quote through a signed link. */
+export const ROLES = ['owner', 'estimator', 'sales', 'workshop'] as const;
+export type Role = (typeof ROLES)[number];
+
+export const ROLE_LABELS: Record<Role, string> = {
+  owner: 'Owner',
+  estimator: 'Estimator (finisher)',
+  sales: 'Sales',
+  workshop: 'Workshop planner',
+};
+
+export const ROLE_DUTIES: Record<Role, string> = {
+  owner: 'Everything: price list, labour rates, tax, workshop settings, finishing systems, users, audit log, reports.',
+  estimator: "Customers' pieces, measurements, estimates and revisions; progress and actual hours on jobs.",
+  sales: 'Customers, quotes from priced estimates, discounts within the cap, acceptance and deposits.',
+  workshop: 'Jobs from accepted quotes, the drying room and the polishers\u2019 week, progress.',
+};
+
+const email = z.string().trim().toLowerCase().pipe(z.email({ message: 'must be an e-mail address' })).pipe(z.string().max(254));
+
+/** A password a person chooses: long enough to resist guessing, short enough for bcrypt (72 bytes). */
+export const PasswordSchema = z
+  .string({ message: 'is required' })
+  .min(10, { message: 'must be at least 10 characters' })
+  .max(72, { message: 'must be at most 72 characters' });
+
+export const LoginSchema = z.object({
+  email: z.string({ message: 'is required' }).trim().min(1, { message: 'is required' }).max(254),
+  password: z.string({ message: 'is required' }).min(1, { message: 'is required' }).max(200),
+});
+export type LoginInput = z.infer<typeof LoginSchema>;
+
+export const UserSchema = z.object({
+  id: z.number().int(),
+  email: z.string(),
+  name: z.string(),
+  role: z.enum(ROLES),
+  active: z.boolean(),
+  lastLoginAt: z.string().nullable(),
+  createdAt: z.string(),
+});
+export type User = z.infer<typeof UserSchema>;
+
+export const CreateUserSchema = z
+  .object({
+    email,
+    name: z.string({ message: 'is required' }).trim().min(1, { message: 'is required' }).max(120),
+    role: z.enum(ROLES, { message: `must be one of ${ROLES.join(', ')}` }),
+    password: PasswordSchema,
+  })
+  .strict();
+export type CreateUserInput = z.infer<typeof CreateUserSchema>;
+
+export const UpdateUserSchema = z
+  .object({
+    name: z.string().trim().min(1, { message: 'is required' }).max(120).optional(),
+    role: z.enum(ROLES, { message: `must be one of ${ROLES.join(', ')}` }).optional(),
+    active: z.boolean().optional(),
+  })
+  .strict();
+export type UpdateUserInput = z.infer<typeof UpdateUserSchema>;
+
+export const ResetPasswordSchema = z.object({ password: PasswordSchema }).strict();
+
+export const UserListQuerySchema = z.object({
+  q: z.string().trim().max(100).optional(),
+  role: z.enum(ROLES).optional(),
+  sort: z.enum(['name', 'email', 'role', 'lastLoginAt', 'createdAt']).default('name'),
+  dir: z.enum(['asc', 'desc']).default('asc'),
+  page: z.coerce.number().int().min(1).max(100_000).default(1),
+  pageSize: z.coerce.number().int().min(1).max(100).default(25),
+});
+export type UserListQuery = z.infer<typeof UserListQuerySchema>;
+
+/** A page of rows from a server-side paged table. */
+export interface Page<T> {
+  rows: T[];
+  total: number;
+  page: number;
+  pageSize: number;
+}
