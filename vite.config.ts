@@ -4,11 +4,12 @@ import react from '@vitejs/plugin-react';
 import tailwindcss from '@tailwindcss/vite';
 
 const sharedDir = fileURLToPath(new URL('./shared', import.meta.url));
+const srcDir = fileURLToPath(new URL('./src', import.meta.url));
 const apiPort = process.env.PORT ?? '3000';
 
 export default defineConfig({
   plugins: [react(), tailwindcss()],
-  resolve: { alias: { '@shared': sharedDir } },
+  resolve: { alias: { '@shared': sharedDir, '@': srcDir } },
   server: {
     port: 5173,
     host: '127.0.0.1',

@@ -1,0 +1,23 @@
+import { House, Users, type LucideIcon } from 'lucide-react';
+import type { Role } from '@shared/schemas/auth';
+import { paths } from './paths';
+
+export interface NavItem {
+  to: string;
+  label: string;
+  icon: LucideIcon;
+  /** Roles that see this item; the server enforces the same on every route. */
+  roles: readonly Role[];
+}
+
+const ALL: readonly Role[] = ['owner', 'estimator', 'sales', 'workshop'];
+
+/** The navigation, in order. Each feature adds its entry here as it arrives. */
+export const NAV: NavItem[] = [
+  { to: paths.home, label: 'Overview', icon: House, roles: ALL },
+  { to: paths.users, label: 'Users', icon: Users, roles: ['owner'] },
+];
+
+export function navFor(role: Role): NavItem[] {
+  return NAV.filter((item) => item.roles.includes(role));
+}

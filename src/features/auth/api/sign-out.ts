@@ -1,0 +1,15 @@
+import { useMutation, useQueryClient } from '@tanstack/react-query';
+import { api, setCsrfToken } from '@/lib/api';
+import { authKeys } from './get-me';
+
+export function useSignOut() {
+  const queryClient = useQueryClient();
+  return useMutation({
+    mutationFn: () => api<void>('/api/auth/logout', { method: 'POST' }),
+    onSettled: () => {
+      setCsrfToken(null);
+      queryClient.clear();
+      queryClient.setQueryData(authKeys.me, null);
+    },
+  });
+}

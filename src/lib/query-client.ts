@@ -1,0 +1,14 @@
+import { QueryClient } from '@tanstack/react-query';
+import { ApiError } from './api';
+
+export function createQueryClient(): QueryClient {
+  return new QueryClient({
+    defaultOptions: {
+      queries: {
+        staleTime: 30_000,
+        retry: (count, error) => !(error instanceof ApiError && error.status < 500) && count < 2,
+        refetchOnWindowFocus: false,
+      },
+    },
+  });
+}
