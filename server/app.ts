@@ -90,8 +90,11 @@ export function createApp({ config, sequelize, databaseUrl, serveClient = true }
   app.use(passport.initialize());
   app.use(passport.session());
 
+  // CSRF guards what a session cookie authorises: writes by a signed-in user, and sign-in itself. A signed-out
+  // write carries no authority and meets the route guard's 401 instead.
   const csrfCheck: RequestHandler = (req, res, next) => {
-    if (CSRF_EXEMPT.some((re) => re.test(req.path))) return next();
+    if (CSRF_EXEMPT.some((re) => re.test(req.originalUrl))) return next();
+    if (!req.user && req.originalUrl !== '/api/auth/login') return next();
     csrf.csrfSynchronisedProtection(req, res, next);
   };
   app.use('/api', csrfCheck);

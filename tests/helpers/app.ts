@@ -1,0 +1,61 @@
+/** Builds the real app against the test database (DATABASE_URL, set by tests/run.ts) for supertest. */
+import request from 'supertest';
+import type { Role } from '../../shared/schemas/auth';
+import { createApp, type BuiltApp } from '../../server/app';
+import { loadConfig, type Config } from '../../server/config';
+import { createSequelize } from '../../server/db/sequelize';
+import { DEMO_PASSWORD, DEMO_USERS } from '../../server/seeders/demo';
+
+export function testDatabaseUrl(): string {
+  const url = process.env.DATABASE_URL;
+  if (!url) throw new Error('DATABASE_URL is not set: run the suite with `npm test`');
+  return url;
+}
+
+let shared: (BuiltApp & { sequelize: ReturnType<typeof createSequelize>; config: Config }) | undefined;
+
+/** One app per test file (models bind to one connection per process). */
+export function getTestApp(opts: { config?: Partial<Config>; serveClient?: boolean } = {}) {
+  if (shared) return shared;
+  const config = { ...loadConfig(), ...opts.config };
+  const url = testDatabaseUrl();
+  const sequelize = createSequelize(url);
+  const built = createApp({ config, sequelize, databaseUrl: url, serveClient: opts.serveClient ?? false });
+  shared = { ...built, sequelize, config };
+  return shared;
+}
+
+export async function closeTestApp(): Promise<void> {
+  if (!shared) return;
+  await shared.close();
+  await shared.sequelize.close();
+  shared = undefined;
+}
+
+export interface Session {
+  agent: ReturnType<typeof request.agent>;
+  csrf: string;
+}
+
+/** A cookie-keeping client with a CSRF token, signed out. */
+export async function anonymous(app: BuiltApp['app']): Promise<Session> {
+  const agent = request.agent(app);
+  const res = await agent.get('/api/auth/csrf').expect(200);
+  return { agent, csrf: res.body.csrfToken as string };
+}
+
+/** Signs in with e-mail and password and returns the agent with its fresh CSRF token. */
+export async function signIn(app: BuiltApp['app'], email: string, password: string): Promise<Session> {
+  const session = await anonymous(app);
+  const res = await session.agent.post('/api/auth/login').set('x-csrf-token', session.csrf).send({ email, password });
+  if (res.status !== 200) throw new Error(`sign-in as ${email} failed: ${res.status} ${JSON.stringify(res.body)}`);
+  return { agent: session.agent, csrf: res.body.csrfToken as string };
+}
+
+export function demoEmail(role: Role): string {
+  return DEMO_USERS.find((u) => u.role === role)!.email;
+}
+
+export function signInAs(app: BuiltApp['app'], role: Role): Promise<Session> {
+  return signIn(app, demoEmail(role), DEMO_PASSWORD);
+}

@@ -1,0 +1,47 @@
+/** Debian's Chromium driven by playwright-core, and the real app listening on a free loopback port. */
+import fs from 'node:fs';
+import http from 'node:http';
+import type { AddressInfo } from 'node:net';
+import path from 'node:path';
+import { chromium, type Browser, type Page } from 'playwright-core';
+import { rootDir } from '../../server/config';
+import { getTestApp } from './app';
+
+export const artifactsDir = path.join(rootDir, 'tests', 'artifacts', 'screenshots');
+
+export async function launchBrowser(): Promise<Browser> {
+  return chromium.launch({
+    executablePath: '/usr/bin/chromium',
+    args: ['--headless', '--no-sandbox', '--disable-gpu', '--disable-quic', '--no-first-run', '--disable-background-networking', '--disable-component-update', '--disable-sync'],
+  });
+}
+
+/** Serves the built client and the API from one server, as `npm start` does. */
+export async function startServer(): Promise<{ baseUrl: string; stop: () => Promise<void> }> {
+  const built = getTestApp({ serveClient: true });
+  const server = http.createServer(built.app);
+  await new Promise<void>((resolve) => server.listen(0, '127.0.0.1', resolve));
+  const { port } = server.address() as AddressInfo;
+  return {
+    baseUrl: `http://127.0.0.1:${port}`,
+    stop: async () => {
+      server.closeAllConnections();
+      await new Promise<void>((resolve) => server.close(() => resolve()));
+    },
+  };
+}
+
+export async function screenshot(page: Page, name: string): Promise<void> {
+  fs.mkdirSync(artifactsDir, { recursive: true });
+  await page.screenshot({ path: path.join(artifactsDir, `${name}.png`), fullPage: true });
+}
+
+/** Collects console errors and failed requests other than the expected signed-out 401 from /api/auth/me. */
+export function watchConsole(page: Page): string[] {
+  const errors: string[] = [];
+  page.on('pageerror', (e) => errors.push(`pageerror: ${e.message}`));
+  page.on('console', (m) => {
+    if (m.type() === 'error' && !/401 \(Unauthorized\)/.test(m.text())) errors.push(m.text());
+  });
+  return errors;
+}

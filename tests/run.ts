@@ -1,0 +1,85 @@
+/**
+ * `npm test`: prepares a fresh test database (the private cluster's `shellwright_test`, or TEST_DATABASE_URL),
+ * proves every migration's down by migrating up, all the way down and up again, loads the demo workshop, builds the
+ * client for the browser tests, makes sure Chromium is there, then runs every Vitest project.
+ */
+import { execFileSync, spawn } from 'node:child_process';
+import fs from 'node:fs';
+import path from 'node:path';
+import { buildClientIfNeeded } from '../server/cli/build-client';
+import { loadConfig, rootDir } from '../server/config';
+import { clusterUrl, describeCluster, ensureDatabase, startCluster, stopCluster, type Cluster } from '../server/db/cluster';
+import { createMigrator } from '../server/db/migrator';
+import { createSequelize } from '../server/db/sequelize';
+import { initModels } from '../server/models';
+import { loadDemo } from '../server/seeders/demo';
+
+const CHROMIUM = '/usr/bin/chromium';
+
+function ensureChromium(): void {
+  if (fs.existsSync(CHROMIUM)) return;
+  if (process.getuid?.() !== 0) {
+    throw new Error(`The browser tests need Debian's Chromium at ${CHROMIUM}: sudo apt-get install -y chromium`);
+  }
+  console.log('[test] installing Debian\'s chromium for the browser tests…');
+  const env = { ...process.env, DEBIAN_FRONTEND: 'noninteractive' };
+  execFileSync('apt-get', ['update', '-qq'], { stdio: 'inherit', env });
+  execFileSync('apt-get', ['install', '-y', '-qq', 'chromium', 'poppler-utils'], { stdio: 'inherit', env });
+}
+
+async function prepareDatabase(): Promise<{ url: string; started?: Cluster }> {
+  const explicit = process.env.TEST_DATABASE_URL;
+  if (explicit) return { url: explicit };
+  const config = loadConfig();
+  const cluster = describeCluster(config.dataDir);
+  const started = startCluster(cluster) ? cluster : undefined;
+  await ensureDatabase(cluster, 'shellwright_test', { fresh: true });
+  return { url: clusterUrl(cluster, 'shellwright_test'), started };
+}
+
+async function main(): Promise<number> {
+  const vitestArgs = process.argv.slice(2);
+  const { url, started } = await prepareDatabase();
+  try {
+    const sequelize = createSequelize(url);
+    const migrator = createMigrator(sequelize, { quiet: true });
+    await migrator.up();
+    await migrator.down({ to: 0 });
+    await migrator.up();
+    console.log(`[test] migrations: ${(await migrator.executed()).length} applied, each reverted and re-applied`);
+    initModels(sequelize);
+    await loadDemo(sequelize);
+    await sequelize.close();
+
+    ensureChromium();
+    await buildClientIfNeeded((m) => console.log(m));
+
+    const artifacts = path.join(rootDir, 'tests', 'artifacts');
+    fs.mkdirSync(artifacts, { recursive: true });
+    const report = path.join(artifacts, 'vitest-report.json');
+    fs.rmSync(report, { force: true });
+    const code = await new Promise<number>((resolve) => {
+      const child = spawn(
+        process.execPath,
+        [path.join(rootDir, 'node_modules', 'vitest', 'vitest.mjs'), 'run', '--reporter=default', '--reporter=json', `--outputFile.json=${report}`, ...vitestArgs],
+        { stdio: 'inherit', env: { ...process.env, NODE_ENV: 'test', DATABASE_URL: url, SHELLWRIGHT_TEST: '1' }, cwd: rootDir },
+      );
+      child.on('exit', (c, signal) => resolve(c ?? (signal ? 1 : 0)));
+    });
+    if (fs.existsSync(report)) {
+      const r = JSON.parse(fs.readFileSync(report, 'utf8')) as { numPassedTests: number; numFailedTests: number; numPendingTests: number };
+      console.log(`\ntests: ${r.numPassedTests} passed, ${r.numFailedTests} failed, ${r.numPendingTests} skipped`);
+    }
+    return code;
+  } finally {
+    if (started) stopCluster(started);
+  }
+}
+
+main().then(
+  (code) => process.exit(code),
+  (err: unknown) => {
+    console.error(`[test] ${err instanceof Error ? err.stack : String(err)}`);
+    process.exit(1);
+  },
+);
