@@ -93,6 +93,17 @@ function runOrThrow(cluster: Pick<Cluster, 'runAs' | 'binDir'>, program: string,
   return result.stdout;
 }
 
+/** True when something already listens on the loopback port. */
+function portInUse(port: number): boolean {
+  return spawnSync('bash', ['-c', `exec 3<>/dev/tcp/127.0.0.1/${port}`], { stdio: 'ignore' }).status === 0;
+}
+
+/** The first free port from `start`, so a second checkout on the same machine gets a cluster of its own. */
+function freePort(start: number): number {
+  for (let port = start; port < start + 50; port++) if (!portInUse(port)) return port;
+  throw new Error(`no free port for PostgreSQL between ${start} and ${start + 49}`);
+}
+
 /** Describes the private cluster for a data folder (does not create or start it). */
 export function describeCluster(dataDir: string): Cluster {
   const binDir = ensureServerInstalled();
@@ -106,7 +117,7 @@ export function describeCluster(dataDir: string): Cluster {
     meta = undefined;
   }
   if (!meta) {
-    const port = Number(process.env.SHELLWRIGHT_PG_PORT ?? 54329);
+    const port = freePort(Number(process.env.SHELLWRIGHT_PG_PORT ?? 54329));
     meta = { port, password: randomBytes(18).toString('base64url') };
     fs.mkdirSync(dataDir, { recursive: true });
     fs.writeFileSync(metaFile, JSON.stringify(meta, null, 2), { mode: 0o600 });
