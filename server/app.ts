@@ -13,6 +13,7 @@ import type { RouteInfo } from './http/guard';
 import { apiNotFound, errorHandler } from './http/problem';
 import { initModels } from './models';
 import { authRoutes } from './routes/auth';
+import { calcRoutes } from './routes/calc';
 import { healthRoutes } from './routes/health';
 import { userRoutes } from './routes/users';
 import { workshopRoutes } from './routes/workshop';
@@ -102,6 +103,7 @@ export function createApp({ config, sequelize, databaseUrl, serveClient = true }
   app.use(authRoutes(config, sequelize, routes));
   app.use(userRoutes(sequelize, routes));
   app.use(workshopRoutes(routes));
+  app.use(calcRoutes(sequelize, routes));
   app.use('/api', apiNotFound);
 
   if (serveClient) {

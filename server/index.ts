@@ -10,7 +10,7 @@ import { resolveDatabaseUrl } from './db/connect';
 import { createMigrator } from './db/migrator';
 import { createSequelize } from './db/sequelize';
 import { initModels } from './models';
-import { loadDemo } from './seeders/demo';
+import { seed } from './seeders';
 
 export interface RunningServer {
   server: http.Server;
@@ -23,7 +23,7 @@ export async function runServer(config: Config = loadConfig()): Promise<RunningS
   const sequelize = createSequelize(databaseUrl);
   await createMigrator(sequelize).up();
   initModels(sequelize);
-  if (config.demo) await loadDemo(sequelize, (m) => console.log(`[demo] ${m}`));
+  await seed(sequelize, { demo: config.demo, log: (m) => console.log(`[demo] ${m}`) });
 
   const built = createApp({ config, sequelize, databaseUrl });
   const server = http.createServer(built.app);

@@ -12,7 +12,7 @@ import { clusterUrl, describeCluster, ensureDatabase, startCluster, stopCluster,
 import { createMigrator } from '../server/db/migrator';
 import { createSequelize } from '../server/db/sequelize';
 import { initModels } from '../server/models';
-import { loadDemo } from '../server/seeders/demo';
+import { seed } from '../server/seeders';
 
 const CHROMIUM = '/usr/bin/chromium';
 
@@ -48,7 +48,7 @@ async function main(): Promise<number> {
     await migrator.up();
     console.log(`[test] migrations: ${(await migrator.executed()).length} applied, each reverted and re-applied`);
     initModels(sequelize);
-    await loadDemo(sequelize);
+    await seed(sequelize, { demo: true });
     await sequelize.close();
 
     ensureChromium();

@@ -11,7 +11,7 @@ import { DEV_DATABASE, resolveDatabaseUrl } from '../db/connect';
 import { createMigrator } from '../db/migrator';
 import { createSequelize } from '../db/sequelize';
 import { initModels } from '../models';
-import { loadDemo } from '../seeders/demo';
+import { seed } from '../seeders';
 
 const config = loadConfig();
 
@@ -59,7 +59,7 @@ async function main(command: string | undefined, arg: string | undefined): Promi
       const sequelize = createSequelize(clusterUrl(cluster, DEV_DATABASE));
       await createMigrator(sequelize).up();
       initModels(sequelize);
-      if (config.demo) await loadDemo(sequelize, (m) => console.log(`[demo] ${m}`));
+      await seed(sequelize, { demo: config.demo, log: (m) => console.log(`[demo] ${m}`) });
       await sequelize.close();
       console.log('[db] reset: fresh database with migrations and the demo workshop');
       return;

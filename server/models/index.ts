@@ -1,9 +1,12 @@
 import type { Sequelize } from 'sequelize';
 import { AuditEntry } from './audit-entry';
+import { associateEstimates, Customer, Estimate, EstimateRevision, Piece, PiecePhoto } from './estimates';
+import { associateCatalog, FinishingSystem, LabourRate, Material, MaterialPack, PackPrice, Species } from './catalog';
 import { User } from './user';
 import { Workshop } from './workshop';
 
-export { AuditEntry, User, Workshop };
+export { Customer, Estimate, EstimateRevision, Piece, PiecePhoto };
+export { AuditEntry, FinishingSystem, LabourRate, Material, MaterialPack, PackPrice, Species, User, Workshop };
 
 let boundTo: Sequelize | undefined;
 
@@ -11,6 +14,10 @@ let boundTo: Sequelize | undefined;
 export function initModels(sequelize: Sequelize): void {
   if (boundTo === sequelize) return;
   if (boundTo) throw new Error('models are already bound to another connection');
-  for (const model of [User, Workshop, AuditEntry]) model.initModel(sequelize);
+  for (const model of [User, Workshop, AuditEntry, Species, FinishingSystem, Material, MaterialPack, PackPrice, LabourRate, Customer, Piece, PiecePhoto, Estimate, EstimateRevision]) {
+    model.initModel(sequelize);
+  }
+  associateCatalog();
+  associateEstimates(User);
   boundTo = sequelize;
 }

@@ -1,12 +1,15 @@
 /**
- * The invented demo workshop: its settings and one user per role. Idempotent: a second run adds nothing twice.
- * Demo users exist only through this loader, which production runs only with SHELLWRIGHT_DEMO=1.
+ * The invented demo workshop: its details and settings, one user per role, the demo price list (invented
+ * suppliers and prices, with an older price for history) and labour rates. Idempotent: a second run adds nothing
+ * twice. Demo users exist only through this loader, which production runs only with SHELLWRIGHT_DEMO=1.
  */
 import type { Sequelize } from 'sequelize';
+import { DEMO_LABOUR_RATES, DEMO_MATERIALS, DEMO_PRICING, DEMO_SAFETY } from '@shared/calc/presets/demo-materials';
 import type { Role } from '@shared/schemas/auth';
 import type { WorkshopSettings } from '@shared/schemas/workshop';
-import { User, Workshop } from '../models';
+import { LabourRate, Material, MaterialPack, PackPrice, User, Workshop } from '../models';
 import { hashPassword } from '../services/users';
+import { DEFAULT_SETTINGS } from './defaults';
 
 export const DEMO_PASSWORD = 'shellwright-demo';
 
@@ -18,18 +21,51 @@ export const DEMO_USERS: { email: string; name: string; role: Role }[] = [
 ];
 
 export const DEMO_SETTINGS: WorkshopSettings = {
-  currency: 'GBP',
-  taxRatePct: 20,
-  units: 'metric',
-  workingWeek: [
-    { day: 'mon', open: '08:00', close: '16:30' },
-    { day: 'tue', open: '08:00', close: '16:30' },
-    { day: 'wed', open: '08:00', close: '16:30' },
-    { day: 'thu', open: '08:00', close: '16:30' },
-    { day: 'fri', open: '08:00', close: '15:00' },
-  ],
-  closedDates: ['2026-12-24', '2026-12-25', '2026-12-28', '2026-12-29', '2026-12-30', '2026-12-31', '2027-01-01'],
+  ...DEFAULT_SETTINGS,
+  pricing: DEMO_PRICING,
+  calendar: {
+    workingWeek: [
+      { day: 'mon', open: '08:00', close: '16:30' },
+      { day: 'tue', open: '08:00', close: '16:30' },
+      { day: 'wed', open: '08:00', close: '16:30' },
+      { day: 'thu', open: '08:00', close: '16:30' },
+      { day: 'fri', open: '08:00', close: '15:00' },
+    ],
+    closedDates: ['2026-12-24', '2026-12-25', '2026-12-28', '2026-12-29', '2026-12-30', '2026-12-31', '2027-01-01', '2027-04-02', '2027-04-05'],
+  },
+  // The demo room has extraction good enough for a methylated spirit with some methanol in it.
+  safety: { ...DEMO_SAFETY, room: { volumeM3: 120, airChangesPerHour: 16 } },
+  dryingRoom: { mode: 'bays', bays: 4, rackAreaM2: 16, temperatureC: 20, humidityPct: 55 },
 };
+
+/** Demo prices took effect on this date; an older price a few percent lower shows history. */
+const PRICE_DATE = '2026-09-01';
+const OLD_PRICE_DATE = '2026-03-01';
+
+async function demoPriceList(sequelize: Sequelize): Promise<void> {
+  await sequelize.transaction(async (transaction) => {
+    for (const m of DEMO_MATERIALS) {
+      const [material] = await Material.findOrCreate({ where: { key: m.key }, defaults: { key: m.key, name: m.name, kind: m.kind, unit: m.unit }, transaction });
+      for (const p of m.packs) {
+        const [pack] = await MaterialPack.findOrCreate({
+          where: { materialId: material.id, size: String(p.size) },
+          defaults: { materialId: material.id, size: p.size, label: p.label ?? '', supplier: m.supplier, supplierCode: `${m.key}-${p.size}`.toUpperCase(), archived: false },
+          transaction,
+        });
+        if (!pack.supplier) await pack.update({ supplier: m.supplier, supplierCode: `${m.key}-${p.size}`.toUpperCase() }, { transaction });
+        const hasDemoPrice = await PackPrice.count({ where: { packId: pack.id, source: 'demo' }, transaction });
+        if (hasDemoPrice) continue;
+        const old = (Number(p.price) * 0.92).toFixed(2);
+        await PackPrice.create({ packId: pack.id, price: old, effectiveFrom: OLD_PRICE_DATE, userId: null, source: 'demo' }, { transaction });
+        await PackPrice.create({ packId: pack.id, price: p.price, effectiveFrom: PRICE_DATE, userId: null, source: 'demo' }, { transaction });
+      }
+    }
+    for (const rate of DEMO_LABOUR_RATES) {
+      const [row, created] = await LabourRate.findOrCreate({ where: { key: rate.key }, defaults: { ...rate }, transaction });
+      if (!created && Number(row.perHour) === 0) await row.update({ perHour: rate.perHour }, { transaction });
+    }
+  });
+}
 
 export async function loadDemo(sequelize: Sequelize, log: (m: string) => void = () => {}): Promise<void> {
   const passwordHash = await hashPassword(DEMO_PASSWORD);
@@ -46,7 +82,7 @@ export async function loadDemo(sequelize: Sequelize, log: (m: string) => void = 
         },
         { transaction },
       );
-      log('demo: workshop created');
+      log('workshop created');
     }
     for (const demo of DEMO_USERS) {
       const [, created] = await User.findOrCreate({
@@ -54,7 +90,8 @@ export async function loadDemo(sequelize: Sequelize, log: (m: string) => void = 
         defaults: { ...demo, passwordHash, lastLoginAt: null },
         transaction,
       });
-      if (created) log(`demo: user ${demo.email} (${demo.role}) created`);
+      if (created) log(`user ${demo.email} (${demo.role}) created`);
     }
   });
+  await demoPriceList(sequelize);
 }

@@ -4,6 +4,7 @@ import type { CreateUserInput, Page, UpdateUserInput, User as UserDto, UserListQ
 import { problems } from '../http/problem';
 import { User } from '../models';
 import { audit } from './audit';
+import { containsPattern } from './paging';
 
 const BCRYPT_COST = 10;
 
@@ -34,7 +35,7 @@ export async function listUsers(query: UserListQuery): Promise<Page<UserDto>> {
   const where: WhereOptions<User> = {};
   if (query.role) Object.assign(where, { role: query.role });
   if (query.q) {
-    const like = `%${query.q.replace(/[\\%_]/g, (c) => `\\${c}`)}%`;
+    const like = containsPattern(query.q);
     Object.assign(where, { [Op.or]: [{ name: { [Op.iLike]: like } }, { email: { [Op.iLike]: like } }] });
   }
   const { rows, count } = await User.findAndCountAll({

@@ -1,20 +1,36 @@
 import { z } from 'zod';
+import { FactorsSchema, PricingSchema, SafetySettingsSchema, ShellacSettingsSchema, WorkingCalendarSchema } from './catalog';
+import { LENGTH_UNITS, UNIT_SYSTEMS } from '../units';
 
-export const WEEKDAYS = ['mon', 'tue', 'wed', 'thu', 'fri', 'sat', 'sun'] as const;
-export type Weekday = (typeof WEEKDAYS)[number];
+export { CALENDAR_WEEKDAYS as WEEKDAYS } from './catalog';
 
-const time = z.string().regex(/^([01]\d|2[0-3]):[0-5]\d$/, { message: 'must be a time like 08:30' });
+/** The drying room: how many cases it holds (bays) or how much rack area, and its climate set points. */
+export const DryingRoomSchema = z.object({
+  mode: z.enum(['bays', 'area']),
+  bays: z.number().int().min(1).max(500),
+  rackAreaM2: z.number().positive().max(10_000),
+  temperatureC: z.number().min(-10).max(50),
+  humidityPct: z.number().min(0).max(100),
+});
+export type DryingRoom = z.infer<typeof DryingRoomSchema>;
 
-/** Opening hours of one working day. */
-export const WorkingDaySchema = z.object({ day: z.enum(WEEKDAYS), open: time, close: time });
-
-/** The workshop's own settings: money, tax, display units and the working week. */
+/**
+ * The workshop's own settings: display units, how prices are built, the working calendar, the finishing room
+ * for the safety figures, the drying room and quotes. Everything the estimator reads besides the price list.
+ */
 export const WorkshopSettingsSchema = z.object({
-  currency: z.string().regex(/^[A-Z]{3}$/, { message: 'must be a three-letter currency code' }),
-  taxRatePct: z.number().min(0).max(100),
-  units: z.enum(['metric', 'imperial']),
-  workingWeek: z.array(WorkingDaySchema).min(1, { message: 'needs at least one working day' }),
-  closedDates: z.array(z.string().regex(/^\d{4}-\d{2}-\d{2}$/)).default([]),
+  units: z.enum(UNIT_SYSTEMS),
+  defaultLengthUnit: z.enum(LENGTH_UNITS),
+  pricing: PricingSchema,
+  /** Show prices to customers with tax included. */
+  pricesIncludeTax: z.boolean(),
+  factors: FactorsSchema,
+  calendar: WorkingCalendarSchema,
+  shellac: ShellacSettingsSchema,
+  safety: SafetySettingsSchema,
+  dryingRoom: DryingRoomSchema,
+  quoteValidityDays: z.number().int().min(1).max(365),
+  paperSize: z.enum(['A4', 'Letter']),
 });
 export type WorkshopSettings = z.infer<typeof WorkshopSettingsSchema>;
 

@@ -41,9 +41,9 @@ export function OverviewPage() {
           <Card title={<span className="inline-flex items-center gap-2"><Scale className="h-4 w-4 text-amber-600" aria-hidden /> Money and measures</span>}>
             <dl className="grid grid-cols-[8rem_1fr] gap-y-2 text-sm">
               <dt className="text-walnut-500">Currency</dt>
-              <dd>{workshop.data.settings.currency}</dd>
+              <dd>{workshop.data.settings.pricing.currency}</dd>
               <dt className="text-walnut-500">Tax rate</dt>
-              <dd className="num">{workshop.data.settings.taxRatePct} %</dd>
+              <dd className="num">{workshop.data.settings.pricing.taxPct} % {workshop.data.settings.pricing.taxLabel}</dd>
               <dt className="text-walnut-500">Display units</dt>
               <dd>{workshop.data.settings.units === 'metric' ? 'Metric (mm, m², L, g)' : 'Imperial (in, ft², fl oz, oz)'}</dd>
             </dl>
@@ -53,7 +53,7 @@ export function OverviewPage() {
               <caption className="sr-only">Opening hours</caption>
               <tbody className="divide-y divide-parchment-200">
                 {WEEKDAYS.map((day) => {
-                  const hours = workshop.data.settings.workingWeek.find((d) => d.day === day);
+                  const hours = workshop.data.settings.calendar.workingWeek.find((d) => d.day === day);
                   return (
                     <tr key={day}>
                       <th scope="row" className="py-1.5 text-left font-normal text-walnut-600">{DAY_NAMES[day]}</th>
@@ -63,8 +63,8 @@ export function OverviewPage() {
                 })}
               </tbody>
             </table>
-            {workshop.data.settings.closedDates.length > 0 && (
-              <p className="mt-3 text-xs text-walnut-500">Closed dates: {workshop.data.settings.closedDates.join(', ')}</p>
+            {workshop.data.settings.calendar.closedDates.length > 0 && (
+              <p className="mt-3 text-xs text-walnut-500">Closed dates: {workshop.data.settings.calendar.closedDates.join(', ')}</p>
             )}
           </Card>
           <Card title={<span className="inline-flex items-center gap-2"><Flame className="h-4 w-4 text-brick-600" aria-hidden /> In the polishing room</span>}>

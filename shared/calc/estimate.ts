@@ -1,0 +1,353 @@
+/**
+ * estimate(): the whole estimator in one pure call — parts and areas, stages, shellac and spirit, other
+ * materials and packs, labour, the coat calendar, the price, ventilation and cautions.
+ */
+import { CatalogSchema } from '../schemas/catalog';
+import type { Catalog, Material, Species, Stage } from '../schemas/catalog';
+import { EstimateInputSchema } from '../schemas/calc';
+import type {
+  EstimateInput, EstimateResult, EstimateWarning, MaterialResult, ParsedEstimateInput, Part, PartResult, StageResult,
+} from '../schemas/calc';
+import { formatArea, formatMass, formatVolume } from '../units';
+import { formatAmount, money, sumMoney } from '../money';
+import type { Money } from '../money';
+import { partArea, resolvePart } from './area';
+import type { PartArea, ResolvedPart } from './area';
+import { TEMPLATE_WOOD, templateParts } from './templates';
+import { cutToGramsPerLitre, makeUpPolish, polishLitres, withWaste } from './shellac';
+import { choosePacks } from './packs';
+import { labourCost, labourMinutes, roundHours, stageHours } from './labour';
+import {
+  climateWarnings, compileCalendar, dayOf, fromMinutes, restFactor, scheduleSessions, toMinutes,
+} from './calendar';
+import type { ScheduledSession, SessionRequest } from './calendar';
+import { priceEstimate, usedCost } from './price';
+import { cautions, ventilation } from './safety';
+
+/** A problem with the input that only the catalog can reveal (an unknown system or species). */
+export class EstimateError extends Error {
+  readonly path: Array<string | number>;
+  readonly code: string;
+  constructor(code: string, path: Array<string | number>, message: string) {
+    super(message);
+    this.name = 'EstimateError';
+    this.code = code;
+    this.path = path;
+  }
+}
+
+/** Options that are not part of the estimate itself. */
+export interface EstimateOptions {
+  /** Local date used when the input gives no startDate (defaults to today's date). */
+  today?: string;
+}
+
+const checkedCatalogs = new WeakSet<object>();
+
+/** Validates a catalog once per object (the engine is called on every keystroke with the same catalog). */
+function checkCatalog(catalog: Catalog): void {
+  if (checkedCatalogs.has(catalog)) return;
+  CatalogSchema.parse(catalog);
+  checkedCatalogs.add(catalog);
+}
+
+const round = (x: number, dp: number): number => {
+  const f = 10 ** dp;
+  return Math.round(x * f) / f;
+};
+
+/** The parts list the input describes: a template's generated parts or the parts given. */
+function inputParts(input: ParsedEstimateInput): { parts: Part[]; path: Array<string | number>; defaultSpecies: string | undefined } {
+  const piece = input.piece;
+  if (piece?.template) {
+    return {
+      parts: templateParts(piece.template, piece.dimensions, input.defaultLengthUnit, { species: piece.species, veneered: piece.veneered }),
+      path: ['piece'],
+      defaultSpecies: piece.species ?? TEMPLATE_WOOD[piece.template].species,
+    };
+  }
+  if (piece?.parts) return { parts: piece.parts, path: ['piece', 'parts'], defaultSpecies: piece.species };
+  return { parts: input.parts ?? [], path: ['parts'], defaultSpecies: undefined };
+}
+
+interface PartContext {
+  part: ResolvedPart;
+  area: PartArea;
+  species: Species;
+}
+
+/** Does a stage work on this part? */
+function applies(stage: Stage, ctx: PartContext): boolean {
+  if (stage.appliesTo === 'open-pored') return ctx.species.needsGrainFill;
+  if (stage.appliesTo === 'show-faces') return ctx.part.show;
+  return true;
+}
+
+interface StageWork {
+  stage: Stage;
+  result: StageResult;
+  spiritL: number;
+  labourMin: number;
+}
+
+/** Works out one stage over the parts it applies to. */
+function workStage(stage: Stage, parts: readonly PartContext[], catalog: Catalog): StageWork | null {
+  const f = catalog.factors;
+  const coats = stage.sessions * stage.coatsPerSession;
+  let areaM2 = 0;
+  let polishL = 0;
+  let extraSpiritL = 0;
+  let partMinutes = 0;
+  const used = new Map<string, number>();
+  for (const ctx of parts) {
+    if (!applies(stage, ctx)) continue;
+    const a = ctx.area.areaM2;
+    const factor = f.complexity[ctx.part.complexity];
+    areaM2 += a;
+    polishL += polishLitres({
+      areaM2: a, mlPerM2PerCoat: stage.polishMlPerM2PerCoat, coats,
+      absorbency: stage.firstCoats ? ctx.species.absorbency : 1, materialFactor: factor.material,
+    });
+    extraSpiritL += (a * stage.spiritMlPerM2PerSession * stage.sessions * factor.material) / 1000;
+    for (const m of stage.materials) used.set(m.material, (used.get(m.material) ?? 0) + a * m.perM2 * stage.sessions * factor.material);
+    partMinutes += labourMinutes({
+      areaM2: a, minPerM2PerCoat: stage.labourMinPerM2PerCoat, coats,
+      complexityFactor: factor.labour, veneerFactor: stage.veneerCare && ctx.part.veneered ? f.veneerLabour : 1,
+    });
+  }
+  if (areaM2 === 0) return null;
+  const made = stage.cutLb > 0 ? makeUpPolish(withWaste(polishL, catalog.pricing.wastePct), stage.cutLb, catalog.shellac.apparentDensity) : null;
+  const spiritL = (made?.solventL ?? 0) + extraSpiritL;
+  const hours = stageHours(partMinutes, stage.setupMinPerSession, stage.sessions);
+  const unitOf = new Map(catalog.materials.map((m) => [m.key, m.unit]));
+  return {
+    stage,
+    spiritL,
+    labourMin: hours * 60,
+    result: {
+      key: stage.key,
+      kind: stage.kind,
+      name: stage.name,
+      sessions: stage.sessions,
+      coatsPerSession: stage.coatsPerSession,
+      coats: stage.cutLb > 0 ? coats : 0,
+      cutLb: stage.cutLb,
+      cutGPerL: round(cutToGramsPerLitre(stage.cutLb), 2),
+      areaM2: round(areaM2, 4),
+      polishL: round(made?.polishL ?? 0, 4),
+      flakesG: round(made?.flakesG ?? 0, 2),
+      spiritL: round(spiritL, 4),
+      materials: [...used].map(([material, quantity]) => ({ material, quantity: round(quantity, 3), unit: unitOf.get(material) ?? '' })),
+      labourHours: round(hours, 3),
+      handsOnHoursPerSession: round(hours / stage.sessions, 3),
+      restHours: stage.restHours,
+    },
+  };
+}
+
+/** Prices one material's need: packs, cost of the packs and of the quantity used. */
+function priceMaterial(material: Material, need: number, wholePacks: boolean): { result: MaterialResult; charged: Money } {
+  const choice = choosePacks(need, material.packs);
+  const used = usedCost(choice.cost, choice.bought, choice.need);
+  const charged = wholePacks ? money(choice.cost) : used;
+  return {
+    charged,
+    result: {
+      key: material.key,
+      name: material.name,
+      supplier: material.supplier,
+      unit: material.unit,
+      need: round(choice.need, 3),
+      packs: choice.packs,
+      bought: choice.bought,
+      leftover: round(choice.leftover, 3),
+      packsCost: choice.cost,
+      usedCost: formatAmount(used),
+      charge: formatAmount(charged),
+    },
+  };
+}
+
+function todayLocal(): string {
+  const d = new Date();
+  const pad = (n: number): string => String(n).padStart(2, '0');
+  return `${d.getFullYear()}-${pad(d.getMonth() + 1)}-${pad(d.getDate())}`;
+}
+
+/**
+ * Estimates a French-polishing job. Validates the input (throws a ZodError whose issues name the field),
+ * fills defaults, and returns plain JSON. Throws {@link EstimateError} for a system or species the catalog does
+ * not hold. Never mutates its arguments.
+ *
+ * @example estimate({ piece: { template: 'grand', dimensions: { length: '6 ft 3 in' } }, system: 'full-repolish' }, catalog).totals
+ */
+export function estimate(rawInput: EstimateInput, catalog: Catalog, options: EstimateOptions = {}): EstimateResult {
+  const input = EstimateInputSchema.parse(rawInput);
+  checkCatalog(catalog);
+
+  const system = catalog.systems.find((s) => s.key === input.system);
+  if (!system) {
+    throw new EstimateError('unknown-system', ['system'], `Unknown finishing system "${input.system}"; expected one of ${catalog.systems.map((s) => s.key).join(', ')}`);
+  }
+  const speciesByKey = new Map(catalog.species.map((s) => [s.key, s]));
+  const source = inputParts(input);
+  const defaultSpecies = source.defaultSpecies ?? (speciesByKey.has('mahogany') ? 'mahogany' : (catalog.species[0] as Species).key);
+
+  // Parts and areas.
+  const contexts: PartContext[] = source.parts.map((p, i) => {
+    const part = resolvePart(p, input.defaultLengthUnit, defaultSpecies, i);
+    const species = speciesByKey.get(part.species);
+    if (!species) {
+      const path = source.path[0] === 'piece' && source.path.length === 1 ? ['piece', 'species'] : [...source.path, i, 'species'];
+      throw new EstimateError('unknown-species', path, `Unknown species "${part.species}"; expected one of ${[...speciesByKey.keys()].join(', ')}`);
+    }
+    return { part, area: partArea(part), species };
+  });
+  const warnings: EstimateWarning[] = [];
+  for (const c of contexts) {
+    if (c.area.cutOutsExceedFace) warnings.push({ code: 'cut-outs-exceed-face', text: `The cut-outs of "${c.part.name}" are larger than the part; its face area is taken as zero.` });
+  }
+  const parts: PartResult[] = contexts.map((c) => ({
+    id: c.part.id,
+    name: c.part.name,
+    shape: c.part.shape.kind,
+    count: c.part.count,
+    faces: c.part.faces,
+    species: c.species.key,
+    pores: c.species.pores,
+    complexity: c.part.complexity,
+    veneered: c.part.veneered,
+    show: c.part.show,
+    faceAreaM2: round(c.area.faceAreaM2, 4),
+    edgeAreaM2: round(c.area.edgeAreaM2, 4),
+    areaM2: round(c.area.areaM2, 4),
+  }));
+  const totalArea = contexts.reduce((t, c) => t + c.area.areaM2, 0);
+
+  // Stages.
+  const stages = (input.stages ?? system.stages).filter((s) => s.enabled && s.sessions > 0);
+  const works = stages.map((s) => workStage(s, contexts, catalog)).filter((w): w is StageWork => w !== null);
+
+  // Materials and packs.
+  const needs = new Map<string, number>();
+  const add = (key: string, q: number): void => {
+    if (q > 0) needs.set(key, (needs.get(key) ?? 0) + q);
+  };
+  const flakesG = works.reduce((t, w) => t + w.result.flakesG, 0);
+  const spiritL = works.reduce((t, w) => t + w.spiritL, 0);
+  add(catalog.shellac.flakesMaterial, flakesG);
+  add(catalog.shellac.spiritMaterial, spiritL * 1000);
+  for (const w of works) for (const m of w.result.materials) add(m.material, m.quantity);
+  const materialsByKey = new Map(catalog.materials.map((m) => [m.key, m]));
+  const wholePacks = catalog.pricing.materialsCharge === 'whole-packs';
+  const priced = [...needs].map(([key, need]) => {
+    const material = materialsByKey.get(key);
+    if (!material) throw new EstimateError('unknown-material', ['stages'], `Unknown material "${key}" in a stage`);
+    return priceMaterial(material, need, wholePacks);
+  });
+  const materialsCost = sumMoney(priced.map((p) => p.charged));
+
+  // Labour.
+  const labourHours = roundHours(works.reduce((t, w) => t + w.labourMin, 0) / 60);
+  const rate = catalog.labourRates.find((r) => r.key === catalog.pricing.polisherRate);
+  if (!rate) throw new EstimateError('unknown-rate', ['pricing', 'polisherRate'], `Unknown labour rate "${catalog.pricing.polisherRate}"`);
+  const labour = labourCost(labourHours, rate.perHour);
+
+  // Calendar.
+  const climate = input.climate ?? { temperatureC: 20, humidityPct: 50 };
+  const factor = restFactor(climate.temperatureC, climate.humidityPct);
+  if (input.climate) warnings.push(...climateWarnings(climate.temperatureC, climate.humidityPct));
+  const requests: SessionRequest[] = [];
+  const sessionSpiritL: number[] = [];
+  for (const w of works) {
+    for (let s = 1; s <= w.stage.sessions; s++) {
+      sessionSpiritL.push(w.spiritL / w.stage.sessions);
+      requests.push({ stage: w.stage.key, stageKind: w.stage.kind, session: s, handsOnMin: w.labourMin / w.stage.sessions, restMin: w.stage.restHours * 60 * factor });
+    }
+  }
+  const startText = input.startDate ?? options.today ?? todayLocal();
+  const startDay = toMinutes(startText.slice(0, 10));
+  const scheduled = scheduleSessions(requests, compileCalendar(catalog.calendar), toMinutes(startText));
+  const first = scheduled[0] as ScheduledSession | undefined;
+  const last = scheduled[scheduled.length - 1] as ScheduledSession | undefined;
+  const firstFinish = scheduled.findIndex((s) => s.stageKind === 'cut-back' || s.stageKind === 'burnish');
+  const dryEnd = firstFinish > 0 ? (scheduled[firstFinish - 1] as ScheduledSession).restUntil : (last?.restUntil ?? startDay);
+  const jobStart = first?.start ?? startDay;
+  const jobEnd = last?.end ?? startDay;
+  const calendarDays = first ? dayOf(jobEnd) - dayOf(jobStart) + 1 : 0;
+
+  // Price.
+  const price = priceEstimate({ materialsCost, labourHours, labourCost: labour, perHour: rate.perHour, discountPct: input.discountPct, pricing: catalog.pricing });
+  if (input.discountPct > catalog.pricing.maxDiscountPct) {
+    warnings.push({ code: 'discount-over-cap', text: `A discount of ${input.discountPct} % is above the workshop's cap of ${catalog.pricing.maxDiscountPct} %.` });
+  }
+
+  // Safety.
+  const vent = ventilation(
+    scheduled.map((s) => ({ index: s.index, date: fromMinutes(s.start).slice(0, 10), spiritL: sessionSpiritL[s.index] ?? 0, handsOnMin: s.handsOnMin })),
+    catalog.safety,
+  );
+  if (!vent.adequate) {
+    warnings.push({ code: 'ventilation', text: `The finishing room supplies ${Math.round(vent.suppliedFlowM3h)} m³/h of air; the busiest session needs ${Math.ceil(vent.requiredFlowM3h)} m³/h.` });
+  }
+
+  const coats = works.reduce((t, w) => t + w.result.coats, 0);
+  return {
+    totals: {
+      areaM2: round(totalArea, 3),
+      coats,
+      labourHours,
+      flakesG: round(flakesG, 1),
+      spiritL: round(spiritL, 3),
+      calendarDays,
+      price: price.total,
+      currency: price.currency,
+    },
+    cautions: cautions(vent, catalog.safety.spirit),
+    warnings,
+    display: {
+      units: input.units,
+      area: formatArea(totalArea, input.units),
+      flakes: formatMass(flakesG, input.units),
+      spirit: formatVolume(spiritL, input.units),
+    },
+    system: system.key,
+    catalogVersion: catalog.version,
+    parts,
+    stages: works.map((w) => w.result),
+    materials: priced.map((p) => p.result),
+    labour: { hours: labourHours, rate: rate.key, perHour: rate.perHour, cost: formatAmount(labour) },
+    calendar: {
+      start: fromMinutes(jobStart),
+      end: fromMinutes(jobEnd),
+      calendarDays,
+      restFactor: round(factor, 4),
+      sessions: scheduled.map((s) => ({
+        index: s.index,
+        stage: s.stage,
+        stageKind: s.stageKind,
+        session: s.session,
+        start: fromMinutes(s.start),
+        end: fromMinutes(s.end),
+        handsOnHours: round(s.handsOnMin / 60, 3),
+        restHours: round(s.restMin / 60, 3),
+        restUntil: fromMinutes(s.restUntil),
+        spiritL: round(sessionSpiritL[s.index] ?? 0, 4),
+        segments: s.segments.map((g) => ({ start: fromMinutes(g.start), end: fromMinutes(g.end) })),
+      })),
+      dryingRoom: { start: fromMinutes(jobStart), end: fromMinutes(dryEnd), days: first ? dayOf(dryEnd) - dayOf(jobStart) + 1 : 0 },
+    },
+    price,
+    ventilation: {
+      ...vent,
+      worstSession: { ...vent.worstSession, spiritL: round(vent.worstSession.spiritL, 4), evaporationLPerMin: round(vent.worstSession.evaporationLPerMin, 6) },
+      worstDay: { ...vent.worstDay, spiritL: round(vent.worstDay.spiritL, 4) },
+      days: vent.days.map((d) => ({ date: d.date, spiritL: round(d.spiritL, 4) })),
+      concentrationPpm: round(vent.concentrationPpm, 1),
+      mixtureLelPct: round(vent.mixtureLelPct, 3),
+      quarterLelPpm: round(vent.quarterLelPpm, 0),
+      requiredFlowM3h: round(vent.requiredFlowM3h, 1),
+      requiredFlowCfm: round(vent.requiredFlowCfm, 1),
+    },
+  };
+}

@@ -1,0 +1,206 @@
+/**
+ * Lengths written as text, parsed exactly with mathjs units into millimetres, and display formatting of
+ * areas, volumes, masses and lengths in metric or imperial units.
+ *
+ * Inside the engine lengths are millimetres, areas square metres, volumes litres and masses grams.
+ */
+import { unit } from 'mathjs';
+
+/** Length units a bare number may take. */
+export const LENGTH_UNITS = ['mm', 'cm', 'm', 'in', 'ft'] as const;
+export type LengthUnit = (typeof LENGTH_UNITS)[number];
+
+/** Display systems a workshop may choose. */
+export const UNIT_SYSTEMS = ['metric', 'imperial'] as const;
+export type UnitSystem = (typeof UNIT_SYSTEMS)[number];
+
+/** The largest length the estimator accepts: nothing in a workshop is longer than 100 m. */
+export const MAX_LENGTH_MM = 100_000;
+
+const EXPECTED =
+  'a positive length such as "190 cm", "1.9 m", "1900 mm", "75 in", "6 ft 3 in" or "6\' 3\\"", or a bare number in the default unit';
+
+/** Thrown when a length cannot be read; carries the offending text and what was expected. */
+export class UnitParseError extends Error {
+  readonly text: string;
+  readonly expected: string;
+  constructor(text: string, reason: string, expected: string = EXPECTED) {
+    super(`Cannot read "${text}" as a length: ${reason}; expected ${expected}`);
+    this.name = 'UnitParseError';
+    this.text = text;
+    this.expected = expected;
+  }
+}
+
+const UNIT_ALIASES: Readonly<Record<string, LengthUnit>> = {
+  mm: 'mm', millimetre: 'mm', millimetres: 'mm', millimeter: 'mm', millimeters: 'mm',
+  cm: 'cm', centimetre: 'cm', centimetres: 'cm', centimeter: 'cm', centimeters: 'cm',
+  m: 'm', metre: 'm', metres: 'm', meter: 'm', meters: 'm',
+  in: 'in', inch: 'in', inches: 'in',
+  ft: 'ft', foot: 'ft', feet: 'ft',
+};
+
+/** mathjs spells the units the same way as LENGTH_UNITS, so the mapping is the identity. */
+const MATHJS_NAME: Readonly<Record<LengthUnit, string>> = { mm: 'mm', cm: 'cm', m: 'm', in: 'in', ft: 'ft' };
+
+/**
+ * Rounds away binary floating-point noise (75 in is 1905.0000000000002 mm in IEEE doubles) at one nanometre,
+ * far below any workshop measurement.
+ */
+function roundNano(mm: number): number {
+  return Math.round(mm * 1e6) / 1e6;
+}
+
+/**
+ * Converts a value in a length unit to millimetres with mathjs units (exact definitions: 1 in = 25.4 mm).
+ *
+ * @example toMillimetres(75, 'in') // 1905
+ */
+export function toMillimetres(value: number, from: LengthUnit): number {
+  if (from === 'mm') return value;
+  return roundNano(unit(value, MATHJS_NAME[from]).toNumber('mm'));
+}
+
+/**
+ * Converts millimetres to another length unit.
+ *
+ * @example fromMillimetres(1905, 'ft') // 6.25
+ */
+export function fromMillimetres(mm: number, to: LengthUnit): number {
+  return unit(mm, 'mm').toNumber(MATHJS_NAME[to]);
+}
+
+function checkMagnitude(mm: number, text: string, allowZero: boolean): number {
+  if (!Number.isFinite(mm)) throw new UnitParseError(text, 'it is not a finite number');
+  if (mm < 0) throw new UnitParseError(text, 'a length cannot be negative');
+  if (mm === 0 && !allowZero) throw new UnitParseError(text, 'a length must be more than zero');
+  if (mm > MAX_LENGTH_MM) throw new UnitParseError(text, 'it is longer than 100 m');
+  return mm;
+}
+
+const NUMBER = String.raw`(?:\d+(?:\.\d*)?|\.\d+)(?:e[+-]?\d+)?`;
+const PLAIN_MM = /^\s*(\d{1,9}(?:\.\d{1,9})?)\s*mm\s*$/;
+const TOKEN = new RegExp(String.raw`\s*(${NUMBER})\s*([a-z]+)?\s*`, 'y');
+
+/** Options for {@link parseLength}. */
+export interface ParseLengthOptions {
+  /** Accept zero (for example a thickness that may be absent). Default false. */
+  allowZero?: boolean;
+}
+
+/**
+ * Reads a length written as text (or a bare number) and returns millimetres.
+ *
+ * Accepts a number with a unit ("190 cm", "1.9 m", "1900 mm", "75 in", "75.5in"), a sum of feet and inches
+ * ("6 ft 3 in", "6ft3in", "6' 3\"", "6 ft"), or a bare number (number or numeric string) in `defaultUnit`.
+ * Throws {@link UnitParseError} for anything else, for negatives, zero (unless allowed), NaN, Infinity and
+ * lengths over 100 m.
+ *
+ * @example parseLength('6 ft 3 in') // 1905
+ * @example parseLength(75, 'in') // 1905
+ */
+export function parseLength(value: string | number, defaultUnit: LengthUnit = 'mm', options: ParseLengthOptions = {}): number {
+  const allowZero = options.allowZero ?? false;
+  if (typeof value === 'number') {
+    const shown = String(value);
+    if (!Number.isFinite(value)) throw new UnitParseError(shown, 'it is not a finite number');
+    if (value < 0) throw new UnitParseError(shown, 'a length cannot be negative');
+    if (value > MAX_LENGTH_MM) throw new UnitParseError(shown, 'it is longer than 100 m');
+    return checkMagnitude(toMillimetres(value, defaultUnit), shown, allowZero);
+  }
+  if (typeof value !== 'string') throw new UnitParseError(String(value), 'it is neither text nor a number');
+  // Fast path for the plain millimetre text the templates write ("1905 mm"): no conversion is involved.
+  const plainMm = PLAIN_MM.exec(value);
+  if (plainMm) return checkMagnitude(Number(plainMm[1]), value, allowZero);
+  const text = value
+    .trim()
+    .toLowerCase()
+    .replace(/''|[″”“"]/g, ' in ')
+    .replace(/[′’‘']/g, ' ft ');
+  if (text === '') throw new UnitParseError(value, 'it is empty');
+  if (text.startsWith('-')) throw new UnitParseError(value, 'a length cannot be negative');
+  if (text.includes(',')) throw new UnitParseError(value, 'use a point, not a comma, for decimals');
+
+  const parts: Array<{ amount: number; unit: LengthUnit | null }> = [];
+  TOKEN.lastIndex = 0;
+  while (TOKEN.lastIndex < text.length) {
+    const at = TOKEN.lastIndex;
+    const match = TOKEN.exec(text);
+    if (!match || match.index !== at) throw new UnitParseError(value, `unexpected text at "${text.slice(at).trim()}"`);
+    const amount = Number(match[1]);
+    const word = match[2];
+    let lengthUnit: LengthUnit | null = null;
+    if (word !== undefined) {
+      const known = UNIT_ALIASES[word];
+      if (!known) throw new UnitParseError(value, `"${word}" is not a length unit (use mm, cm, m, in or ft)`);
+      lengthUnit = known;
+    }
+    parts.push({ amount, unit: lengthUnit });
+  }
+  const first = parts[0];
+  if (!first) throw new UnitParseError(value, 'no number found');
+  if (parts.length === 1 && first.unit === null) {
+    if (first.amount > MAX_LENGTH_MM) throw new UnitParseError(value, 'it is longer than 100 m');
+    return checkMagnitude(toMillimetres(first.amount, defaultUnit), value, allowZero);
+  }
+  let mm = 0;
+  for (const part of parts) {
+    if (part.unit === null) throw new UnitParseError(value, 'every number in a compound length needs a unit');
+    if (!Number.isFinite(part.amount) || part.amount > MAX_LENGTH_MM) throw new UnitParseError(value, 'it is longer than 100 m');
+    mm += toMillimetres(part.amount, part.unit);
+  }
+  return checkMagnitude(roundNano(mm), value, allowZero);
+}
+
+/** Exact conversion factors, from mathjs's unit definitions. */
+const FT2_PER_M2 = 1 / unit(1, 'ft^2').toNumber('m^2');
+const ML_PER_US_FLOZ = unit(1, 'floz').toNumber('mL');
+const ML_PER_US_PINT = unit(1, 'pint').toNumber('mL');
+const G_PER_OZ = unit(1, 'oz').toNumber('g');
+const G_PER_LB = unit(1, 'lb').toNumber('g');
+
+/** Rounds to a precision that suits the size: 0 dp from 100, 1 dp from 10, else 2 dp. */
+function sensible(value: number): string {
+  const abs = Math.abs(value);
+  const digits = abs >= 100 ? 0 : abs >= 10 ? 1 : 2;
+  return value.toFixed(digits);
+}
+
+/**
+ * Formats an area given in square metres.
+ *
+ * @example formatArea(1, 'imperial') // "10.8 ft²"
+ */
+export function formatArea(m2: number, system: UnitSystem): string {
+  return system === 'metric' ? `${sensible(m2)} m²` : `${sensible(m2 * FT2_PER_M2)} ft²`;
+}
+
+/**
+ * Formats a volume given in litres: mL under a litre, else L; imperial in US fl oz under a pint, else US pints.
+ *
+ * @example formatVolume(0.25, 'metric') // "250 mL"
+ */
+export function formatVolume(litres: number, system: UnitSystem): string {
+  const ml = litres * 1000;
+  if (system === 'metric') return ml < 1000 ? `${sensible(ml)} mL` : `${sensible(litres)} L`;
+  return ml < ML_PER_US_PINT ? `${sensible(ml / ML_PER_US_FLOZ)} US fl oz` : `${sensible(ml / ML_PER_US_PINT)} US pints`;
+}
+
+/**
+ * Formats a mass given in grams: g or kg; imperial oz or lb.
+ *
+ * @example formatMass(453.59237, 'imperial') // "1.00 lb"
+ */
+export function formatMass(grams: number, system: UnitSystem): string {
+  if (system === 'metric') return grams < 1000 ? `${sensible(grams)} g` : `${sensible(grams / 1000)} kg`;
+  return grams < G_PER_LB ? `${sensible(grams / G_PER_OZ)} oz` : `${sensible(grams / G_PER_LB)} lb`;
+}
+
+/**
+ * Formats a length given in millimetres: mm, or inches to a tenth.
+ *
+ * @example formatLength(1905, 'imperial') // "75.0 in"
+ */
+export function formatLength(mm: number, system: UnitSystem): string {
+  return system === 'metric' ? `${Math.round(mm)} mm` : `${fromMillimetres(mm, 'in').toFixed(1)} in`;
+}
