@@ -1,5 +1,5 @@
 import { Op, QueryTypes, type Sequelize, type WhereOptions } from 'sequelize';
-import { CustomerInputSchema, type Customer as CustomerDto, type CustomerListQuerySchema } from '@shared/schemas/customers';
+import { type CustomerInputSchema, type Customer as CustomerDto, type CustomerListQuerySchema } from '@shared/schemas/customers';
 import type { Page } from '@shared/schemas/auth';
 import type { z } from 'zod';
 import { problems } from '../http/problem';
