@@ -14,7 +14,10 @@ import { apiNotFound, errorHandler } from './http/problem';
 import { initModels } from './models';
 import { authRoutes } from './routes/auth';
 import { calcRoutes } from './routes/calc';
+import { customerRoutes } from './routes/customers';
+import { estimateRoutes } from './routes/estimates';
 import { healthRoutes } from './routes/health';
+import { pieceRoutes } from './routes/pieces';
 import { userRoutes } from './routes/users';
 import { workshopRoutes } from './routes/workshop';
 
@@ -104,6 +107,9 @@ export function createApp({ config, sequelize, databaseUrl, serveClient = true }
   app.use(userRoutes(sequelize, routes));
   app.use(workshopRoutes(routes));
   app.use(calcRoutes(sequelize, routes));
+  app.use(customerRoutes(sequelize, routes));
+  app.use(pieceRoutes(config, sequelize, routes));
+  app.use(estimateRoutes(sequelize, routes));
   app.use('/api', apiNotFound);
 
   if (serveClient) {

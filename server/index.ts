@@ -23,7 +23,7 @@ export async function runServer(config: Config = loadConfig()): Promise<RunningS
   const sequelize = createSequelize(databaseUrl);
   await createMigrator(sequelize).up();
   initModels(sequelize);
-  await seed(sequelize, { demo: config.demo, log: (m) => console.log(`[demo] ${m}`) });
+  await seed(sequelize, { demo: config.demo, uploadsDir: config.uploadsDir, log: (m) => console.log(`[demo] ${m}`) });
 
   const built = createApp({ config, sequelize, databaseUrl });
   const server = http.createServer(built.app);

@@ -8,7 +8,7 @@ import fs from 'node:fs';
 import path from 'node:path';
 import { buildClientIfNeeded } from '../server/cli/build-client';
 import { loadConfig, rootDir } from '../server/config';
-import { clusterUrl, describeCluster, ensureDatabase, startCluster, stopCluster, type Cluster } from '../server/db/cluster';
+import { clusterUrl, describeCluster, dropDatabase, ensureDatabase, startCluster, stopCluster, type Cluster } from '../server/db/cluster';
 import { createMigrator } from '../server/db/migrator';
 import { createSequelize } from '../server/db/sequelize';
 import { initModels } from '../server/models';
@@ -27,19 +27,25 @@ function ensureChromium(): void {
   execFileSync('apt-get', ['install', '-y', '-qq', 'chromium', 'poppler-utils'], { stdio: 'inherit', env });
 }
 
-async function prepareDatabase(): Promise<{ url: string; started?: Cluster }> {
+/** A database of this run's own, so that two runs on one machine never pull a database from under each other. */
+const TEST_DATABASE = `shellwright_test_${process.pid}`;
+
+async function prepareDatabase(): Promise<{ url: string; cluster?: Cluster; started?: Cluster }> {
   const explicit = process.env.TEST_DATABASE_URL;
   if (explicit) return { url: explicit };
   const config = loadConfig();
   const cluster = describeCluster(config.dataDir);
   const started = startCluster(cluster) ? cluster : undefined;
-  await ensureDatabase(cluster, 'shellwright_test', { fresh: true });
-  return { url: clusterUrl(cluster, 'shellwright_test'), started };
+  await ensureDatabase(cluster, TEST_DATABASE, { fresh: true });
+  return { url: clusterUrl(cluster, TEST_DATABASE), cluster, started };
 }
 
 async function main(): Promise<number> {
   const vitestArgs = process.argv.slice(2);
-  const { url, started } = await prepareDatabase();
+  // Uploads made by the tests go to a folder of their own, emptied on every run.
+  process.env.SHELLWRIGHT_UPLOADS_DIR = path.join(loadConfig().dataDir, `test-uploads-${process.pid}`);
+  fs.rmSync(process.env.SHELLWRIGHT_UPLOADS_DIR, { recursive: true, force: true });
+  const { url, cluster, started } = await prepareDatabase();
   try {
     const sequelize = createSequelize(url);
     const migrator = createMigrator(sequelize, { quiet: true });
@@ -48,7 +54,7 @@ async function main(): Promise<number> {
     await migrator.up();
     console.log(`[test] migrations: ${(await migrator.executed()).length} applied, each reverted and re-applied`);
     initModels(sequelize);
-    await seed(sequelize, { demo: true });
+    await seed(sequelize, { demo: true, uploadsDir: loadConfig().uploadsDir });
     await sequelize.close();
 
     ensureChromium();
@@ -72,6 +78,8 @@ async function main(): Promise<number> {
     }
     return code;
   } finally {
+    if (cluster) await dropDatabase(cluster, TEST_DATABASE);
+    fs.rmSync(process.env.SHELLWRIGHT_UPLOADS_DIR, { recursive: true, force: true });
     if (started) stopCluster(started);
   }
 }

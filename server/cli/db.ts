@@ -56,10 +56,11 @@ async function main(command: string | undefined, arg: string | undefined): Promi
       const cluster = describeCluster(config.dataDir);
       startCluster(cluster);
       await ensureDatabase(cluster, DEV_DATABASE, { fresh: true });
+      fs.rmSync(config.uploadsDir, { recursive: true, force: true });
       const sequelize = createSequelize(clusterUrl(cluster, DEV_DATABASE));
       await createMigrator(sequelize).up();
       initModels(sequelize);
-      await seed(sequelize, { demo: config.demo, log: (m) => console.log(`[demo] ${m}`) });
+      await seed(sequelize, { demo: config.demo, uploadsDir: config.uploadsDir, log: (m) => console.log(`[demo] ${m}`) });
       await sequelize.close();
       console.log('[db] reset: fresh database with migrations and the demo workshop');
       return;

@@ -215,6 +215,17 @@ export async function ensureDatabase(cluster: Cluster, database: string, opts: {
   }
 }
 
+/** Drops a database if it exists, ending its connections. */
+export async function dropDatabase(cluster: Cluster, database: string): Promise<void> {
+  const client = new pg.Client({ connectionString: clusterUrl(cluster, 'postgres') });
+  await client.connect();
+  try {
+    await client.query(`DROP DATABASE IF EXISTS "${database.replace(/"/g, '""')}" WITH (FORCE)`);
+  } finally {
+    await client.end();
+  }
+}
+
 /** Runs a client program (pg_dump, pg_restore, psql) of the same PostgreSQL version. */
 export function clientProgram(cluster: Pick<Cluster, 'binDir'>, name: string): string {
   return path.join(cluster.binDir, name);

@@ -1,4 +1,5 @@
 import type { ErrorRequestHandler, RequestHandler, Response } from 'express';
+import { MulterError } from 'multer';
 import { ConnectionError, UniqueConstraintError } from 'sequelize';
 import { ZodError, type z } from 'zod';
 import type { Problem } from '@shared/schemas/problem';
@@ -95,7 +96,14 @@ export const errorHandler: ErrorRequestHandler = (err: unknown, _req, res, next)
   if (typed?.code === 'EBADCSRFTOKEN' || typed?.code === 'csrf_invalid') {
     return sendProblem(res, new HttpProblem(403, 'csrf_invalid', 'Missing or invalid CSRF token', 'Fetch a token from GET /api/auth/csrf and send it in the x-csrf-token header.'));
   }
+  if (err instanceof MulterError) {
+    const field = err.field ?? 'file';
+    const tooLarge = err.code === 'LIMIT_FILE_SIZE';
+    const detail = tooLarge ? `${field}: a file is larger than allowed` : `${field}: ${err.message}`;
+    return sendProblem(res, new HttpProblem(tooLarge ? 413 : 400, tooLarge ? 'file_too_large' : 'bad_upload', tooLarge ? 'File too large' : 'Bad upload', detail, { field, errors: [{ field, message: detail }] }));
+  }
   if (isDbDown(err)) return sendProblem(res, problems.dbDown());
+  if (typed?.status === 404) return sendProblem(res, problems.notFound('That file'));
   console.error('[server] unexpected error', err);
   sendProblem(res, new HttpProblem(500, 'internal', 'Internal error', 'Something went wrong on the server.'));
 };

@@ -45,27 +45,44 @@ export async function loadSettings(transaction?: Transaction): Promise<{ worksho
   return { workshop, settings: parsed.data };
 }
 
+async function sequentially(tasks: readonly (() => Promise<unknown>)[]): Promise<unknown[]> {
+  const out: unknown[] = [];
+  for (const task of tasks) out.push(await task());
+  return out;
+}
+
 /** Loads the catalog in force on `onDate` (YYYY-MM-DD; today when left out). */
 export async function loadCatalog(sequelize: Sequelize, opts: { onDate?: string; transaction?: Transaction } = {}): Promise<LoadedCatalog> {
   const { transaction } = opts;
   const onDate = opts.onDate ?? new Date().toISOString().slice(0, 10);
-  const [{ settings }, species, systems, materials, rates, priceRows] = await Promise.all([
-    loadSettings(transaction),
-    Species.findAll({ where: { archived: false }, order: [['name', 'ASC']], transaction }),
-    FinishingSystem.findAll({ where: { archived: false }, order: [['id', 'ASC']], transaction }),
-    Material.findAll({ order: [['id', 'ASC']], transaction }),
-    LabourRate.findAll({ order: [['id', 'ASC']], transaction }),
-    sequelize.query<PriceRow>(
-      `SELECT p.id AS pack_id, p.material_id, p.size::text AS size, p.label, p.supplier,
-              (SELECT pp.price::text FROM pack_prices pp
-                WHERE pp.pack_id = p.id AND pp.effective_from <= :onDate
-                ORDER BY pp.effective_from DESC, pp.id DESC LIMIT 1) AS price
-         FROM material_packs p
-        WHERE NOT p.archived
-        ORDER BY p.material_id, p.size`,
-      { replacements: { onDate }, type: QueryTypes.SELECT, transaction },
-    ),
-  ]);
+  // One transaction is one connection: its queries run one after another. Without one, they run side by side.
+  const tasks = [
+    () => loadSettings(transaction),
+    () => Species.findAll({ where: { archived: false }, order: [['name', 'ASC']], transaction }),
+    () => FinishingSystem.findAll({ where: { archived: false }, order: [['id', 'ASC']], transaction }),
+    () => Material.findAll({ order: [['id', 'ASC']], transaction }),
+    () => LabourRate.findAll({ order: [['id', 'ASC']], transaction }),
+    () =>
+      sequelize.query<PriceRow>(
+        `SELECT p.id AS pack_id, p.material_id, p.size::text AS size, p.label, p.supplier,
+                (SELECT pp.price::text FROM pack_prices pp
+                  WHERE pp.pack_id = p.id AND pp.effective_from <= :onDate
+                  ORDER BY pp.effective_from DESC, pp.id DESC LIMIT 1) AS price
+           FROM material_packs p
+          WHERE NOT p.archived
+          ORDER BY p.material_id, p.size`,
+        { replacements: { onDate }, type: QueryTypes.SELECT, transaction },
+      ),
+  ] as const;
+  const results = transaction ? await sequentially(tasks) : await Promise.all(tasks.map((t) => t()));
+  const [{ settings }, species, systems, materials, rates, priceRows] = results as unknown as [
+    Awaited<ReturnType<(typeof tasks)[0]>>,
+    Awaited<ReturnType<(typeof tasks)[1]>>,
+    Awaited<ReturnType<(typeof tasks)[2]>>,
+    Awaited<ReturnType<(typeof tasks)[3]>>,
+    Awaited<ReturnType<(typeof tasks)[4]>>,
+    Awaited<ReturnType<(typeof tasks)[5]>>,
+  ];
 
   const warnings: LoadedCatalog['warnings'] = [];
   const packsByMaterial = new Map<number, PriceRow[]>();
