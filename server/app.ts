@@ -12,12 +12,18 @@ import { csrf } from './http/csrf';
 import type { RouteInfo } from './http/guard';
 import { apiNotFound, errorHandler } from './http/problem';
 import { initModels } from './models';
+import { auditRoutes } from './routes/audit';
 import { authRoutes } from './routes/auth';
 import { calcRoutes } from './routes/calc';
 import { customerRoutes } from './routes/customers';
 import { estimateRoutes } from './routes/estimates';
+import { finishingRoutes } from './routes/finishing';
 import { healthRoutes } from './routes/health';
 import { pieceRoutes } from './routes/pieces';
+import { publicQuoteRoutes } from './routes/public-quotes';
+import { quoteRoutes } from './routes/quotes';
+import { priceListRoutes } from './routes/price-list';
+import { settingsRoutes } from './routes/settings';
 import { userRoutes } from './routes/users';
 import { workshopRoutes } from './routes/workshop';
 
@@ -68,7 +74,9 @@ export function createApp({ config, sequelize, databaseUrl, serveClient = true }
       },
     }),
   );
-  app.use(express.json({ limit: '1mb' }));
+  // Webhooks are verified against their raw bytes: they skip the JSON parser.
+  const json = express.json({ limit: '1mb' });
+  app.use((req, res, next) => (req.path.startsWith('/api/webhooks/') ? next() : json(req, res, next)));
 
   // Health answers before the session store is touched, so it works while the database is down.
   app.use(healthRoutes(sequelize, routes));
@@ -110,6 +118,12 @@ export function createApp({ config, sequelize, databaseUrl, serveClient = true }
   app.use(customerRoutes(sequelize, routes));
   app.use(pieceRoutes(config, sequelize, routes));
   app.use(estimateRoutes(sequelize, routes));
+  app.use(quoteRoutes(config, sequelize, routes));
+  app.use(publicQuoteRoutes(config, sequelize, routes));
+  app.use(priceListRoutes(sequelize, routes));
+  app.use(settingsRoutes(sequelize, routes));
+  app.use(finishingRoutes(sequelize, routes));
+  app.use(auditRoutes(sequelize, routes));
   app.use('/api', apiNotFound);
 
   if (serveClient) {

@@ -22,6 +22,14 @@ export interface Config {
   /** Failed sign-in attempts allowed per address and e-mail in the window. */
   loginAttempts: number;
   loginWindowMs: number;
+  /** Where customers reach the app: links in e-mails and payment return addresses. */
+  publicUrl: string;
+  /** Signs customers' quote links. */
+  linkSecret: string;
+  /** SMTP (SMTP_URL); unset outside production means the local mail catcher. */
+  mail: { url: string | undefined; from: string };
+  /** The payment provider; unset outside production means the local stand-in. */
+  payments: { apiUrl: string | undefined; secretKey: string | undefined; webhookSecret: string | undefined };
 }
 
 function intFromEnv(name: string, fallback: number): number {
@@ -53,20 +61,31 @@ export function loadConfig(): Config {
   const env = nodeEnv === 'production' ? 'production' : nodeEnv === 'test' ? 'test' : 'development';
   const dataDir = path.resolve(process.env.SHELLWRIGHT_DATA_DIR ?? path.join(rootDir, '.data'));
   const secret = process.env.SESSION_SECRET;
+  const port = intFromEnv('PORT', 3000);
+  const host = process.env.HOST ?? '127.0.0.1';
+  const sessionSecret = secret ?? localSecret(dataDir);
   if (env === 'production' && !secret) {
     throw new Error('SESSION_SECRET must be set in production (a long random string)');
   }
   return {
     env,
-    port: intFromEnv('PORT', 3000),
-    host: process.env.HOST ?? '127.0.0.1',
+    port,
+    host,
     databaseUrl: process.env.DATABASE_URL || undefined,
     dataDir,
     uploadsDir: path.resolve(process.env.SHELLWRIGHT_UPLOADS_DIR ?? path.join(dataDir, 'uploads')),
-    sessionSecret: secret ?? localSecret(dataDir),
+    sessionSecret,
     demo: env !== 'production' || process.env.SHELLWRIGHT_DEMO === '1',
     trustProxy: process.env.TRUST_PROXY === '1',
     loginAttempts: intFromEnv('SHELLWRIGHT_LOGIN_ATTEMPTS', 10),
     loginWindowMs: intFromEnv('SHELLWRIGHT_LOGIN_WINDOW_MS', 15 * 60 * 1000),
+    publicUrl: (process.env.PUBLIC_URL ?? `http://${host}:${port}`).replace(/\/$/, ''),
+    linkSecret: process.env.LINK_SECRET ?? sessionSecret,
+    mail: { url: process.env.SMTP_URL || undefined, from: process.env.MAIL_FROM ?? 'Shellwright quotes <quotes@shellwright.invalid>' },
+    payments: {
+      apiUrl: process.env.PAYMENTS_API_URL || undefined,
+      secretKey: process.env.PAYMENTS_SECRET_KEY || undefined,
+      webhookSecret: process.env.PAYMENTS_WEBHOOK_SECRET || undefined,
+    },
   };
 }

@@ -5,6 +5,7 @@
 import http from 'node:http';
 import { pathToFileURL } from 'node:url';
 import { createApp } from './app';
+import { startLocalServices } from './fakes';
 import { loadConfig, type Config } from './config';
 import { resolveDatabaseUrl } from './db/connect';
 import { createMigrator } from './db/migrator';
@@ -18,6 +19,11 @@ export interface RunningServer {
   stop(): Promise<void>;
 }
 
+function portFromEnv(name: string): number | undefined {
+  const raw = process.env[name];
+  return raw ? Number(raw) : undefined;
+}
+
 export async function runServer(config: Config = loadConfig()): Promise<RunningServer> {
   const databaseUrl = await resolveDatabaseUrl(config);
   const sequelize = createSequelize(databaseUrl);
@@ -25,6 +31,9 @@ export async function runServer(config: Config = loadConfig()): Promise<RunningS
   initModels(sequelize);
   await seed(sequelize, { demo: config.demo, uploadsDir: config.uploadsDir, log: (m) => console.log(`[demo] ${m}`) });
 
+  const local = await startLocalServices(config, { smtpPort: portFromEnv('SHELLWRIGHT_SMTP_PORT'), paymentsPort: portFromEnv('SHELLWRIGHT_PAYMENTS_PORT') });
+  if (local.mail) console.log(`[mail] local mail catcher on ${local.mail.url}: sent mail is kept in .data/mail and on the Outbox page`);
+  if (local.payments) console.log(`[payments] local payment stand-in on ${local.payments.url}`);
   const built = createApp({ config, sequelize, databaseUrl });
   const server = http.createServer(built.app);
   await new Promise<void>((resolve, reject) => {
@@ -40,6 +49,7 @@ export async function runServer(config: Config = loadConfig()): Promise<RunningS
       server.closeAllConnections();
       await new Promise<void>((resolve) => server.close(() => resolve()));
       await built.close();
+      await local.stop();
       await sequelize.close();
     })();
     return stopping;

@@ -2,11 +2,14 @@ import type { Sequelize } from 'sequelize';
 import { AuditEntry } from './audit-entry';
 import { associateEstimates, Customer, Estimate, EstimateRevision, Piece, PiecePhoto } from './estimates';
 import { associateCatalog, FinishingSystem, LabourRate, Material, MaterialPack, PackPrice, Species } from './catalog';
+import { PriceFilePreview } from './price-file-preview';
+import { associateQuotes, OutboxMessage, Payment, PaymentEvent, Quote } from './quotes';
 import { User } from './user';
 import { Workshop } from './workshop';
 
 export { Customer, Estimate, EstimateRevision, Piece, PiecePhoto };
-export { AuditEntry, FinishingSystem, LabourRate, Material, MaterialPack, PackPrice, Species, User, Workshop };
+export { OutboxMessage, Payment, PaymentEvent, Quote };
+export { AuditEntry, FinishingSystem, LabourRate, Material, MaterialPack, PackPrice, PriceFilePreview, Species, User, Workshop };
 
 let boundTo: Sequelize | undefined;
 
@@ -14,10 +17,11 @@ let boundTo: Sequelize | undefined;
 export function initModels(sequelize: Sequelize): void {
   if (boundTo === sequelize) return;
   if (boundTo) throw new Error('models are already bound to another connection');
-  for (const model of [User, Workshop, AuditEntry, Species, FinishingSystem, Material, MaterialPack, PackPrice, LabourRate, Customer, Piece, PiecePhoto, Estimate, EstimateRevision]) {
+  for (const model of [User, Workshop, AuditEntry, Species, FinishingSystem, Material, MaterialPack, PackPrice, LabourRate, PriceFilePreview, Customer, Piece, PiecePhoto, Estimate, EstimateRevision, Quote, OutboxMessage, Payment, PaymentEvent]) {
     model.initModel(sequelize);
   }
   associateCatalog();
   associateEstimates(User);
+  associateQuotes(Estimate);
   boundTo = sequelize;
 }

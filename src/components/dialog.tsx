@@ -2,7 +2,7 @@ import { X } from 'lucide-react';
 import { useEffect, useId, useRef, type ReactNode } from 'react';
 
 /** A modal dialog: Escape or the close button dismisses it; focus moves into it on open. */
-export function Dialog({ title, open, onClose, children }: { title: string; open: boolean; onClose: () => void; children: ReactNode }) {
+export function Dialog({ title, open, onClose, children, wide = false }: { title: string; open: boolean; onClose: () => void; children: ReactNode; wide?: boolean }) {
   const titleId = useId();
   const panel = useRef<HTMLDivElement>(null);
   useEffect(() => {
@@ -16,7 +16,7 @@ export function Dialog({ title, open, onClose, children }: { title: string; open
   if (!open) return null;
   return (
     <div className="fixed inset-0 z-50 flex items-start justify-center overflow-y-auto bg-walnut-950/45 p-4 pt-[10vh]">
-      <div ref={panel} role="dialog" aria-modal="true" aria-labelledby={titleId} className="w-full max-w-lg rounded-xl border border-parchment-200 bg-white shadow-2xl">
+      <div ref={panel} role="dialog" aria-modal="true" aria-labelledby={titleId} className={`w-full ${wide ? 'max-w-3xl' : 'max-w-lg'} rounded-xl border border-parchment-200 bg-white shadow-2xl`}>
         <header className="flex items-center justify-between border-b border-parchment-200 px-5 py-3">
           <h2 id={titleId} className="text-lg font-semibold text-walnut-800">
             {title}

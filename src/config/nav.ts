@@ -1,4 +1,4 @@
-import { House, Users, type LucideIcon } from 'lucide-react';
+import { BookUser, House, Layers, NotebookPen, ScrollText, SlidersHorizontal, Tags, TreeDeciduous, Users, type LucideIcon } from 'lucide-react';
 import type { Role } from '@shared/schemas/auth';
 import { paths } from './paths';
 
@@ -15,7 +15,14 @@ const ALL: readonly Role[] = ['owner', 'estimator', 'sales', 'workshop'];
 /** The navigation, in order. Each feature adds its entry here as it arrives. */
 export const NAV: NavItem[] = [
   { to: paths.home, label: 'Overview', icon: House, roles: ALL },
+  { to: paths.estimates, label: 'Estimates', icon: NotebookPen, roles: ALL },
+  { to: paths.customers, label: 'Customers', icon: BookUser, roles: ALL },
+  { to: paths.priceList, label: 'Price list', icon: Tags, roles: ALL },
+  { to: paths.finishingSystems, label: 'Finishing systems', icon: Layers, roles: ['owner', 'estimator'] },
+  { to: paths.species, label: 'Wood species', icon: TreeDeciduous, roles: ['owner', 'estimator'] },
+  { to: paths.settings, label: 'Settings', icon: SlidersHorizontal, roles: ['owner'] },
   { to: paths.users, label: 'Users', icon: Users, roles: ['owner'] },
+  { to: paths.auditLog, label: 'Audit log', icon: ScrollText, roles: ['owner'] },
 ];
 
 export function navFor(role: Role): NavItem[] {

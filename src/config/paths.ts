@@ -3,4 +3,37 @@ export const paths = {
   signIn: '/signin',
   home: '/',
   users: '/users',
+  customers: '/customers',
+  customer: '/customers/:customerId',
+  piece: '/pieces/:pieceId',
+  estimates: '/estimates',
+  newEstimate: '/estimates/new',
+  estimate: '/estimates/:estimateId',
+  editEstimate: '/estimates/:estimateId/edit',
+  compareRevisions: '/estimates/:estimateId/compare',
+  priceList: '/price-list',
+  priceFile: '/price-list/upload',
+  materialHistory: '/price-list/materials/:materialId',
+  settings: '/settings',
+  finishingSystems: '/finishing-systems',
+  finishingSystem: '/finishing-systems/:systemId',
+  species: '/species',
+  auditLog: '/audit-log',
 } as const;
+
+/** Addresses of one record, built from the patterns above. */
+export const pathTo = {
+  customer: (id: number) => `/customers/${id}`,
+  piece: (id: number) => `/pieces/${id}`,
+  estimate: (id: number) => `/estimates/${id}`,
+  editEstimate: (id: number) => `/estimates/${id}/edit`,
+  newEstimate: (pieceId: number) => `/estimates/new?pieceId=${pieceId}`,
+  compareRevisions: (id: number, a: number, b: number) => `/estimates/${id}/compare?a=${a}&b=${b}`,
+  estimatesOf: (customerId: number) => `/estimates?customerId=${customerId}`,
+};
+
+/** Addresses of one price-list or finishing record. */
+export const ownerPathTo = {
+  materialHistory: (id: number) => `/price-list/materials/${id}`,
+  finishingSystem: (id: number) => `/finishing-systems/${id}`,
+};

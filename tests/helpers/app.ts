@@ -59,3 +59,12 @@ export function demoEmail(role: Role): string {
 export function signInAs(app: BuiltApp['app'], role: Role): Promise<Session> {
   return signIn(app, demoEmail(role), DEMO_PASSWORD);
 }
+
+/** Starts the local mail catcher and payment stand-in for this file's app (config is read at call time). */
+export async function startServices() {
+  const { startLocalServices } = await import('../../server/fakes');
+  const app = getTestApp();
+  app.config.mail.url = undefined;
+  app.config.payments = { apiUrl: undefined, secretKey: undefined, webhookSecret: undefined };
+  return startLocalServices(app.config);
+}

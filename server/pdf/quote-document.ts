@@ -1,0 +1,60 @@
+/**
+ * Everything a quote PDF shows, gathered by the quotes service from the database and the estimate's revision.
+ * Amounts are decimal strings in the quote's currency; dates are local 'YYYY-MM-DD'.
+ */
+export interface QuoteDocument {
+  paperSize: 'A4' | 'Letter';
+  workshop: { name: string; address: string | null; email: string | null; phone: string | null };
+  quote: {
+    /** The quote's own reference, e.g. "Q-2027-0007". */
+    number: string;
+    estimateNumber: string;
+    issuedOn: string;
+    validUntil: string;
+    /** The salesperson's covering message (may be several paragraphs). */
+    message: string;
+    currency: string;
+    /** Whether amounts are shown with tax included (the breakdown shows the tax either way). */
+    pricesIncludeTax: boolean;
+    taxLabel: string;
+    preparedBy: string;
+  };
+  customer: { name: string; address: string | null; email: string | null; phone: string | null };
+  piece: {
+    description: string;
+    kind: string;
+    maker: string | null;
+    year: number | null;
+    serial: string | null;
+    /** One condition photo (JPEG or PNG bytes), if the piece has one. */
+    photo: Buffer | null;
+    photoCaption: string | null;
+  };
+  work: {
+    systemName: string;
+    areaM2: number;
+    /** Area already formatted in the workshop's units, e.g. "8.83 m²" or "95.1 ft²". */
+    areaText: string;
+    totalCoats: number;
+    labourHours: number;
+    calendarDays: number;
+    /** First session and the day the piece is ready, when known. */
+    startDate: string | null;
+    readyDate: string | null;
+    stages: { name: string; sessions: number; coats: number; hours: number; restText: string }[];
+  };
+  price: {
+    /** The customer-readable breakdown (materials, labour, overhead, margin, discount, tax, rounding). */
+    lines: { label: string; amount: string }[];
+    total: string;
+    depositPct: number;
+    deposit: string;
+    balance: string;
+  };
+  /** Optional extra work the customer may accept or not, priced separately (not in the total above). */
+  extras: { label: string; description: string; hours: number; price: string }[];
+  terms: string[];
+  cautions: { code: string; severity: string; text: string }[];
+  /** A sentence with the ventilation figure, e.g. "fresh air of at least 1 740 m³/h while polishing". */
+  ventilationText: string;
+}

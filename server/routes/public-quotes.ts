@@ -1,0 +1,55 @@
+import express from 'express';
+import { rateLimit } from 'express-rate-limit';
+import type { Sequelize } from 'sequelize';
+import { z } from 'zod';
+import { AcceptQuoteSchema, DeclineQuoteSchema } from '@shared/schemas/quotes';
+import type { Config } from '../config';
+import { secureRouter, type RouteInfo } from '../http/guard';
+import { HttpProblem, parseOr400, sendProblem } from '../http/problem';
+import { renderQuotePdf } from '../pdf/quote-pdf';
+import { handleWebhook } from '../services/payments';
+import { acceptQuote, declineQuote, depositCheckout, publicPdf, viewQuote } from '../services/public-quotes';
+
+const TokenParam = z.object({ token: z.string().min(10).max(200) });
+
+/** The customer's side: no account, only the signed link. CSRF does not apply (no cookie is involved). */
+export function publicQuoteRoutes(config: Config, sequelize: Sequelize, table: RouteInfo[]) {
+  const limiter = rateLimit({
+    windowMs: 60_000,
+    limit: 120,
+    standardHeaders: 'draft-8',
+    legacyHeaders: false,
+    handler: (_req, res) => sendProblem(res, new HttpProblem(429, 'too_many_requests', 'Too many requests', 'Too many requests from this address; wait a minute.')),
+  });
+  const r = secureRouter('/api/public/quotes', table);
+  r.get('/:token', 'public', limiter, async (req, res) => {
+    res.setHeader('Cache-Control', 'no-store');
+    res.json(await viewQuote(config, parseOr400(TokenParam, req.params).token));
+  });
+  r.get('/:token/pdf', 'public', limiter, async (req, res) => {
+    const { number, doc } = await publicPdf(config, parseOr400(TokenParam, req.params).token);
+    res.setHeader('Content-Type', 'application/pdf');
+    res.setHeader('Content-Disposition', `inline; filename="${number}.pdf"`);
+    res.setHeader('Cache-Control', 'no-store');
+    res.send(await renderQuotePdf(doc));
+  });
+  r.post('/:token/accept', 'public', limiter, async (req, res) => {
+    const { token } = parseOr400(TokenParam, req.params);
+    res.json(await acceptQuote(sequelize, config, token, parseOr400(AcceptQuoteSchema, req.body), req.ip ?? ''));
+  });
+  r.post('/:token/decline', 'public', limiter, async (req, res) => {
+    const { token } = parseOr400(TokenParam, req.params);
+    res.json(await declineQuote(sequelize, config, token, parseOr400(DeclineQuoteSchema, req.body).reason, req.ip ?? ''));
+  });
+  r.post('/:token/deposit', 'public', limiter, async (req, res) => {
+    res.json(await depositCheckout(config, parseOr400(TokenParam, req.params).token));
+  });
+
+  const w = secureRouter('/api/webhooks', table);
+  w.post('/payments', 'public', express.raw({ type: '*/*', limit: '256kb' }), async (req, res) => {
+    const raw = Buffer.isBuffer(req.body) ? req.body : Buffer.from(JSON.stringify(req.body ?? {}));
+    const header = req.headers['stripe-signature'];
+    res.json(await handleWebhook(sequelize, config, raw, Array.isArray(header) ? header[0] : header));
+  });
+  return [r.router, w.router];
+}

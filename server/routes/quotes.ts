@@ -1,0 +1,97 @@
+import type { Response } from 'express';
+import type { Sequelize } from 'sequelize';
+import { z } from 'zod';
+import { IdSchema } from '@shared/schemas/customers';
+import { CreateQuoteSchema, QuoteListQuerySchema } from '@shared/schemas/quotes';
+import type { Config } from '../config';
+import { secureRouter, type RouteInfo } from '../http/guard';
+import { parseOr400, problems } from '../http/problem';
+import { renderQuotePdf } from '../pdf/quote-pdf';
+import { deliver, outboxDetail, outboxSummary } from '../services/mail';
+import { buildDocument, createQuote, estimateDocument, getQuote, listQuotes, markSent, pipeline, sendQuote, withdrawQuote } from '../services/quotes';
+import { OutboxMessage, Quote } from '../models';
+
+const IdParam = z.object({ id: IdSchema });
+const SELL = ['owner', 'sales'] as const;
+const ALL = 'signed-in' as const;
+const SendSchema = z.object({ recipient: z.email({ message: 'must be an e-mail address' }).optional() }).strict();
+const OutboxQuery = z.object({
+  status: z.enum(['queued', 'sent', 'failed']).optional(),
+  page: z.coerce.number().int().min(1).max(100_000).default(1),
+  pageSize: z.coerce.number().int().min(1).max(100).default(25),
+});
+
+function pdfResponse(res: Response, name: string, pdf: Buffer, inline = true): void {
+  res.setHeader('Content-Type', 'application/pdf');
+  res.setHeader('Content-Disposition', `${inline ? 'inline' : 'attachment'}; filename="${name.replace(/[^\w.-]/g, '_')}.pdf"`);
+  res.setHeader('Cache-Control', 'private, no-store');
+  res.send(pdf);
+}
+
+export function quoteRoutes(config: Config, sequelize: Sequelize, table: RouteInfo[]) {
+  const e = secureRouter('/api/estimates', table);
+  e.post('/:id/quotes', SELL, async (req, res) => {
+    const { id } = parseOr400(IdParam, req.params);
+    res.status(201).json(await createQuote(sequelize, req.user!, id, parseOr400(CreateQuoteSchema, req.body)));
+  });
+  /** The estimate as a customer would read it, before any quote is made. */
+  e.get('/:id/quote.pdf', ALL, async (req, res) => {
+    const { id } = parseOr400(IdParam, req.params);
+    pdfResponse(res, `estimate-${id}`, await renderQuotePdf(await estimateDocument(id, config.uploadsDir)));
+  });
+
+  const q = secureRouter('/api/quotes', table);
+  q.get('', ALL, async (req, res) => {
+    res.json(await listQuotes(parseOr400(QuoteListQuerySchema, req.query)));
+  });
+  q.get('/pipeline', ALL, async (_req, res) => {
+    res.json(await pipeline(sequelize));
+  });
+  q.get('/:id', ALL, async (req, res) => {
+    res.json(await getQuote(parseOr400(IdParam, req.params).id));
+  });
+  q.get('/:id/pdf', ALL, async (req, res) => {
+    const { id } = parseOr400(IdParam, req.params);
+    const quote = await Quote.findByPk(id);
+    if (!quote) throw problems.notFound('Quote');
+    pdfResponse(res, quote.number, await renderQuotePdf(await buildDocument(id, config.uploadsDir)));
+  });
+  q.post('/:id/send', SELL, async (req, res) => {
+    const { id } = parseOr400(IdParam, req.params);
+    res.json(await sendQuote(sequelize, config, req.user!.id, id, parseOr400(SendSchema, req.body).recipient));
+  });
+  q.post('/:id/withdraw', SELL, async (req, res) => {
+    res.json(await withdrawQuote(sequelize, req.user!.id, parseOr400(IdParam, req.params).id));
+  });
+
+  const o = secureRouter('/api/outbox', table);
+  o.get('', SELL, async (req, res) => {
+    const query = parseOr400(OutboxQuery, req.query);
+    const { rows, count } = await OutboxMessage.findAndCountAll({
+      where: query.status ? { status: query.status } : {},
+      attributes: { exclude: ['attachment', 'htmlBody', 'textBody'] },
+      order: [['createdAt', 'DESC'], ['id', 'DESC']],
+      limit: query.pageSize,
+      offset: (query.page - 1) * query.pageSize,
+    });
+    res.json({ rows: rows.map(outboxSummary), total: count, page: query.page, pageSize: query.pageSize });
+  });
+  o.get('/:id', SELL, async (req, res) => {
+    const m = await OutboxMessage.findByPk(parseOr400(IdParam, req.params).id, { attributes: { exclude: ['attachment'] } });
+    if (!m) throw problems.notFound('Message');
+    res.json(outboxDetail(m));
+  });
+  o.get('/:id/attachment', SELL, async (req, res) => {
+    const m = await OutboxMessage.findByPk(parseOr400(IdParam, req.params).id);
+    if (!m || !m.attachment) throw problems.notFound('Attachment');
+    pdfResponse(res, (m.attachmentName ?? 'attachment').replace(/\.pdf$/, ''), m.attachment);
+  });
+  /** Tries a failed message again; a quote counts as sent only once its message is. */
+  o.post('/:id/retry', SELL, async (req, res) => {
+    const m = await deliver(config, parseOr400(IdParam, req.params).id);
+    if (m.status === 'sent' && m.quoteId) await markSent(sequelize, m.quoteId);
+    const fresh = await OutboxMessage.findByPk(m.id, { attributes: { exclude: ['attachment'] } });
+    res.json(outboxDetail(fresh!));
+  });
+  return [e.router, q.router, o.router];
+}

@@ -1,0 +1,594 @@
+/**
+ * Supplier price files: read a CSV, show what it would change, and apply exactly that on confirmation.
+ *
+ * Protocol: the upload parses the file and stores the preview in price_file_previews (id, SHA-256 of the file,
+ * expiry). The apply step names the preview and the hash it was shown; the server applies the stored rows, not a
+ * new reading of anything, and checks inside the transaction that every old price is still the one previewed.
+ * Nothing lives in a server's memory, so any instance can apply a preview another instance made.
+ */
+import { createHash, randomUUID } from 'node:crypto';
+import { parse } from 'csv-parse/sync';
+import Decimal from 'decimal.js';
+import { Op, type Sequelize } from 'sequelize';
+import { MATERIAL_KINDS, MATERIAL_UNITS, type MaterialUnit } from '@shared/schemas/catalog';
+import { keyFromName } from '@shared/schemas/finishing-admin';
+import type {
+  MaterialKind,
+  PriceFileApplied,
+  PriceFileColumn,
+  PriceFileMatch,
+  PriceFileNewItem,
+  PriceFilePreview as PreviewDto,
+  PriceFileRowError,
+} from '@shared/schemas/price-list';
+import { HttpProblem, problems } from '../http/problem';
+import { Material, MaterialPack, PackPrice, PriceFilePreview } from '../models';
+import { audit } from './audit';
+import { withCatalogVersionChange } from './catalog-version';
+import { loadSettings } from './catalog';
+import { changePct, freeMaterialKey, priceOn, showPrice, showSize, today } from './price-list';
+
+/** Largest file accepted (the route's multer limit uses it too). */
+export const PRICE_FILE_MAX_BYTES = 512 * 1024;
+const MAX_ROWS = 5000;
+/** How long a preview may be applied after the upload. */
+const PREVIEW_MINUTES = 30;
+
+const HEADER_ALIASES: Record<string, PriceFileColumn> = {
+  supplier: 'supplier',
+  suppliername: 'supplier',
+  vendor: 'supplier',
+  suppliercode: 'supplier_code',
+  code: 'supplier_code',
+  sku: 'supplier_code',
+  itemcode: 'supplier_code',
+  productcode: 'supplier_code',
+  materialkey: 'material_key',
+  material: 'material_key',
+  key: 'material_key',
+  description: 'description',
+  name: 'description',
+  item: 'description',
+  product: 'description',
+  packsize: 'pack_size',
+  size: 'pack_size',
+  pack: 'pack_size',
+  quantity: 'pack_size',
+  unit: 'unit',
+  units: 'unit',
+  uom: 'unit',
+  price: 'price',
+  packprice: 'price',
+  netprice: 'price',
+  unitprice: 'price',
+  effectivedate: 'effective_date',
+  effectivefrom: 'effective_date',
+  effective: 'effective_date',
+  validfrom: 'effective_date',
+  date: 'effective_date',
+  kind: 'kind',
+  category: 'kind',
+};
+
+const normaliseHeader = (h: string) => h.toLowerCase().replace(/[\s_\-.()]/g, '');
+
+/** Reads the file as UTF-8, or as Windows-1252 when it is not valid UTF-8 (spreadsheets often save that). */
+function decode(buffer: Buffer): string {
+  try {
+    return new TextDecoder('utf-8', { fatal: true }).decode(buffer);
+  } catch {
+    return new TextDecoder('windows-1252').decode(buffer);
+  }
+}
+
+/** Comma or semicolon: whichever the header line (outside quotes) holds more of. */
+export function detectDelimiter(text: string): ',' | ';' {
+  const firstLine = text.replace(/^\uFEFF/, '').split(/\r?\n/, 1)[0] ?? '';
+  let inQuotes = false;
+  let commas = 0;
+  let semicolons = 0;
+  for (const ch of firstLine) {
+    if (ch === '"') inQuotes = !inQuotes;
+    else if (!inQuotes && ch === ',') commas++;
+    else if (!inQuotes && ch === ';') semicolons++;
+  }
+  return semicolons > commas ? ';' : ',';
+}
+
+/**
+ * A decimal written by a supplier: "12.50", "12,50", "1 234,50", "1,234.50", "£12.50". Returns a dot-decimal string
+ * or undefined when it is not a number.
+ *
+ * @example readDecimal('12,50') // "12.50"
+ */
+export function readDecimal(raw: string): string | undefined {
+  let s = raw.trim().replace(/^[^\d\-.,]+|[^\d.,]+$/g, '').replace(/[\s\u00a0']/g, '');
+  if (!s) return undefined;
+  const lastComma = s.lastIndexOf(',');
+  const lastDot = s.lastIndexOf('.');
+  if (lastComma >= 0 && lastDot >= 0) {
+    // Both: the later one is the decimal separator, the other groups thousands.
+    s = lastComma > lastDot ? s.replace(/\./g, '').replace(',', '.') : s.replace(/,/g, '');
+  } else if (lastComma >= 0) {
+    s = /^\d{1,3}(,\d{3})+$/.test(s) && s.split(',').length > 2 ? s.replace(/,/g, '') : s.replace(',', '.');
+  }
+  return /^-?\d+(\.\d+)?$/.test(s) ? s : undefined;
+}
+
+/** YYYY-MM-DD, DD/MM/YYYY or DD.MM.YYYY (days first, as in the UK and Europe) to YYYY-MM-DD, checked. */
+export function readDate(raw: string): string | undefined {
+  const s = raw.trim();
+  let iso: string | undefined;
+  const ymd = /^(\d{4})-(\d{1,2})-(\d{1,2})$/.exec(s);
+  const dmy = /^(\d{1,2})[/.](\d{1,2})[/.](\d{4})$/.exec(s);
+  if (ymd) iso = `${ymd[1]}-${ymd[2]!.padStart(2, '0')}-${ymd[3]!.padStart(2, '0')}`;
+  else if (dmy) iso = `${dmy[3]}-${dmy[2]!.padStart(2, '0')}-${dmy[1]!.padStart(2, '0')}`;
+  if (!iso) return undefined;
+  const d = new Date(`${iso}T00:00:00Z`);
+  return !Number.isNaN(d.getTime()) && d.toISOString().slice(0, 10) === iso ? iso : undefined;
+}
+
+/** A unit as written, to the price list's unit and the factor that converts sizes into it. */
+const UNIT_WORDS: Record<string, { unit: MaterialUnit; factor: number }> = {
+  g: { unit: 'g', factor: 1 },
+  gram: { unit: 'g', factor: 1 },
+  grams: { unit: 'g', factor: 1 },
+  kg: { unit: 'g', factor: 1000 },
+  kilo: { unit: 'g', factor: 1000 },
+  kilogram: { unit: 'g', factor: 1000 },
+  kilograms: { unit: 'g', factor: 1000 },
+  ml: { unit: 'mL', factor: 1 },
+  millilitre: { unit: 'mL', factor: 1 },
+  millilitres: { unit: 'mL', factor: 1 },
+  l: { unit: 'mL', factor: 1000 },
+  litre: { unit: 'mL', factor: 1000 },
+  litres: { unit: 'mL', factor: 1000 },
+  liter: { unit: 'mL', factor: 1000 },
+  liters: { unit: 'mL', factor: 1000 },
+  sheet: { unit: 'sheet', factor: 1 },
+  sheets: { unit: 'sheet', factor: 1 },
+  each: { unit: 'each', factor: 1 },
+  ea: { unit: 'each', factor: 1 },
+  pc: { unit: 'each', factor: 1 },
+  pcs: { unit: 'each', factor: 1 },
+  piece: { unit: 'each', factor: 1 },
+  pieces: { unit: 'each', factor: 1 },
+};
+
+interface PackLite {
+  id: number;
+  materialId: number;
+  size: string;
+  supplier: string;
+  supplierCode: string | null;
+}
+
+interface MaterialLite {
+  id: number;
+  key: string;
+  name: string;
+  unit: MaterialUnit;
+}
+
+interface ParseContext {
+  packsByCode: Map<string, PackLite>;
+  packsByMaterialSize: Map<string, PackLite>;
+  materialsByKey: Map<string, MaterialLite>;
+  materialsByName: Map<string, MaterialLite>;
+  materialsById: Map<number, MaterialLite>;
+  pricesByPack: Map<number, { id: number; packId: number; price: string; effectiveFrom: string }[]>;
+}
+
+const codeKey = (supplier: string, code: string) => `${supplier.trim().toLowerCase()}|${code.trim().toLowerCase()}`;
+const sizeKey = (materialId: number | string, size: string | number) => `${materialId}|${new Decimal(size).toString()}`;
+
+async function loadContext(): Promise<ParseContext> {
+  const [materials, packs] = await Promise.all([
+    Material.findAll({ where: { archived: false } }),
+    MaterialPack.findAll({ where: { archived: false } }),
+  ]);
+  const prices = await PackPrice.findAll({ where: { packId: { [Op.in]: packs.map((p) => p.id) } }, order: [['effectiveFrom', 'ASC'], ['id', 'ASC']] });
+  const ctx: ParseContext = {
+    packsByCode: new Map(),
+    packsByMaterialSize: new Map(),
+    materialsByKey: new Map(),
+    materialsByName: new Map(),
+    materialsById: new Map(),
+    pricesByPack: new Map(),
+  };
+  for (const m of materials) {
+    const lite = { id: m.id, key: m.key, name: m.name, unit: m.unit };
+    ctx.materialsByKey.set(m.key, lite);
+    ctx.materialsByName.set(m.name.trim().toLowerCase(), lite);
+    ctx.materialsById.set(m.id, lite);
+  }
+  for (const p of packs) {
+    if (!ctx.materialsById.has(p.materialId)) continue;
+    const lite = { id: p.id, materialId: p.materialId, size: String(p.size), supplier: p.supplier, supplierCode: p.supplierCode };
+    if (p.supplierCode) ctx.packsByCode.set(codeKey(p.supplier, p.supplierCode), lite);
+    ctx.packsByMaterialSize.set(sizeKey(p.materialId, p.size), lite);
+  }
+  for (const r of prices) {
+    const list = ctx.pricesByPack.get(r.packId) ?? [];
+    list.push({ id: r.id, packId: r.packId, price: String(r.price), effectiveFrom: r.effectiveFrom });
+    ctx.pricesByPack.set(r.packId, list);
+  }
+  return ctx;
+}
+
+type Parsed = Omit<PreviewDto, 'id' | 'expiresAt' | 'appliedAt' | 'fileName' | 'contentHash' | 'currency'>;
+
+/** Reads the file into a preview. Throws 400 only for a file that cannot be read at all; bad rows are listed. */
+export function readPriceFile(buffer: Buffer, ctx: ParseContext, onDate = today()): Parsed {
+  const text = decode(buffer);
+  if (!text.trim()) throw problems.badRequest('price_file_empty', 'The file is empty.', 'file');
+  const delimiter = detectDelimiter(text);
+  let records: { record: string[]; info: { lines: number } }[];
+  try {
+    records = parse(text, { delimiter, bom: true, relax_column_count: true, skip_empty_lines: true, trim: true, info: true }) as unknown as typeof records;
+  } catch (err) {
+    const line = (err as { lines?: number }).lines;
+    throw problems.badRequest('price_file_unreadable', `The file is not a readable CSV${line ? ` (line ${line})` : ''}: ${(err as Error).message}`, 'file');
+  }
+  if (records.length === 0) throw problems.badRequest('price_file_empty', 'The file has no header line.', 'file');
+  if (records.length - 1 > MAX_ROWS) throw problems.badRequest('price_file_too_long', `The file has ${records.length - 1} rows; at most ${MAX_ROWS} are read at once.`, 'file');
+
+  const header = records[0]!.record;
+  const columns: string[] = [];
+  const unknownColumns: string[] = [];
+  const index = new Map<PriceFileColumn, number>();
+  header.forEach((h, i) => {
+    const col = HEADER_ALIASES[normaliseHeader(h)];
+    if (col && !index.has(col)) {
+      index.set(col, i);
+      columns.push(col);
+    } else if (h.trim()) unknownColumns.push(h.trim());
+  });
+  const missing: string[] = [];
+  if (!index.has('supplier')) missing.push('supplier');
+  if (!index.has('price')) missing.push('price');
+  if (!index.has('supplier_code') && !index.has('material_key') && !index.has('description')) missing.push('supplier_code (or material_key with pack_size)');
+  if (missing.length > 0) {
+    throw problems.badRequest('price_file_columns', `The header line lacks the column${missing.length > 1 ? 's' : ''} ${missing.join(', ')}. Found: ${header.join(', ') || 'nothing'}.`, 'file');
+  }
+
+  const matched: PriceFileMatch[] = [];
+  const unchanged: PriceFileMatch[] = [];
+  const newItems: PriceFileNewItem[] = [];
+  const errors: PriceFileRowError[] = [];
+  const seenTargets = new Map<string, number>();
+  const newMaterialKeys = new Map<string, { key: string; name: string; unit: MaterialUnit; kind: MaterialKind }>();
+  const reservedKeys = new Set<string>();
+
+  for (const { record, info } of records.slice(1)) {
+    const line = info.lines;
+    const cell = (col: PriceFileColumn) => {
+      const i = index.get(col);
+      return i === undefined ? '' : (record[i] ?? '').trim();
+    };
+    if (record.every((v) => !v.trim())) continue;
+    if (record.length > header.length) {
+      errors.push({ line, reason: `has ${record.length} fields but the header has ${header.length} (a price with a decimal comma in a comma-separated file must be in quotes)` });
+      continue;
+    }
+    const supplier = cell('supplier');
+    const code = cell('supplier_code');
+    const materialKey = cell('material_key').toLowerCase();
+    const description = cell('description');
+    const problemsHere: string[] = [];
+    if (!supplier) problemsHere.push('supplier is empty');
+    const rawPrice = cell('price');
+    const price = readDecimal(rawPrice);
+    if (!rawPrice) problemsHere.push('price is empty');
+    else if (price === undefined) problemsHere.push(`price "${rawPrice}" is not an amount`);
+    else if (new Decimal(price).lte(0)) problemsHere.push(`price ${rawPrice} must be more than zero`);
+    else if (new Decimal(price).decimalPlaces() > 4 || new Decimal(price).gte(1e8)) problemsHere.push(`price ${rawPrice} has more than 4 decimals or is too large`);
+    const rawDate = cell('effective_date');
+    const effectiveFrom = rawDate ? readDate(rawDate) : onDate;
+    if (rawDate && !effectiveFrom) problemsHere.push(`effective date "${rawDate}" is not a date (use YYYY-MM-DD or DD/MM/YYYY)`);
+    const rawUnit = cell('unit');
+    const unitWord = rawUnit ? UNIT_WORDS[rawUnit.toLowerCase()] : undefined;
+    if (rawUnit && !unitWord) problemsHere.push(`unit "${rawUnit}" is not one of g, kg, mL, L, sheet, each`);
+    const rawSize = cell('pack_size');
+    const sizeText = rawSize ? readDecimal(rawSize) : undefined;
+    if (rawSize && (sizeText === undefined || new Decimal(sizeText).lte(0))) problemsHere.push(`pack size "${rawSize}" is not a positive number`);
+    if (!code && !materialKey && !description) problemsHere.push('has neither a supplier code nor a material key nor a description');
+    if (problemsHere.length > 0) {
+      errors.push({ line, reason: problemsHere.join('; ') });
+      continue;
+    }
+    /** The size in the material's unit, or an error message. */
+    const sizeIn = (unit: MaterialUnit): string | { error: string } | undefined => {
+      if (!sizeText) return undefined;
+      if (unitWord && unitWord.unit !== unit) return { error: `unit ${rawUnit} does not fit a material counted in ${unit}` };
+      const size = new Decimal(sizeText).times(unitWord?.factor ?? 1);
+      if (size.decimalPlaces() > 3) return { error: `pack size ${rawSize} has more than 3 decimals` };
+      return size.toString();
+    };
+
+    // 1. The supplier's code for a pack we already buy.
+    let pack = code ? ctx.packsByCode.get(codeKey(supplier, code)) : undefined;
+    // 2. Material key (or the exact material name) and pack size.
+    const material = pack
+      ? ctx.materialsById.get(pack.materialId)
+      : (materialKey ? ctx.materialsByKey.get(materialKey) : undefined) ?? (description ? ctx.materialsByName.get(description.toLowerCase()) : undefined);
+    if (materialKey && !pack && !material && !description) {
+      errors.push({ line, reason: `material key "${materialKey}" is not in the price list and the row has no description to add it by` });
+      continue;
+    }
+    if (!pack && material) {
+      const size = sizeIn(material.unit);
+      if (typeof size === 'object') {
+        errors.push({ line, reason: size.error });
+        continue;
+      }
+      if (size) pack = ctx.packsByMaterialSize.get(sizeKey(material.id, size));
+    }
+    if (pack && material) {
+      const size = sizeIn(material.unit);
+      if (typeof size === 'object') {
+        errors.push({ line, reason: size.error });
+        continue;
+      }
+      if (size && !new Decimal(size).eq(pack.size)) {
+        errors.push({ line, reason: `pack size ${showSize(size)} ${material.unit} differs from the ${showSize(pack.size)} ${material.unit} pack with code ${code}` });
+        continue;
+      }
+      const target = `pack|${pack.id}|${effectiveFrom}`;
+      if (seenTargets.has(target)) {
+        errors.push({ line, reason: `repeats the pack and date of line ${seenTargets.get(target)}` });
+        continue;
+      }
+      seenTargets.set(target, line);
+      const old = priceOn(ctx.pricesByPack.get(pack.id) ?? [], effectiveFrom!);
+      const row: PriceFileMatch = {
+        line,
+        packId: pack.id,
+        materialId: material.id,
+        materialName: material.name,
+        packSize: showSize(pack.size),
+        unit: material.unit,
+        supplier: pack.supplier || supplier,
+        supplierCode: pack.supplierCode ?? (code || null),
+        oldPrice: old ? showPrice(old.price) : null,
+        newPrice: showPrice(price!),
+        changePct: old ? changePct(old.price, price!) : null,
+        effectiveFrom: effectiveFrom!,
+      };
+      if (old && new Decimal(old.price).eq(price!)) unchanged.push(row);
+      else matched.push(row);
+      continue;
+    }
+
+    // 3. Something new: a pack of a material we have, or a material we do not have yet.
+    if (!sizeText) {
+      errors.push({ line, reason: code ? `supplier code ${code} is not in the price list for ${supplier}, and the row has no pack size to add it with` : 'has no pack size' });
+      continue;
+    }
+    let kind: MaterialKind = 'other';
+    const rawKind = cell('kind').toLowerCase();
+    if (rawKind) {
+      if (!(MATERIAL_KINDS as readonly string[]).includes(rawKind)) {
+        errors.push({ line, reason: `kind "${cell('kind')}" is not one of ${MATERIAL_KINDS.join(', ')}` });
+        continue;
+      }
+      kind = rawKind as MaterialKind;
+    }
+    let target: { materialId: number | null; key: string; name: string; unit: MaterialUnit; kind: MaterialKind };
+    if (material) {
+      target = { materialId: material.id, key: material.key, name: material.name, unit: material.unit, kind };
+    } else {
+      const groupKey = (materialKey || description).toLowerCase();
+      const existing = newMaterialKeys.get(groupKey);
+      if (existing) {
+        target = { materialId: null, ...existing };
+      } else {
+        if (!description) {
+          errors.push({ line, reason: 'a new material needs a description to name it' });
+          continue;
+        }
+        if (!unitWord) {
+          errors.push({ line, reason: `a new material needs a unit (${MATERIAL_UNITS.join(', ')}, kg or L)` });
+          continue;
+        }
+        let key = materialKey && /^[a-z0-9][a-z0-9-]{0,63}$/.test(materialKey) ? materialKey : keyFromName(description);
+        for (let n = 2; ctx.materialsByKey.has(key) || reservedKeys.has(key); n++) key = `${keyFromName(description).slice(0, 60)}-${n}`;
+        reservedKeys.add(key);
+        const created = { key, name: description.slice(0, 120), unit: unitWord.unit, kind };
+        newMaterialKeys.set(groupKey, created);
+        target = { materialId: null, ...created };
+      }
+    }
+    const size = sizeIn(target.unit);
+    if (typeof size === 'object' || size === undefined) {
+      errors.push({ line, reason: typeof size === 'object' ? size.error : 'has no pack size' });
+      continue;
+    }
+    const dupKey = `new|${target.key}|${size}|${effectiveFrom}`;
+    if (seenTargets.has(dupKey)) {
+      errors.push({ line, reason: `repeats the new pack of line ${seenTargets.get(dupKey)}` });
+      continue;
+    }
+    const packKey = `new|${target.key}|${size}`;
+    if (seenTargets.has(packKey)) {
+      errors.push({ line, reason: `gives a second price for the new pack of line ${seenTargets.get(packKey)}; add it first, then upload later prices` });
+      continue;
+    }
+    seenTargets.set(dupKey, line);
+    seenTargets.set(packKey, line);
+    newItems.push({
+      line,
+      kind: target.materialId ? 'new-pack' : 'new-material',
+      materialId: target.materialId,
+      materialKey: target.key,
+      materialName: target.name,
+      materialKind: target.kind,
+      packSize: size,
+      unit: target.unit,
+      supplier,
+      supplierCode: code || null,
+      newPrice: showPrice(price!),
+      effectiveFrom: effectiveFrom!,
+    });
+  }
+
+  const rowCount = records.length - 1;
+  return {
+    delimiter,
+    rowCount,
+    columns,
+    unknownColumns,
+    matched,
+    unchanged,
+    newItems,
+    errors,
+    canApply: errors.length === 0 && matched.length + newItems.length > 0,
+  };
+
+}
+
+function toDto(row: PriceFilePreview): PreviewDto {
+  return { ...row.preview, id: row.id, expiresAt: row.expiresAt.toISOString(), appliedAt: row.appliedAt ? row.appliedAt.toISOString() : null };
+}
+
+/** Parses an uploaded file and stores its preview for the apply step. */
+export async function previewPriceFile(actorId: number, fileName: string, buffer: Buffer): Promise<PreviewDto> {
+  const [ctx, { settings }] = await Promise.all([loadContext(), loadSettings()]);
+  const parsed = readPriceFile(buffer, ctx);
+  const contentHash = createHash('sha256').update(buffer).digest('hex');
+  const safeName = [...fileName].map((c) => (c.charCodeAt(0) < 32 || c === '/' || c === '\\' ? '_' : c)).join('').slice(0, 200) || 'price-file.csv';
+  // Old previews are of no use to anyone: clear those expired a day ago.
+  await PriceFilePreview.destroy({ where: { expiresAt: { [Op.lt]: new Date(Date.now() - 24 * 3600_000) } } });
+  const row = await PriceFilePreview.create({
+    id: randomUUID(),
+    userId: actorId,
+    fileName: safeName,
+    contentHash,
+    preview: { ...parsed, fileName: safeName, contentHash, currency: settings.pricing.currency },
+    expiresAt: new Date(Date.now() + PREVIEW_MINUTES * 60_000),
+    appliedAt: null,
+  });
+  return toDto(row);
+}
+
+export async function getPriceFilePreview(id: string): Promise<PreviewDto> {
+  const row = await PriceFilePreview.findByPk(id);
+  if (!row) throw problems.notFound('That price file preview');
+  return toDto(row);
+}
+
+/**
+ * Applies a stored preview in one transaction: every new price, pack and material, each with its audit entry,
+ * or nothing at all.
+ */
+export async function applyPriceFile(sequelize: Sequelize, actorId: number, id: string, contentHash: string): Promise<PriceFileApplied> {
+  const { result, catalogVersion } = await withCatalogVersionChange(sequelize, () => applyInTransaction(sequelize, actorId, id, contentHash));
+  return { ...result, catalogVersion };
+}
+
+async function applyInTransaction(sequelize: Sequelize, actorId: number, id: string, contentHash: string): Promise<Omit<PriceFileApplied, 'catalogVersion'>> {
+  return sequelize.transaction(async (transaction) => {
+    const row = await PriceFilePreview.findByPk(id, { transaction, lock: transaction.LOCK.UPDATE });
+    if (!row) throw problems.notFound('That price file preview');
+    if (row.appliedAt) throw problems.conflict('price_file_applied', `This file was applied on ${row.appliedAt.toISOString().slice(0, 16).replace('T', ' ')} UTC; upload it again to preview it anew.`);
+    if (row.expiresAt.getTime() < Date.now()) throw problems.conflict('price_file_expired', 'This preview has expired: upload the file again.');
+    if (row.contentHash !== contentHash) {
+      throw problems.conflict('price_file_changed', 'The file confirmed is not the file previewed: upload it again and check the preview.');
+    }
+    const preview = row.preview;
+    if (preview.errors.length > 0) {
+      throw problems.conflict('price_file_has_errors', `The file has ${preview.errors.length} row${preview.errors.length > 1 ? 's' : ''} that cannot be read; fix ${preview.errors.length > 1 ? 'them' : 'it'} and upload it again. Nothing was changed.`);
+    }
+    if (preview.matched.length + preview.newItems.length === 0) throw problems.conflict('price_file_no_changes', 'The file changes no price.');
+    const source = `file: ${row.fileName}`.slice(0, 120);
+
+    const result = await (async () => {
+      let pricesAdded = 0;
+      let packsAdded = 0;
+      let materialsAdded = 0;
+      for (const m of preview.matched) {
+        const pack = await MaterialPack.findByPk(m.packId, { transaction, lock: transaction.LOCK.UPDATE });
+        if (!pack || pack.archived) throw problems.conflict('prices_moved', `Line ${m.line}: the ${m.packSize} ${m.unit} pack of ${m.materialName} was removed since the preview. Upload the file again.`);
+        const rows = (await PackPrice.findAll({ where: { packId: m.packId }, order: [['effectiveFrom', 'ASC'], ['id', 'ASC']], transaction })).map((r) => ({
+          id: r.id,
+          packId: r.packId,
+          price: String(r.price),
+          effectiveFrom: r.effectiveFrom,
+        }));
+        const now = priceOn(rows, m.effectiveFrom);
+        const nowShown = now ? showPrice(now.price) : null;
+        if (nowShown !== m.oldPrice) {
+          throw problems.conflict('prices_moved', `Line ${m.line}: the price of ${m.materialName}, ${m.packSize} ${m.unit} changed since the preview (${m.oldPrice ?? 'none'} → ${nowShown ?? 'none'}). Upload the file again.`);
+        }
+        await PackPrice.create({ packId: m.packId, price: m.newPrice, effectiveFrom: m.effectiveFrom, userId: actorId, source }, { transaction });
+        if (!pack.supplierCode && m.supplierCode) await pack.update({ supplierCode: m.supplierCode }, { transaction });
+        pricesAdded++;
+        await audit(
+          {
+            userId: actorId,
+            action: 'pack-price.create',
+            entityType: 'pack-price',
+            entityId: m.packId,
+            before: m.oldPrice ? { material: m.materialName, pack: `${m.packSize} ${m.unit}`, price: m.oldPrice } : null,
+            after: { material: m.materialName, pack: `${m.packSize} ${m.unit}`, price: m.newPrice, effectiveFrom: m.effectiveFrom, changePct: m.changePct, source },
+          },
+          transaction,
+        );
+      }
+      const createdMaterials = new Map<string, number>();
+      for (const item of preview.newItems) {
+        let materialId = item.materialId ?? createdMaterials.get(item.materialKey);
+        if (materialId === undefined || materialId === null) {
+          if ((await freeMaterialKey(item.materialKey, transaction)) !== item.materialKey) {
+            throw problems.conflict('prices_moved', `Line ${item.line}: a material with key ${item.materialKey} was added since the preview. Upload the file again.`);
+          }
+          const material = await Material.create({ key: item.materialKey, name: item.materialName, kind: item.materialKind, unit: item.unit, notes: `Added from ${row.fileName}` }, { transaction });
+          materialId = material.id;
+          createdMaterials.set(item.materialKey, material.id);
+          materialsAdded++;
+          await audit({ userId: actorId, action: 'material.create', entityType: 'material', entityId: material.id, after: { key: item.materialKey, name: item.materialName, kind: item.materialKind, unit: item.unit, source } }, transaction);
+        } else if (!(await Material.findByPk(materialId, { transaction }))) {
+          throw problems.conflict('prices_moved', `Line ${item.line}: ${item.materialName} was removed since the preview. Upload the file again.`);
+        }
+        const clash = await MaterialPack.findOne({ where: { materialId, size: item.packSize, archived: false }, transaction });
+        if (clash) throw problems.conflict('prices_moved', `Line ${item.line}: a ${item.packSize} ${item.unit} pack of ${item.materialName} was added since the preview. Upload the file again.`);
+        const pack = await MaterialPack.create({ materialId, size: item.packSize, label: '', supplier: item.supplier, supplierCode: item.supplierCode }, { transaction });
+        await PackPrice.create({ packId: pack.id, price: item.newPrice, effectiveFrom: item.effectiveFrom, userId: actorId, source }, { transaction });
+        packsAdded++;
+        pricesAdded++;
+        await audit(
+          {
+            userId: actorId,
+            action: 'pack.create',
+            entityType: 'pack',
+            entityId: pack.id,
+            after: { material: item.materialName, pack: `${item.packSize} ${item.unit}`, supplier: item.supplier, supplierCode: item.supplierCode, price: item.newPrice, effectiveFrom: item.effectiveFrom, source },
+          },
+          transaction,
+        );
+      }
+      return { pricesAdded, packsAdded, materialsAdded };
+    })();
+    row.appliedAt = new Date();
+    await row.save({ transaction });
+    await audit(
+      {
+        userId: actorId,
+        action: 'price-file.apply',
+        entityType: 'price-file',
+        entityId: row.id,
+        after: { fileName: row.fileName, contentHash: row.contentHash, ...result },
+      },
+      transaction,
+    );
+    return result;
+  });
+}
+
+/** Thrown by the route when multer refuses a file. */
+export function uploadProblem(err: unknown): HttpProblem | undefined {
+  const code = (err as { code?: string } | null)?.code;
+  if (code === 'LIMIT_FILE_SIZE') return new HttpProblem(413, 'price_file_too_large', 'File too large', `A price file may be at most ${PRICE_FILE_MAX_BYTES / 1024} KB.`, { field: 'file', errors: [{ field: 'file', message: `must be at most ${PRICE_FILE_MAX_BYTES / 1024} KB` }] });
+  if (code && code.startsWith('LIMIT_')) return problems.badRequest('price_file_upload', `The upload was refused: ${(err as Error).message}.`, 'file');
+  return undefined;
+}

@@ -1,0 +1,170 @@
+import { ArrowRight, FilterX } from 'lucide-react';
+import { AUDIT_ENTITY_LABELS, type AuditEntryDto, type AuditQuery } from '@shared/schemas/audit';
+import { Alert } from '@/components/alert';
+import { Button } from '@/components/button';
+import { PageHeader } from '@/components/card';
+import { DataTable, type Column } from '@/components/data-table';
+import { useWorkshop } from '@/features/workshop/api/get-workshop';
+import { formatChange, formatDate, formatDateTime, formatMoney } from '@/lib/format';
+import { useTableState } from '@/lib/use-table-state';
+import { useAudit, useAuditFilters } from '../api/audit';
+
+const PAGE_SIZE = 25;
+
+const ACTION_WORDS: Record<string, string> = {
+  create: 'added',
+  update: 'changed',
+  archive: 'archived',
+  restore: 'restored',
+  apply: 'applied',
+  password_reset: 'reset the password of',
+};
+
+function describeAction(action: string): string {
+  const [, verb = action] = action.split('.');
+  return ACTION_WORDS[verb] ?? verb.replace(/[-_]/g, ' ');
+}
+
+function show(v: unknown, key = '', currency = ''): string {
+  if (v === null || v === undefined) return '—';
+  if (Array.isArray(v)) return `${v.length} item${v.length === 1 ? '' : 's'}`;
+  if (typeof v === 'object') return JSON.stringify(v).slice(0, 60);
+  if (typeof v === 'boolean') return v ? 'yes' : 'no';
+  const leaf = key.split('.').at(-1) ?? key;
+  if ((leaf === 'price' || leaf === 'perHour') && currency && /^\d+(\.\d+)?$/.test(String(v))) return formatMoney(String(v), currency) + (leaf === 'perHour' ? ' an hour' : '');
+  if (leaf === 'changePct') return formatChange(String(v));
+  if (/Pct$/.test(leaf)) return `${String(v)} %`;
+  if (/^\d{4}-\d{2}-\d{2}$/.test(String(v))) return formatDate(String(v));
+  return String(v);
+}
+
+/** Field names as the page says them. */
+const FIELD_WORDS: Record<string, string> = { price: 'price', effectiveFrom: 'from', changePct: 'change', source: 'source', perHour: 'rate', supplierCode: 'supplier code' };
+function fieldWords(k: string): string {
+  return (
+    FIELD_WORDS[k] ??
+    k
+      .replace(/^settings\./, '')
+      .split('.')
+      .map((seg) => seg.replace(/Pct$/, ' %').replace(/([a-z])([A-Z])/g, '$1 $2').toLowerCase())
+      .join(' › ')
+  );
+}
+const FIRST = ['price', 'perHour', 'effectiveFrom', 'changePct'];
+
+const CONTEXT_KEYS = ['material', 'pack', 'name'];
+
+/** The change as "field: old → new" lines; fields that only name the thing come first as context. */
+export function ChangeSummary({ before, after, currency }: { before: unknown; after: unknown; currency: string }) {
+  const b = (before && typeof before === 'object' ? before : {}) as Record<string, unknown>;
+  const a = (after && typeof after === 'object' ? after : {}) as Record<string, unknown>;
+  const keys = [...new Set([...Object.keys(b), ...Object.keys(a)])];
+  // JSONB keeps keys in its own order: put the naming fields and the price first.
+  const context = CONTEXT_KEYS.filter((k) => keys.includes(k) && JSON.stringify(a[k] ?? b[k]) === JSON.stringify(b[k] ?? a[k]));
+  const rank = (k: string) => (FIRST.includes(k) ? FIRST.indexOf(k) : FIRST.length);
+  const changed = keys.filter((k) => !context.includes(k) && JSON.stringify(a[k]) !== JSON.stringify(b[k])).sort((x, y) => rank(x) - rank(y));
+  return (
+    <div className="max-w-xl text-sm">
+      {context.length > 0 && <p className="font-medium text-walnut-800">{context.map((k) => show(a[k] ?? b[k], k, currency)).join(', ')}</p>}
+      <ul className="space-y-0.5">
+        {changed.slice(0, 8).map((k) => (
+          <li key={k} className="flex flex-wrap items-center gap-1 text-walnut-700">
+            <span className="text-xs text-walnut-500">{fieldWords(k)}</span>
+            {k in b && <span className="num rounded bg-parchment-100 px-1 line-through decoration-walnut-300">{show(b[k], k, currency)}</span>}
+            {k in b && <ArrowRight className="h-3 w-3 text-walnut-400" aria-label="to" />}
+            <span className="num rounded bg-amber-50 px-1 font-medium text-walnut-900">{k in a ? show(a[k], k, currency) : '(removed)'}</span>
+          </li>
+        ))}
+        {changed.length > 8 && <li className="text-xs text-walnut-500">and {changed.length - 8} more</li>}
+      </ul>
+    </div>
+  );
+}
+
+export function AuditLogPage() {
+  const table = useTableState({ sort: 'at', dir: 'desc', filters: ['entityType', 'userId', 'from', 'to'] });
+  const filters = useAuditFilters();
+  const currency = useWorkshop().data?.settings.pricing.currency ?? '';
+  const f = table.state.filters;
+  const query: Partial<AuditQuery> = {
+    entityType: f.entityType || undefined,
+    userId: f.userId ? Number(f.userId) : undefined,
+    from: f.from || undefined,
+    to: f.to || undefined,
+    dir: table.state.dir,
+    page: table.state.page,
+    pageSize: PAGE_SIZE,
+  };
+  const log = useAudit(query);
+  const columns: Column<AuditEntryDto>[] = [
+    { key: 'at', header: 'When', sortKey: 'at', render: (e) => <span className="whitespace-nowrap text-walnut-700">{formatDateTime(e.at)}</span> },
+    { key: 'who', header: 'Who', render: (e) => e.userName ?? <span className="text-walnut-400">the system</span> },
+    {
+      key: 'what',
+      header: 'What',
+      render: (e) => (
+        <span className="whitespace-nowrap">
+          {describeAction(e.action)} <span className="rounded bg-parchment-100 px-1.5 py-0.5 text-xs text-walnut-700">{AUDIT_ENTITY_LABELS[e.entityType] ?? e.entityType}</span>
+          {e.entityId && <span className="ml-1 font-mono text-xs text-walnut-400">#{e.entityId.slice(0, 8)}</span>}
+        </span>
+      ),
+    },
+    { key: 'change', header: 'From → to', render: (e) => <ChangeSummary before={e.before} after={e.after} currency={currency} /> },
+  ];
+  const filtered = Object.values(f).some(Boolean);
+  return (
+    <>
+      <PageHeader title="Audit log" description="Who changed which price, rate, setting, system, species or user, from what to what, and when. Entries are written with the change itself and never edited." />
+      <form className="mb-4 flex flex-wrap items-end gap-3" onSubmit={(e) => e.preventDefault()} aria-label="Filter the audit log">
+        <label className="text-sm text-walnut-700">
+          <span className="mb-1 block font-medium">Record</span>
+          <select value={f.entityType} onChange={(e) => table.setFilter('entityType', e.target.value)} className="rounded-md border border-walnut-200 bg-white px-3 py-2 text-sm">
+            <option value="">All records</option>
+            {(filters.data?.entityTypes ?? []).map((t) => <option key={t} value={t}>{AUDIT_ENTITY_LABELS[t] ?? t}</option>)}
+          </select>
+        </label>
+        <label className="text-sm text-walnut-700">
+          <span className="mb-1 block font-medium">Person</span>
+          <select value={f.userId} onChange={(e) => table.setFilter('userId', e.target.value)} className="rounded-md border border-walnut-200 bg-white px-3 py-2 text-sm">
+            <option value="">Everyone</option>
+            {(filters.data?.users ?? []).map((u) => <option key={u.id} value={u.id}>{u.name}</option>)}
+          </select>
+        </label>
+        <label className="text-sm text-walnut-700">
+          <span className="mb-1 block font-medium">From (date)</span>
+          <input type="date" value={f.from} onChange={(e) => table.setFilter('from', e.target.value)} className="rounded-md border border-walnut-200 bg-white px-3 py-1.5 text-sm" />
+        </label>
+        <label className="text-sm text-walnut-700">
+          <span className="mb-1 block font-medium">To (date, included)</span>
+          <input type="date" value={f.to} onChange={(e) => table.setFilter('to', e.target.value)} className="rounded-md border border-walnut-200 bg-white px-3 py-1.5 text-sm" />
+        </label>
+        {filtered && (
+          <Button variant="ghost" onClick={() => ['entityType', 'userId', 'from', 'to'].forEach((k) => table.setFilter(k, ''))}>
+            <FilterX className="h-4 w-4" aria-hidden /> Clear filters
+          </Button>
+        )}
+      </form>
+      {log.isError ? (
+        <Alert tone="error" title="The audit log could not be loaded">{log.error.message}</Alert>
+      ) : (
+        <DataTable
+          caption="Audit log"
+          columns={columns}
+          rows={log.data?.rows ?? []}
+          rowKey={(e) => e.id}
+          total={log.data?.total ?? 0}
+          page={table.state.page}
+          pageSize={PAGE_SIZE}
+          sort="at"
+          dir={table.state.dir}
+          loading={log.isFetching}
+          empty="No entry matches these filters."
+          onSort={table.toggleSort}
+          onPage={table.setPage}
+        />
+      )}
+    </>
+  );
+}
+
+export const Component = AuditLogPage;

@@ -1,0 +1,71 @@
+import { Flame, Info, ShieldAlert, TriangleAlert, Wind } from 'lucide-react';
+import type { Caution, EstimateResult } from '@shared/schemas/calc';
+import type { UnitSystem } from '@shared/units';
+
+const SEVERITY: Record<Caution['severity'], { word: string; Icon: typeof Flame; box: string }> = {
+  danger: { word: 'Danger', Icon: Flame, box: 'border-brick-600/40 bg-brick-100/70 text-brick-700' },
+  warning: { word: 'Warning', Icon: TriangleAlert, box: 'border-amber-500/50 bg-amber-50 text-amber-800' },
+  info: { word: 'Note', Icon: Info, box: 'border-walnut-200 bg-parchment-50 text-walnut-700' },
+};
+
+/** The fresh-air figure of the busiest session, in the display units. */
+function airFlow(m3h: number, units: UnitSystem): string {
+  return units === 'metric' ? `${Math.ceil(m3h).toLocaleString('en-GB')} m³/h` : `${Math.ceil(m3h / M3H_PER_CFM).toLocaleString('en-GB')} cfm`;
+}
+
+/** Cubic metres per hour in one cubic foot per minute. */
+const M3H_PER_CFM = 1.6990108;
+
+/** The fire, vapour and oily-rag cautions with the ventilation figure: shown with every estimate. */
+export function CautionsPanel({ result, units, compact = false }: { result: Pick<EstimateResult, 'cautions' | 'ventilation' | 'warnings'>; units: UnitSystem; compact?: boolean }) {
+  const v = result.ventilation;
+  return (
+    <section aria-labelledby="cautions-heading" className="rounded-xl border border-brick-600/30 bg-white shadow-card">
+      <header className="flex items-center gap-2 border-b border-brick-600/20 bg-brick-100/50 px-4 py-2.5">
+        <ShieldAlert className="h-4 w-4 text-brick-700" aria-hidden />
+        <h2 id="cautions-heading" className="text-base font-semibold text-brick-700">
+          Safety cautions
+        </h2>
+      </header>
+      <div className="space-y-3 px-4 py-3 text-sm">
+        <div className={`flex gap-2 rounded-md border px-3 py-2 ${v.adequate ? 'border-walnut-200 bg-parchment-50 text-walnut-800' : 'border-brick-600/40 bg-brick-100 text-brick-700'}`} data-testid="ventilation">
+          <Wind className="mt-0.5 h-4 w-4 shrink-0" aria-hidden />
+          <p>
+            <strong>{v.adequate ? 'Ventilation adequate' : 'Ventilation NOT adequate'}:</strong> the busiest session evaporates{' '}
+            <span className="num">{v.worstSession.spiritL.toFixed(2)} L</span> of spirit and needs{' '}
+            <span className="num font-semibold">{airFlow(v.requiredFlowM3h, units)}</span> of fresh air; the room supplies{' '}
+            <span className="num">{airFlow(v.suppliedFlowM3h, units)}</span> ({v.airChangesPerHour} air changes per hour in{' '}
+            <span className="num">{v.roomVolumeM3} m³</span>).
+          </p>
+        </div>
+        {result.warnings.length > 0 && (
+          <ul className="space-y-1.5" aria-label="Things to check on this job">
+            {result.warnings.map((w) => (
+              <li key={w.code + w.text} className="flex gap-2 rounded-md border border-amber-500/50 bg-amber-50 px-3 py-1.5 text-amber-800">
+                <TriangleAlert className="mt-0.5 h-4 w-4 shrink-0" aria-hidden />
+                <span>
+                  <span className="font-semibold">Check: </span>
+                  {w.text}
+                </span>
+              </li>
+            ))}
+          </ul>
+        )}
+        <ul className={compact ? 'space-y-1' : 'space-y-1.5'}>
+          {result.cautions.map((c) => {
+            const s = SEVERITY[c.severity];
+            return (
+              <li key={c.code} className={`flex gap-2 rounded-md border px-3 py-1.5 ${s.box}`}>
+                <s.Icon className="mt-0.5 h-4 w-4 shrink-0" aria-hidden />
+                <span>
+                  <span className="font-semibold">{s.word}: </span>
+                  {c.text}
+                </span>
+              </li>
+            );
+          })}
+        </ul>
+      </div>
+    </section>
+  );
+}

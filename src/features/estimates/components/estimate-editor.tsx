@@ -1,0 +1,320 @@
+import { Hammer, LayoutList, ListRestart, Save, Thermometer, TriangleAlert, Wand2 } from 'lucide-react';
+import { useDeferredValue, useEffect, useMemo, useState, type FormEvent, type ReactNode } from 'react';
+import { estimate } from '@shared/calc';
+import { TEMPLATE_KEYS, TEMPLATE_DIMENSIONS, type EstimateInput, type EstimateResult, type TemplateKey } from '@shared/schemas/calc';
+import type { PieceKind } from '@shared/schemas/customers';
+import { UnitParseError } from '@shared/units';
+import { Alert } from '@/components/alert';
+import { Button } from '@/components/button';
+import { ApiError } from '@/lib/api';
+import type { CalcCatalog } from '../api/catalog';
+import { useDisplayUnits } from '../lib/display-units';
+import {
+  buildInput, defaultDimension, describePath, DIMENSION_LABELS, errorsByPath, messageAt, partsFromTemplate, systemStages, TEMPLATE_LABELS,
+  TEMPLATES_FOR_KIND, type EstimateDraft,
+} from '../lib/draft';
+import { formatArea } from '../lib/measures';
+import { CautionsPanel } from './cautions';
+import { CellInput, CheckField, LengthInput, MiniSelect } from './fields';
+import { PartsTable } from './parts-table';
+import { ResultsDetail } from './results-detail';
+import { ResultsSummary } from './results-summary';
+import { StagesEditor } from './stages-editor';
+import { UnitsToggle } from './units-toggle';
+
+export interface SavePayload {
+  input: EstimateInput;
+  title: string;
+  note: string;
+}
+
+export interface EstimateEditorProps {
+  calc: CalcCatalog;
+  pieceKind: PieceKind;
+  initial: EstimateDraft;
+  saveLabel: string;
+  saving?: boolean;
+  saveError?: unknown;
+  /** Shown above the save button (a conflict with someone else's save, for instance). */
+  notice?: ReactNode;
+  onSave: (payload: SavePayload) => void;
+  onCancel?: () => void;
+  /** Local date the engine uses when no start date is given (tests pin it). */
+  today?: string;
+}
+
+type Outcome = { ok: true; result: EstimateResult } | { ok: false; errors: Record<string, string> };
+
+function Panel({ title, icon, children, actions }: { title: string; icon: ReactNode; children: ReactNode; actions?: ReactNode }) {
+  return (
+    <section className="rounded-xl border border-parchment-200 bg-white shadow-card">
+      <header className="flex flex-wrap items-center justify-between gap-3 border-b border-parchment-200 px-5 py-3">
+        <h2 className="flex items-center gap-2 text-lg font-semibold text-walnut-800">
+          {icon}
+          {title}
+        </h2>
+        {actions}
+      </header>
+      <div className="px-5 py-4">{children}</div>
+    </section>
+  );
+}
+
+/** Server field names carry the request's "input." prefix; the editor's paths start inside the input. */
+function serverErrors(error: unknown): Record<string, string> {
+  if (!(error instanceof ApiError)) return {};
+  const out: Record<string, string> = {};
+  for (const e of error.errors.length > 0 ? error.errors : error.field ? [{ field: error.field, message: error.message }] : []) {
+    out[e.field.replace(/^input\./, '')] ??= e.message;
+  }
+  return out;
+}
+
+/**
+ * The estimate editor: the piece (template or parts table), the finishing system and its stages, the job's
+ * climate, start and discount; the shared engine prices it on every change, as the finisher types.
+ */
+export function EstimateEditor({ calc, pieceKind, initial, saveLabel, saving = false, saveError, notice, onSave, onCancel, today }: EstimateEditorProps) {
+  const { catalog, settings } = calc;
+  const [draft, setDraft] = useState<EstimateDraft>(initial);
+  const [units, setUnits] = useDisplayUnits(settings.units);
+  const [templateError, setTemplateError] = useState<string>();
+  const [submitted, setSubmitted] = useState(false);
+  const patch = (p: Partial<EstimateDraft>) => setDraft((d) => ({ ...d, ...p }));
+
+  // The engine runs on the deferred draft so typing never waits for it.
+  const deferred = useDeferredValue(draft);
+  const input = useMemo(() => buildInput(deferred, settings), [deferred, settings]);
+  const outcome = useMemo<Outcome>(() => {
+    try {
+      return { ok: true, result: estimate(input, catalog, today ? { today } : {}) };
+    } catch (error) {
+      return { ok: false, errors: errorsByPath(error) };
+    }
+  }, [input, catalog, today]);
+  const [lastGood, setLastGood] = useState<EstimateResult | null>(outcome.ok ? outcome.result : null);
+  useEffect(() => {
+    if (outcome.ok) setLastGood(outcome.result);
+  }, [outcome]);
+
+  const fromServer = serverErrors(saveError);
+  const errors: Record<string, string> = { ...fromServer, ...(outcome.ok ? {} : outcome.errors) };
+  const result = outcome.ok ? outcome.result : lastGood;
+  const stale = !outcome.ok;
+
+  const knownPaths = (path: string): boolean =>
+    /^piece\.(dimensions\.\w+|species|parts(\.\d+\.(name|count|species|thickness|shape(\.\w+)?|shape\.points.*|cutOuts\.\d+\.\w+))?)$/.test(path) ||
+    /^stages\.\d+\.\w+$/.test(path) ||
+    /^(climate\.(temperatureC|humidityPct)|startDate|discountPct|system)$/.test(path);
+  const elsewhere = Object.entries(errors).filter(([path]) => !knownPaths(path));
+
+  const templates = [...TEMPLATES_FOR_KIND[pieceKind], ...TEMPLATE_KEYS.filter((t) => !TEMPLATES_FOR_KIND[pieceKind].includes(t))];
+  const speciesOptions = catalog.species.map((s) => ({ value: s.key, label: s.name }));
+  const wood = catalog.species.find((s) => s.key === draft.species);
+  const system = catalog.systems.find((s) => s.key === draft.system);
+
+  const editParts = () => {
+    try {
+      const parts = partsFromTemplate(draft, settings.defaultLengthUnit);
+      setTemplateError(undefined);
+      patch({ mode: 'parts', parts });
+    } catch (error) {
+      setTemplateError(error instanceof UnitParseError ? error.message : String(error));
+    }
+  };
+  const backToTemplate = () => {
+    if (window.confirm('Go back to the template? Your edits to the parts table will be lost.')) patch({ mode: 'template' });
+  };
+
+  const submit = (e: FormEvent) => {
+    e.preventDefault();
+    setSubmitted(true);
+    if (!outcome.ok) return;
+    onSave({ input: buildInput(draft, settings), title: draft.title.trim(), note: draft.note.trim() });
+  };
+
+  return (
+    <form onSubmit={submit} noValidate className="space-y-6" aria-label="Estimate">
+      {calc.warnings.length > 0 && (
+        <Alert tone="warning" title="The price list needs attention">
+          <ul className="list-disc pl-4">
+            {calc.warnings.map((w) => (
+              <li key={w.code + w.text}>{w.text}</li>
+            ))}
+          </ul>
+        </Alert>
+      )}
+      <div className="grid items-start gap-6 xl:grid-cols-[minmax(0,1fr)_26rem]">
+        <div className="min-w-0 space-y-6">
+          <Panel
+            title="The piece"
+            icon={<Hammer className="h-4 w-4 text-amber-600" aria-hidden />}
+            actions={
+              draft.mode === 'template' ? (
+                <Button size="sm" variant="secondary" onClick={editParts}>
+                  <LayoutList className="h-3.5 w-3.5" aria-hidden /> Edit the parts table
+                </Button>
+              ) : (
+                <Button size="sm" variant="ghost" onClick={backToTemplate}>
+                  <ListRestart className="h-3.5 w-3.5" aria-hidden /> Back to the template
+                </Button>
+              )
+            }
+          >
+            {draft.mode === 'template' ? (
+              <div className="space-y-4">
+                <p className="text-sm text-walnut-600">
+                  Pick a template and type its sizes with their units — <span className="font-medium">190 cm</span>, <span className="font-medium">6 ft 3 in</span>,{' '}
+                  <span className="font-medium">1900 mm</span>. A bare number is in {settings.defaultLengthUnit}. Leave a size empty to use the template's usual one.
+                </p>
+                <div className="grid gap-4 sm:grid-cols-2 lg:grid-cols-4">
+                  <MiniSelect<TemplateKey>
+                    showLabel
+                    label="Template"
+                    value={draft.template}
+                    options={templates.map((t) => ({ value: t, label: TEMPLATE_LABELS[t] }))}
+                    onChange={(template) => {
+                      const dims: Record<string, string> = {};
+                      for (const name of TEMPLATE_DIMENSIONS[template]) dims[name] = draft.dimensions[name] ?? '';
+                      patch({ template, dimensions: dims });
+                    }}
+                  />
+                  {TEMPLATE_DIMENSIONS[draft.template].map((name) => (
+                    <LengthInput
+                      key={name}
+                      showLabel
+                      unit={settings.defaultLengthUnit}
+                      label={DIMENSION_LABELS[name] ?? name}
+                      value={draft.dimensions[name] ?? ''}
+                      placeholder={defaultDimension(draft.template, name, units)}
+                      onValue={(v) => {
+                        setTemplateError(undefined);
+                        patch({ dimensions: { ...draft.dimensions, [name]: v } });
+                      }}
+                      error={messageAt(errors, `piece.dimensions.${name}`)}
+                    />
+                  ))}
+                </div>
+                <div className="grid gap-4 sm:grid-cols-2 lg:grid-cols-4">
+                  <MiniSelect showLabel label="Wood" value={draft.species} options={speciesOptions} onChange={(species) => patch({ species })} error={messageAt(errors, 'piece.species')} hint={wood ? (wood.needsGrainFill ? 'Open pores: grain filled' : wood.pores === 'ebonised' ? 'Ebonised: no grain filling' : 'Closed pores: no grain filling') : undefined} />
+                  <div className="pt-5">
+                    <CheckField label="Veneered" hint="Careful stripping and cutting back" checked={draft.veneered} onChange={(veneered) => patch({ veneered })} />
+                  </div>
+                  <div className="pt-5 text-sm text-walnut-600 lg:col-span-2">
+                    {result && (
+                      <p>
+                        The {TEMPLATE_LABELS[draft.template].toLowerCase()} template makes <span className="font-semibold text-walnut-800">{result.parts.length} parts</span>,{' '}
+                        <span className="num font-semibold text-walnut-800" data-testid="piece-area">
+                          {formatArea(result.totals.areaM2, units)}
+                        </span>{' '}
+                        to polish. Edit the parts table to change any of them.
+                      </p>
+                    )}
+                  </div>
+                </div>
+                {templateError && <Alert tone="error" title="The parts table cannot be made yet">{templateError}</Alert>}
+              </div>
+            ) : (
+              <PartsTable
+                parts={draft.parts}
+                onChange={(parts) => patch({ parts })}
+                errors={errors}
+                unit={settings.defaultLengthUnit}
+                units={units}
+                species={catalog.species}
+                areas={outcome.ok ? outcome.result.parts : draft.parts.map(() => undefined)}
+              />
+            )}
+          </Panel>
+
+          <Panel title="Finishing system and stages" icon={<Wand2 className="h-4 w-4 text-amber-600" aria-hidden />}>
+            <div className="mb-4 grid gap-4 sm:grid-cols-[18rem_1fr]">
+              <MiniSelect
+                showLabel
+                label="Finishing system"
+                value={draft.system}
+                options={catalog.systems.map((s) => ({ value: s.key, label: s.name }))}
+                onChange={(key) => patch({ system: key, stages: systemStages(catalog, key) })}
+                error={messageAt(errors, 'system')}
+              />
+              <p className="self-end text-sm text-walnut-600">
+                {system?.description} This estimate keeps its own copy of the stages: change them here without touching the workshop's system.
+              </p>
+            </div>
+            <StagesEditor stages={draft.stages} onChange={(stages) => patch({ stages })} errors={errors} results={result?.stages ?? []} catalog={catalog} />
+          </Panel>
+
+          <Panel title="The job" icon={<Thermometer className="h-4 w-4 text-amber-600" aria-hidden />}>
+            <div className="grid gap-4 sm:grid-cols-2 lg:grid-cols-4">
+              <CellInput showLabel label="Workshop temperature" suffix="°C" inputMode="decimal" value={draft.temperatureC} onValue={(v) => patch({ temperatureC: v })} error={messageAt(errors, 'climate.temperatureC')} hint="Cold slows drying" />
+              <CellInput showLabel label="Relative humidity" suffix="% RH" inputMode="decimal" value={draft.humidityPct} onValue={(v) => patch({ humidityPct: v })} error={messageAt(errors, 'climate.humidityPct')} hint="Above 75 % shellac may bloom" />
+              <CellInput showLabel label="Start date" type="date" value={draft.startDate} onValue={(v) => patch({ startDate: v })} error={messageAt(errors, 'startDate')} />
+              <CellInput showLabel label="Discount" suffix="%" inputMode="decimal" value={draft.discountPct} onValue={(v) => patch({ discountPct: v })} error={messageAt(errors, 'discountPct')} hint={`Workshop cap ${catalog.pricing.maxDiscountPct} %`} />
+            </div>
+            <div className="mt-4 grid gap-4 sm:grid-cols-2">
+              <CellInput showLabel label="Title" value={draft.title} onValue={(v) => patch({ title: v })} maxLength={160} error={fromServer.title} />
+              <CellInput showLabel label="Note for this revision" placeholder="What changed, and why" value={draft.note} onValue={(v) => patch({ note: v })} maxLength={1000} error={fromServer.note} />
+            </div>
+          </Panel>
+
+          <div className="sticky bottom-0 z-10 -mx-2 space-y-3 rounded-t-xl border-t border-parchment-200 bg-parchment-50/95 px-2 py-3 backdrop-blur">
+            {notice}
+            {saveError !== undefined && saveError !== null && !(saveError instanceof ApiError && saveError.code === 'stale_revision') && (
+              <Alert tone="error" title="Not saved">
+                {saveError instanceof Error ? saveError.message : String(saveError)}
+              </Alert>
+            )}
+            {submitted && !outcome.ok && (
+              <Alert tone="error" title="Not saved yet">
+                Fix the fields marked ▲ first; the figures beside them are from the last good version.
+              </Alert>
+            )}
+            <div className="flex flex-wrap items-center justify-end gap-2">
+              <p className="mr-auto text-xs text-walnut-500">The server prices the estimate again when you save; what you see is what it will save.</p>
+              {onCancel && (
+                <Button variant="secondary" onClick={onCancel}>
+                  Cancel
+                </Button>
+              )}
+              <Button type="submit" variant="accent" busy={saving}>
+                <Save className="h-4 w-4" aria-hidden /> {saveLabel}
+              </Button>
+            </div>
+          </div>
+        </div>
+
+        <aside className="space-y-4 xl:sticky xl:top-4" aria-label="Live estimate">
+          <div className="flex items-center justify-between gap-2">
+            <p className="text-sm font-semibold text-walnut-700">Live figures</p>
+            <UnitsToggle value={units} onChange={setUnits} />
+          </div>
+          {elsewhere.length > 0 && (
+            <div role="alert" className="rounded-lg border border-brick-600/40 bg-brick-100 px-3 py-2 text-sm text-brick-700">
+              <p className="flex items-center gap-1.5 font-semibold">
+                <TriangleAlert className="h-4 w-4" aria-hidden /> To fix
+              </p>
+              <ul className="mt-1 list-disc pl-5">
+                {elsewhere.map(([path, message]) => (
+                  <li key={path}>
+                    {describePath(path, draft)}: {message}
+                  </li>
+                ))}
+              </ul>
+            </div>
+          )}
+          {result ? (
+            <>
+              <ResultsSummary result={result} units={units} stale={stale} heading="This estimate" />
+              <CautionsPanel result={result} units={units} compact />
+            </>
+          ) : (
+            <Alert tone="warning" title="Nothing to price yet">
+              Fix the fields marked ▲ and the figures appear here.
+            </Alert>
+          )}
+        </aside>
+      </div>
+      {result && <ResultsDetail result={result} units={units} catalog={catalog} stale={stale} />}
+    </form>
+  );
+}

@@ -1,0 +1,134 @@
+import { fireEvent, screen, waitFor, within } from '@testing-library/react';
+import { afterEach, beforeEach, describe, expect, it, vi } from 'vitest';
+import { EstimateEditor, type SavePayload } from '../../src/features/estimates/components/estimate-editor';
+import { newDraft } from '../../src/features/estimates/lib/draft';
+import { CALC, ME, PIECE } from './estimates-fixtures';
+import { fakeFetch, json, renderWithApp } from './render';
+
+beforeEach(() => {
+  window.localStorage.clear();
+  vi.stubGlobal('fetch', fakeFetch({ '/api/auth/me': () => json(ME) }).fn);
+});
+afterEach(() => vi.unstubAllGlobals());
+
+function renderEditor(onSave: (p: SavePayload) => void = () => {}) {
+  const initial = { ...newDraft(PIECE, CALC.catalog, CALC.settings), startDate: '2026-03-02' };
+  return renderWithApp(<EstimateEditor calc={CALC} pieceKind="grand" initial={initial} saveLabel="Save estimate" onSave={onSave} today="2026-03-02" />);
+}
+
+const text = (testId: string) => screen.getByTestId(testId).textContent ?? '';
+const areaValue = (s: string) => Number(s.replace(/[^\d.]/g, ''));
+
+describe('EstimateEditor', () => {
+  it('prices the piece at once, every figure with its unit', async () => {
+    renderEditor();
+    expect(text('total-area')).toMatch(/^\d+(\.\d+)? m²$/);
+    expect(text('total-coats')).toMatch(/^\d+ coats$/);
+    expect(text('total-hours')).toMatch(/^\d+(\.\d)? h$/);
+    expect(text('total-flakes')).toMatch(/^\d+(\.\d+)? (g|kg)$/);
+    expect(text('total-spirit')).toMatch(/^\d+(\.\d+)? (mL|L)$/);
+    expect(text('total-days')).toMatch(/^\d+ days?$/);
+    expect(text('total-price')).toMatch(/^£[\d,]+\.\d{2}$/);
+    // The cautions and the ventilation figure come with every estimate.
+    expect(screen.getByRole('heading', { name: 'Safety cautions' })).toBeTruthy();
+    expect(text('ventilation')).toMatch(/m³\/h/);
+    // Area per part, per-stage figures and packs show their units too.
+    expect(within(screen.getByTestId('part-area-lid-top')).getAllByText(/m²$/).length).toBeGreaterThan(0);
+    expect(within(screen.getByTestId('stage-body')).getAllByText(/^\d+(\.\d)? h$/).length).toBeGreaterThan(0);
+    expect(within(screen.getByTestId('material-shellac-flakes')).getAllByText(/× \d+ g @ £/).length).toBeGreaterThan(0);
+  });
+
+  it('typing a dimension updates the area shown', async () => {
+    renderEditor();
+    const before = areaValue(text('total-area'));
+    fireEvent.change(screen.getByLabelText('Length'), { target: { value: '6 ft 3 in' } });
+    expect(screen.getByText('read as 1905 mm (75.0 in)')).toBeTruthy();
+    fireEvent.change(screen.getByLabelText('Length'), { target: { value: '250 cm' } });
+    await waitFor(() => expect(areaValue(text('total-area'))).toBeGreaterThan(before));
+    expect(text('piece-area')).toBe(text('total-area'));
+  });
+
+  it('a bad length shows the message beside the field and keeps the last figures, marked out of date', async () => {
+    renderEditor();
+    const price = text('total-price');
+    const length = screen.getByLabelText('Length');
+    fireEvent.change(length, { target: { value: '190 furlongs' } });
+    await waitFor(() => expect(length.getAttribute('aria-invalid')).toBe('true'));
+    const message = document.getElementById(length.getAttribute('aria-describedby')!)!;
+    expect(message.textContent).toMatch(/"furlongs" is not a length unit/);
+    expect(message.getAttribute('role')).toBe('alert');
+    expect(screen.getByTestId('stale').textContent).toMatch(/Out of date/);
+    expect(text('total-price')).toBe(price);
+    fireEvent.change(length, { target: { value: '200 cm' } });
+    await waitFor(() => expect(screen.queryByTestId('stale')).toBeNull());
+    expect(length.getAttribute('aria-invalid')).toBeNull();
+  });
+
+  it('switches to imperial display and remembers the choice', async () => {
+    const first = renderEditor();
+    fireEvent.click(screen.getByRole('button', { name: /Imperial/ }));
+    expect(text('total-area')).toMatch(/ft²$/);
+    expect(text('total-flakes')).toMatch(/(oz|lb)$/);
+    first.unmount();
+    renderEditor();
+    await waitFor(() => expect(text('total-area')).toMatch(/ft²$/));
+  });
+
+  /** Part rows by their accessible name (querying the DOM directly: role queries over the whole page are slow in jsdom). */
+  const rows = () => [...document.querySelectorAll<HTMLElement>('li[aria-label^="Part "]')];
+  const row = (name: RegExp) => rows().find((r) => name.test(r.getAttribute('aria-label') ?? ''))!;
+
+  it('edits the generated parts table: a count changes that part’s area, a bad count is named beside the field', async () => {
+    renderEditor();
+    fireEvent.click(screen.getByRole('button', { name: 'Edit the parts table' }));
+    const legs = row(/^Part \d+: Legs$/);
+    const area = within(legs).getByTestId(/row-area-/);
+    const before = areaValue(area.textContent ?? '');
+    fireEvent.change(within(legs).getByLabelText('Count of Legs'), { target: { value: '6' } });
+    await waitFor(() => expect(areaValue(area.textContent ?? '')).toBeCloseTo(before * 2, 2));
+    fireEvent.change(within(legs).getByLabelText('Count of Legs'), { target: { value: 'three' } });
+    await waitFor(() => expect(within(legs).getByRole('alert').textContent).toMatch(/whole number/));
+    expect(screen.getByTestId('stale')).toBeTruthy();
+  }, 30_000);
+
+  it('adds, duplicates and removes parts', async () => {
+    renderEditor();
+    fireEvent.click(screen.getByRole('button', { name: 'Edit the parts table' }));
+    const start = rows().length;
+    fireEvent.click(within(row(/: Lyre$/)).getByLabelText('Duplicate Lyre'));
+    expect(rows().length).toBe(start + 1);
+    expect(row(/Lyre \(copy\)/)).toBeTruthy();
+    fireEvent.click(within(row(/Lyre \(copy\)/)).getByLabelText('Remove Lyre (copy)'));
+    expect(rows().length).toBe(start);
+    fireEvent.click(screen.getByText('Add a part'));
+    expect(rows().length).toBe(start + 1);
+    const added = row(/New part/);
+    fireEvent.change(within(added).getByLabelText('Length of New part'), { target: { value: '50 cm' } });
+    fireEvent.change(within(added).getByLabelText('Width of New part'), { target: { value: '40 cm' } });
+    await waitFor(() => expect(within(added).getByTestId(/row-area-/).textContent).toBe('0.20 m²'));
+  }, 30_000);
+
+  it('saves the inputs only: the server works out the figures again', async () => {
+    const onSave = vi.fn();
+    renderEditor(onSave);
+    fireEvent.change(screen.getByLabelText('Length'), { target: { value: '195 cm' } });
+    fireEvent.change(screen.getByLabelText('Sessions of Bodying with the rubber'), { target: { value: '8' } });
+    fireEvent.click(screen.getByRole('button', { name: 'Save estimate' }));
+    expect(onSave).toHaveBeenCalledTimes(1);
+    const payload = onSave.mock.calls[0]![0] as SavePayload;
+    expect(payload.input.piece).toMatchObject({ template: 'grand', dimensions: { length: '195 cm' } });
+    expect(payload.input.stages?.find((s) => s.key === 'body')?.sessions).toBe(8);
+    expect(JSON.stringify(payload)).not.toMatch(/"totals"|"price"/);
+    expect(payload.title).toBe(PIECE.description);
+  });
+
+  it('refuses to save while a field is wrong, and says why', async () => {
+    const onSave = vi.fn();
+    renderEditor(onSave);
+    fireEvent.change(screen.getByLabelText('Relative humidity'), { target: { value: '140' } });
+    await waitFor(() => expect(screen.getByLabelText('Relative humidity').getAttribute('aria-invalid')).toBe('true'));
+    fireEvent.click(screen.getByRole('button', { name: 'Save estimate' }));
+    expect(onSave).not.toHaveBeenCalled();
+    expect(screen.getByText(/Fix the fields marked ▲ first/)).toBeTruthy();
+  });
+});
