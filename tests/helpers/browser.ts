@@ -5,6 +5,7 @@ import type { AddressInfo } from 'node:net';
 import path from 'node:path';
 import { chromium, type Browser, type Page } from 'playwright-core';
 import { rootDir } from '../../server/config';
+import { startLocalServices, type LocalServices } from '../../server/fakes';
 import { getTestApp } from './app';
 
 export const artifactsDir = path.join(rootDir, 'tests', 'artifacts', 'screenshots');
@@ -16,15 +17,32 @@ export async function launchBrowser(): Promise<Browser> {
   });
 }
 
-/** Serves the built client and the API from one server, as `npm start` does. */
-export async function startServer(): Promise<{ baseUrl: string; stop: () => Promise<void> }> {
+/**
+ * Serves the built client and the API from one server, as `npm start` does. With `services`, the local mail catcher
+ * and payment stand-in run too, their links and webhooks pointed at this server.
+ */
+export async function startServer(opts: { services?: boolean } = {}): Promise<{
+  baseUrl: string;
+  services?: LocalServices;
+  stop: () => Promise<void>;
+}> {
   const built = getTestApp({ serveClient: true });
   const server = http.createServer(built.app);
   await new Promise<void>((resolve) => server.listen(0, '127.0.0.1', resolve));
   const { port } = server.address() as AddressInfo;
+  const baseUrl = `http://127.0.0.1:${port}`;
+  let services: LocalServices | undefined;
+  if (opts.services) {
+    built.config.publicUrl = baseUrl;
+    built.config.mail.url = undefined;
+    built.config.payments = { apiUrl: undefined, secretKey: undefined, webhookSecret: undefined };
+    services = await startLocalServices(built.config);
+  }
   return {
-    baseUrl: `http://127.0.0.1:${port}`,
+    baseUrl,
+    services,
     stop: async () => {
+      await services?.stop();
       server.closeAllConnections();
       await new Promise<void>((resolve) => server.close(() => resolve()));
     },
