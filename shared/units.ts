@@ -6,13 +6,10 @@
  */
 import { unit } from 'mathjs';
 
-/** Length units a bare number may take. */
-export const LENGTH_UNITS = ['mm', 'cm', 'm', 'in', 'ft'] as const;
-export type LengthUnit = (typeof LENGTH_UNITS)[number];
+import type { LengthUnit, UnitSystem } from './unit-names';
 
-/** Display systems a workshop may choose. */
-export const UNIT_SYSTEMS = ['metric', 'imperial'] as const;
-export type UnitSystem = (typeof UNIT_SYSTEMS)[number];
+export { LENGTH_UNITS, UNIT_SYSTEMS } from './unit-names';
+export type { LengthUnit, UnitSystem } from './unit-names';
 
 /** The largest length the estimator accepts: nothing in a workshop is longer than 100 m. */
 export const MAX_LENGTH_MM = 100_000;

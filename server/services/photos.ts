@@ -55,6 +55,7 @@ interface Checked {
   ext: string;
   width: number;
   height: number;
+  thumb: Buffer;
 }
 
 async function check(file: UploadedFile, index: number): Promise<Checked> {
@@ -71,7 +72,18 @@ async function check(file: UploadedFile, index: number): Promise<Checked> {
   }
   const format = meta.format ? FORMATS[meta.format] : undefined;
   if (!format || !meta.width || !meta.height) throw reject(`is a ${meta.format ?? 'unknown'} file; only JPEG, PNG and WebP are accepted`);
-  return { file, mime: format.mime, ext: format.ext, width: meta.width, height: meta.height };
+  // Decoding the whole image for the thumbnail also proves the file is not damaged past its header.
+  let thumb: Buffer;
+  try {
+    thumb = await sharp(file.buffer, { limitInputPixels: MAX_PIXELS })
+      .rotate()
+      .resize({ width: 480, height: 480, fit: 'inside', withoutEnlargement: true })
+      .webp({ quality: 78 })
+      .toBuffer();
+  } catch {
+    throw reject('is damaged: the image cannot be read');
+  }
+  return { file, mime: format.mime, ext: format.ext, width: meta.width, height: meta.height, thumb };
 }
 
 /** Stores several photos at once: all are checked first; files are written, then rows in one transaction. */
@@ -90,8 +102,7 @@ export async function addPhotos(sequelize: Sequelize, uploadsDir: string, actorI
       const thumbName = `${base}-thumb.webp`;
       await fs.writeFile(storedPath(uploadsDir, fileName), c.file.buffer, { flag: 'wx' });
       written.push(fileName);
-      const thumb = await sharp(c.file.buffer, { limitInputPixels: MAX_PIXELS }).rotate().resize({ width: 480, height: 480, fit: 'inside', withoutEnlargement: true }).webp({ quality: 78 }).toBuffer();
-      await fs.writeFile(storedPath(uploadsDir, thumbName), thumb, { flag: 'wx' });
+      await fs.writeFile(storedPath(uploadsDir, thumbName), c.thumb, { flag: 'wx' });
       written.push(thumbName);
       stored.push({ c, fileName, thumbName });
     }

@@ -1,6 +1,6 @@
 import { z } from 'zod';
 import { FactorsSchema, PricingSchema, SafetySettingsSchema, ShellacSettingsSchema, WorkingCalendarSchema } from './catalog';
-import { LENGTH_UNITS, UNIT_SYSTEMS } from '../units';
+import { LENGTH_UNITS, UNIT_SYSTEMS } from '../unit-names';
 
 export { CALENDAR_WEEKDAYS as WEEKDAYS } from './catalog';
 

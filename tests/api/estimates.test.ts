@@ -92,6 +92,14 @@ describe('condition photos', () => {
     expect((await estimator.agent.get(`/api/pieces/${pieceId}`)).body.photos).toHaveLength(before);
   });
 
+  it('rejects a damaged image whose header looks right', async () => {
+    const png = await sharp({ create: { width: 200, height: 200, channels: 3, background: '#a0522d' } }).png().toBuffer();
+    const damaged = Buffer.concat([png.subarray(0, 60), Buffer.alloc(200, 0)]);
+    const res = await estimator.agent.post(`/api/pieces/${pieceId}/photos`).set('x-csrf-token', estimator.csrf).attach('photos', damaged, 'cut-short.png');
+    expect(res.status).toBe(400);
+    expect(JSON.parse(res.text)).toMatchObject({ code: 'unsupported_image', field: 'photos' });
+  });
+
   it('rejects an oversize image with 413', async () => {
     const big = Buffer.alloc(9 * 1024 * 1024, 7);
     const res = await estimator.agent.post(`/api/pieces/${pieceId}/photos`).set('x-csrf-token', estimator.csrf).attach('photos', big, 'huge.png');
