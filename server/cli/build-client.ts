@@ -26,6 +26,13 @@ export async function buildClientIfNeeded(log: (m: string) => void = console.log
   if (!clientIsStale()) return;
   log('[build] building the client (vite build)…');
   const { build } = await import('vite');
-  await build({ root: rootDir, configFile: path.join(rootDir, 'vite.config.ts'), logLevel: 'warn' });
+  // Vite sets NODE_ENV to production for the build; this process keeps its own.
+  const nodeEnv = process.env.NODE_ENV;
+  try {
+    await build({ root: rootDir, configFile: path.join(rootDir, 'vite.config.ts'), logLevel: 'warn' });
+  } finally {
+    if (nodeEnv === undefined) delete process.env.NODE_ENV;
+    else process.env.NODE_ENV = nodeEnv;
+  }
   log('[build] client built into dist/');
 }
