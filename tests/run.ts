@@ -57,8 +57,12 @@ async function main(): Promise<number> {
     await seed(sequelize, { demo: true, uploadsDir: loadConfig().uploadsDir });
     await sequelize.close();
 
-    ensureChromium();
-    await buildClientIfNeeded((m) => console.log(m));
+    // The browser tests need Chromium and the built client; a run of other projects only does not.
+    const projects = vitestArgs.flatMap((a, i) => (a === '--project' ? [vitestArgs[i + 1]] : a.startsWith('--project=') ? [a.slice(10)] : []));
+    if (projects.length === 0 || projects.includes('e2e')) {
+      ensureChromium();
+      await buildClientIfNeeded((m) => console.log(m));
+    }
 
     const artifacts = path.join(rootDir, 'tests', 'artifacts');
     fs.mkdirSync(artifacts, { recursive: true });

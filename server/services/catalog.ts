@@ -51,10 +51,41 @@ async function sequentially(tasks: readonly (() => Promise<unknown>)[]): Promise
   return out;
 }
 
+/**
+ * A cheap fingerprint of everything the catalog is built from: any write to the price list, settings, systems or
+ * species changes it. One small query instead of six larger ones on every preview.
+ */
+async function catalogStamp(sequelize: Sequelize, transaction?: Transaction): Promise<string> {
+  const [row] = await sequelize.query<{ stamp: string }>(
+    `SELECT concat_ws('|',
+       (SELECT max(updated_at) FROM workshops),
+       (SELECT max(updated_at) FROM species), (SELECT count(*) FROM species),
+       (SELECT max(updated_at) FROM finishing_systems), (SELECT count(*) FROM finishing_systems),
+       (SELECT max(updated_at) FROM materials), (SELECT count(*) FROM materials),
+       (SELECT max(updated_at) FROM material_packs), (SELECT count(*) FROM material_packs),
+       (SELECT max(id) FROM pack_prices), (SELECT count(*) FROM pack_prices),
+       (SELECT max(updated_at) FROM labour_rates), (SELECT count(*) FROM labour_rates)) AS stamp`,
+    { type: QueryTypes.SELECT, transaction },
+  );
+  return row!.stamp;
+}
+
+/** Catalogs recently built, by date and stamp. Callers must not change what they get (the engine never does). */
+const recent = new Map<string, LoadedCatalog>();
+
 /** Loads the catalog in force on `onDate` (YYYY-MM-DD; today when left out). */
 export async function loadCatalog(sequelize: Sequelize, opts: { onDate?: string; transaction?: Transaction } = {}): Promise<LoadedCatalog> {
-  const { transaction } = opts;
   const onDate = opts.onDate ?? new Date().toISOString().slice(0, 10);
+  const key = `${onDate}|${await catalogStamp(sequelize, opts.transaction)}`;
+  const hit = recent.get(key);
+  if (hit) return hit;
+  const loaded = await buildCatalog(sequelize, onDate, opts.transaction);
+  recent.set(key, loaded);
+  if (recent.size > 8) recent.delete(recent.keys().next().value!);
+  return loaded;
+}
+
+async function buildCatalog(sequelize: Sequelize, onDate: string, transaction?: Transaction): Promise<LoadedCatalog> {
   // One transaction is one connection: its queries run one after another. Without one, they run side by side.
   const tasks = [
     () => loadSettings(transaction),
