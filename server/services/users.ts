@@ -50,7 +50,7 @@ export async function listUsers(query: UserListQuery): Promise<Page<UserDto>> {
   return { rows: rows.map((u) => u.toDto()), total: count, page: query.page, pageSize: query.pageSize };
 }
 
-export async function createUser(sequelize: Sequelize, actorId: number, input: CreateUserInput): Promise<UserDto> {
+export async function createUser(sequelize: Sequelize, actorId: number | null, input: CreateUserInput): Promise<UserDto> {
   const existing = await User.findOne({ where: { email: input.email } });
   if (existing) throw problems.conflict('email_taken', `email: ${input.email} already has an account`);
   const passwordHash = await hashPassword(input.password);
