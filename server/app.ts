@@ -20,6 +20,7 @@ import { estimateRoutes } from './routes/estimates';
 import { finishingRoutes } from './routes/finishing';
 import { healthRoutes } from './routes/health';
 import { pieceRoutes } from './routes/pieces';
+import { planningRoutes } from './routes/planning';
 import { publicQuoteRoutes } from './routes/public-quotes';
 import { quoteRoutes } from './routes/quotes';
 import { priceListRoutes } from './routes/price-list';
@@ -124,6 +125,7 @@ export function createApp({ config, sequelize, databaseUrl, serveClient = true }
   app.use(settingsRoutes(sequelize, routes));
   app.use(finishingRoutes(sequelize, routes));
   app.use(auditRoutes(sequelize, routes));
+  app.use(...planningRoutes(sequelize, routes));
   app.use('/api', apiNotFound);
 
   if (serveClient) {

@@ -1,6 +1,7 @@
 import type { Sequelize } from 'sequelize';
 import { ensureDefaults } from './defaults';
 import { loadDemo } from './demo';
+import { loadDemoPlanning } from './demo-planning';
 import { loadDemoWork } from './demo-work';
 
 /** After migrations: the demo workshop where allowed, then the defaults every workshop needs. Both idempotent. */
@@ -9,4 +10,6 @@ export async function seed(sequelize: Sequelize, opts: { demo: boolean; uploadsD
   await ensureDefaults(sequelize);
   // Customers, pieces and estimates need the price list above.
   if (opts.demo) await loadDemoWork(sequelize, opts.uploadsDir, opts.log);
+  // Accepted quotes, booked and finished jobs, so the planning board is not empty on first start.
+  if (opts.demo) await loadDemoPlanning(sequelize, opts.log);
 }

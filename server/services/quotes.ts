@@ -130,6 +130,7 @@ function summary(q: Quote, e: Estimate, c: Customer, revision: number): QuoteSum
     customer: { id: c.id, name: c.name, email: c.email },
     total: Number(q.total).toFixed(2),
     deposit: Number(q.deposit).toFixed(2),
+    acceptedTotal: q.acceptedTotal === null ? null : Number(q.acceptedTotal).toFixed(2),
     currency: q.currency,
     validUntil: q.validUntil,
     recipient: q.recipient,
@@ -157,7 +158,6 @@ export async function getQuote(id: number, transaction?: Transaction): Promise<Q
     acceptedName: q.acceptedName,
     acceptedIp: q.acceptedIp,
     acceptedExtras: q.acceptedExtras,
-    acceptedTotal: q.acceptedTotal === null ? null : Number(q.acceptedTotal).toFixed(2),
     acceptedDeposit: q.acceptedDeposit === null ? null : Number(q.acceptedDeposit).toFixed(2),
     declineReason: q.declineReason,
     payments: payments.map((p) => ({
@@ -287,19 +287,20 @@ export async function sendQuote(sequelize: Sequelize, config: Config, actorId: n
     const { workshop } = await loadSettings(transaction);
     const pdf = await renderQuotePdf(await buildDocument(quote.id, config.uploadsDir, transaction));
     const url = quoteLink(config, link.token);
+    const validUntil = new Date(`${quote.validUntil}T12:00:00Z`).toLocaleDateString('en-GB', { day: 'numeric', month: 'long', year: 'numeric', timeZone: 'UTC' });
     const total = formatMoney(quote.total, quote.currency);
     const deposit = formatMoney(quote.deposit, quote.currency);
     const intro = quote.message ? `${quote.message}\n\n` : '';
     const text =
       `Dear ${customer.name},\n\n${intro}Please find attached our quote ${quote.number} for ${estimate.title}: ${total}, ` +
-      `with a deposit of ${deposit} to book the work. It is valid until ${quote.validUntil}.\n\n` +
+      `with a deposit of ${deposit} to book the work. It is valid until ${validUntil}.\n\n` +
       `You can read it, accept or decline it, and pay the deposit here:\n${url}\n\n` +
       `French polishing uses flammable spirit and shellac; the work is done under our ventilation and fire precautions.\n\n` +
       `${workshop.name}\n${workshop.phone ?? ''}\n${workshop.email ?? ''}\n`;
     const html =
       `<p>Dear ${escapeHtml(customer.name)},</p>${quote.message ? quote.message.split(/\n{2,}/).map((p) => `<p>${escapeHtml(p)}</p>`).join('') : ''}` +
       `<p>Please find attached our quote <strong>${escapeHtml(quote.number)}</strong> for ${escapeHtml(estimate.title)}: <strong>${escapeHtml(total)}</strong>, ` +
-      `with a deposit of ${escapeHtml(deposit)} to book the work. It is valid until ${escapeHtml(quote.validUntil)}.</p>` +
+      `with a deposit of ${escapeHtml(deposit)} to book the work. It is valid until ${escapeHtml(validUntil)}.</p>` +
       `<p><a href="${escapeHtml(url)}">Read, accept or decline the quote, and pay the deposit</a></p>` +
       `<p style="font-size:12px;color:#66412c">French polishing uses flammable spirit and shellac; the work is done under our ventilation and fire precautions.</p>` +
       `<p>${escapeHtml(workshop.name)}<br>${escapeHtml(workshop.phone ?? '')}<br>${escapeHtml(workshop.email ?? '')}</p>`;
@@ -325,7 +326,11 @@ export async function sendQuote(sequelize: Sequelize, config: Config, actorId: n
   const message = await deliver(config, outboxId);
   if (message.status === 'sent') await markSent(sequelize, id);
   const detail = await getQuote(id);
-  return { ...detail, link: quoteLink(config, token) };
+  return {
+    ...detail,
+    link: quoteLink(config, token),
+    delivery: { delivered: message.status === 'sent', outboxId, error: message.status === 'sent' ? null : message.lastError },
+  };
 }
 
 /** After the mail server took a quote's message: the quote is sent and its estimate quoted. */
@@ -369,6 +374,7 @@ export async function listQuotes(q: ListQuery): Promise<Page<QuoteSummary>> {
   await expireQuotes();
   const where: WhereOptions<Quote> = {};
   if (q.state) Object.assign(where, { state: q.state });
+  if (q.estimateId) Object.assign(where, { estimateId: q.estimateId });
   if (q.q) {
     const like = containsPattern(q.q);
     Object.assign(where, { [Op.or]: [{ number: { [Op.iLike]: like } }, { recipient: { [Op.iLike]: like } }, { '$estimate.number$': { [Op.iLike]: like } }, { '$estimate.title$': { [Op.iLike]: like } }] });
@@ -395,12 +401,12 @@ export async function listQuotes(q: ListQuery): Promise<Page<QuoteSummary>> {
 /** Quotes by state: how many, and their value (accepted totals where accepted). */
 export async function pipeline(sequelize: Sequelize): Promise<PipelineRow[]> {
   await expireQuotes();
-  const rows = await sequelize.query<{ state: QuoteState; count: string; value: string }>(
-    `SELECT state, count(*) AS count, coalesce(sum(coalesce(accepted_total, total)), 0)::numeric(14,2)::text AS value
-       FROM quotes WHERE state <> 'withdrawn' GROUP BY state`,
+  const rows = await sequelize.query<{ state: QuoteState; currency: string; count: string; value: string }>(
+    `SELECT state, currency, count(*) AS count, coalesce(sum(coalesce(accepted_total, total)), 0)::numeric(14,2)::text AS value
+       FROM quotes WHERE state <> 'withdrawn' GROUP BY state, currency ORDER BY state, currency`,
     { type: QueryTypes.SELECT },
   );
-  return rows.map((r) => ({ state: r.state, count: Number(r.count), value: r.value }));
+  return rows.map((r) => ({ state: r.state, currency: r.currency, count: Number(r.count), value: r.value }));
 }
 
 // ------------------------------------------------------------------------------------------------ PDF

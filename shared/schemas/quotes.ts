@@ -72,6 +72,8 @@ export interface QuoteSummary {
   customer: { id: number; name: string; email: string | null };
   total: string;
   deposit: string;
+  /** With the extras the customer took, once accepted. */
+  acceptedTotal: string | null;
   currency: string;
   validUntil: string;
   recipient: string | null;
@@ -93,12 +95,13 @@ export interface QuoteDetail extends QuoteSummary {
   acceptedName: string | null;
   acceptedIp: string | null;
   acceptedExtras: string[] | null;
-  acceptedTotal: string | null;
   acceptedDeposit: string | null;
   declineReason: string | null;
   payments: { id: number; amount: string; currency: string; status: string; createdAt: string; paidAt: string | null }[];
-  /** Set only in the answer to "send" and "new link": the customer's link, shown once. */
+  /** Set only in the answer to "send": the customer's link, shown once. */
   link?: string;
+  /** Set only in the answer to "send": whether the mail server took the message, and its error if not. */
+  delivery?: { delivered: boolean; outboxId: number; error: string | null };
 }
 
 /** What the customer sees through their link. */
@@ -140,6 +143,7 @@ export const DeclineQuoteSchema = z.object({ reason: z.string().trim().max(1000)
 
 export const QuoteListQuerySchema = z.object({
   q: z.string().trim().max(100).optional(),
+  estimateId: z.coerce.number().int().positive().max(2_147_483_647).optional(),
   state: z.enum(QUOTE_STATES).optional(),
   sort: z.enum(['number', 'customer', 'state', 'total', 'updatedAt', 'validUntil']).default('updatedAt'),
   dir: z.enum(['asc', 'desc']).default('desc'),
@@ -152,6 +156,7 @@ export interface PipelineRow {
   state: QuoteState;
   count: number;
   value: string;
+  currency: string;
 }
 
 export interface OutboxSummary {

@@ -11,10 +11,14 @@ import { RouteError } from './route-error';
 
 /** Who may create and revise estimates (the server enforces the same). */
 const ESTIMATE_EDITORS = ['owner', 'estimator'] as const;
+/** Who makes and sends quotes and reads the outbox. */
+const SELLERS = ['owner', 'sales'] as const;
 
 export function createRouter() {
   return createBrowserRouter([
     { path: paths.signIn, element: <SignInPage />, errorElement: <RouteError /> },
+    // The customer's quote page: reached from the e-mailed link, no sign-in, outside the staff layout.
+    { path: paths.publicQuote, errorElement: <RouteError />, lazy: () => import('@/features/public-quote/routes/public-quote') },
     {
       path: '/',
       element: <AppLayout />,
@@ -59,6 +63,15 @@ export function createRouter() {
           path: paths.compareRevisions,
           lazy: async () => ({ Component: (await import('@/features/estimates/routes/compare')).CompareRevisionsPage }),
         },
+        { path: paths.quotes, lazy: () => import('@/features/quotes/routes/quotes') },
+        { path: paths.quote, lazy: () => import('@/features/quotes/routes/quote') },
+        {
+          path: paths.outbox,
+          lazy: async () => {
+            const { OutboxPage } = await import('@/features/outbox/routes/outbox');
+            return { element: <RequireRole roles={SELLERS}><OutboxPage /></RequireRole> };
+          },
+        },
         {
           path: paths.users,
           element: (
@@ -66,6 +79,30 @@ export function createRouter() {
               <UsersPage />
             </RequireRole>
           ),
+        },
+        {
+          path: paths.reprice,
+          lazy: async () => {
+            const { RepricePage } = await import('@/features/reprice/routes/reprice');
+            return { element: <RequireRole roles={['owner']}><RepricePage /></RequireRole> };
+          },
+        },
+        // Planning: the board and jobs for all staff; the forecast for owner and planner; actuals for the owner.
+        { path: paths.planning, lazy: async () => ({ Component: (await import('@/features/planning/routes/planning-board')).PlanningBoardPage }) },
+        { path: paths.planningJob, lazy: async () => ({ Component: (await import('@/features/planning/routes/job')).JobPage }) },
+        {
+          path: paths.forecast,
+          lazy: async () => {
+            const { ForecastPage } = await import('@/features/forecast/routes/forecast');
+            return { element: <RequireRole roles={['owner', 'workshop']}><ForecastPage /></RequireRole> };
+          },
+        },
+        {
+          path: paths.actuals,
+          lazy: async () => {
+            const { ActualsPage } = await import('@/features/actuals/routes/actuals');
+            return { element: <RequireRole roles={['owner']}><ActualsPage /></RequireRole> };
+          },
         },
         ...ownerRoutes,
         { path: '*', element: <NotFound /> },

@@ -14,11 +14,21 @@ export const paths = {
   priceList: '/price-list',
   priceFile: '/price-list/upload',
   materialHistory: '/price-list/materials/:materialId',
+  reprice: '/price-list/reprice',
   settings: '/settings',
   finishingSystems: '/finishing-systems',
   finishingSystem: '/finishing-systems/:systemId',
   species: '/species',
   auditLog: '/audit-log',
+  planning: '/planning',
+  planningJob: '/planning/jobs/:jobId',
+  actuals: '/actuals',
+  forecast: '/forecast',
+  quotes: '/quotes',
+  quote: '/quotes/:quoteId',
+  outbox: '/outbox',
+  /** The customer's page, opened from the signed link in the e-mail (no sign-in). */
+  publicQuote: '/q/:token',
 } as const;
 
 /** Addresses of one record, built from the patterns above. */
@@ -30,6 +40,7 @@ export const pathTo = {
   newEstimate: (pieceId: number) => `/estimates/new?pieceId=${pieceId}`,
   compareRevisions: (id: number, a: number, b: number) => `/estimates/${id}/compare?a=${a}&b=${b}`,
   estimatesOf: (customerId: number) => `/estimates?customerId=${customerId}`,
+  quote: (id: number) => `/quotes/${id}`,
 };
 
 /** Addresses of one price-list or finishing record. */

@@ -222,6 +222,8 @@ describe('expiry, withdrawal and failed mail', () => {
       const res = await post(sales, `/api/quotes/${q.body.id}/send`, {}).expect(200);
       expect(res.body.state).toBe('draft');
       expect(res.body.sentAt).toBeNull();
+      expect(res.body.delivery).toMatchObject({ delivered: false });
+      expect(res.body.delivery.error).toBeTruthy();
     } finally {
       config.mail.url = good;
     }
@@ -231,12 +233,17 @@ describe('expiry, withdrawal and failed mail', () => {
     const retry = await post(sales, `/api/outbox/${failed!.id}/retry`, {}).expect(200);
     expect(retry.body.status).toBe('sent');
     expect((await sales.agent.get(`/api/quotes/${q.body.id}`).expect(200)).body.state).toBe('quoted');
+    const ofEstimate = await sales.agent.get(`/api/quotes?estimateId=${id}`).expect(200);
+    expect(ofEstimate.body.rows.map((r: { id: number }) => r.id)).toEqual([q.body.id]);
   });
 
   it('shows the pipeline by state', async () => {
     const res = await sales.agent.get('/api/quotes/pipeline').expect(200);
     const states = res.body.map((r: { state: string }) => r.state);
     expect(states).toEqual(expect.arrayContaining(['deposit-paid', 'expired', 'quoted']));
-    for (const row of res.body) expect(row.value).toMatch(/^\d+\.\d{2}$/);
+    for (const row of res.body) {
+      expect(row.value).toMatch(/^\d+\.\d{2}$/);
+      expect(row.currency).toBe('GBP');
+    }
   });
 });

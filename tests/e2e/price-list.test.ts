@@ -28,6 +28,7 @@ async function signIn(page: Page, role: 'owner' | 'estimator') {
 }
 
 const fixture = path.join(rootDir, 'tests', 'fixtures', 'supplier-prices.csv');
+const escapeRe = (text: string) => text.replace(/[.*+?^${}()|[\]\\]/g, '\\$&');
 
 describe('the owner keeps the price list', () => {
   it('uploads a supplier file, reviews the preview, applies it and sees the new prices and their history', async () => {
@@ -60,7 +61,44 @@ describe('the owner keeps the price list', () => {
     await expect.poll(() => page.getByText(/5 prices recorded, 1 pack and 1 material added/).count()).toBe(1);
     await screenshot(page, 'price-file-applied');
 
-    await page.getByRole('link', { name: 'See the price list' }).click();
+    // The open estimates were priced with the list before the file: the notice leads to repricing them.
+    const notice = page.getByRole('status').filter({ hasText: 'use older prices' });
+    await expect.poll(() => notice.textContent()).toMatch(/^Caution: \d+ open estimates use older prices — review repricing/);
+    await notice.getByRole('link', { name: 'review repricing' }).click();
+    await page.getByRole('heading', { level: 1, name: 'Reprice open estimates' }).waitFor();
+    const candidate = page.getByRole('table', { name: 'Open estimates on an older price list' }).getByRole('row').filter({ hasText: 'Barnaby Quillfeather' });
+    await candidate.waitFor();
+    const number = (await candidate.getByRole('link').first().textContent())!;
+    const oldTotal = (await candidate.getByTestId('old-total').textContent())!;
+    const newTotal = (await candidate.getByTestId('new-total').textContent())!;
+    expect(oldTotal).toMatch(/^£[\d,]+\.\d\d$/);
+    expect(newTotal).not.toBe(oldTotal);
+    expect(await candidate.textContent()).toMatch(/up\+£[\d,]+\.\d\d\+\d+\.\d %/);
+    await candidate.getByRole('checkbox', { name: `Select ${number}, Barnaby Quillfeather` }).check();
+    await screenshot(page, 'reprice-list');
+    await page.getByRole('button', { name: 'Reprice selected (1)' }).click();
+    const confirm = page.getByRole('dialog', { name: 'Reprice 1 estimate?' });
+    await expect.poll(() => confirm.getByRole('listitem').textContent()).toBe(`${number} · Barnaby Quillfeather${oldTotal}${newTotal}`);
+    await screenshot(page, 'reprice-confirm');
+    await confirm.getByRole('button', { name: 'Reprice 1 estimate' }).click();
+    await page.getByRole('heading', { level: 2, name: '1 estimate repriced' }).waitFor();
+    const repriced = page.getByTestId(`repriced-${number}`);
+    await expect.poll(() => repriced.textContent()).toMatch(new RegExp(`Revision 2 saved${escapeRe(oldTotal)}${escapeRe(newTotal)}`));
+    await expect.poll(() => candidate.count()).toBe(0);
+    await screenshot(page, 'reprice-done');
+
+    // A new revision with the new total; revision 1 keeps the total it was saved with.
+    await repriced.getByRole('link', { name: `Open ${number}` }).click();
+    await page.getByText(`Estimate ${number}`, { exact: true }).waitFor();
+    await expect.poll(() => page.getByTestId('revision-2').textContent()).toMatch(new RegExp(`Revision 2current.*Repriced with price list pl-\\w+.*${escapeRe(newTotal)}`));
+    await expect.poll(() => page.getByTestId('revision-1').textContent()).toContain(oldTotal);
+    expect(await page.getByTestId('revision-1').textContent()).not.toContain(newTotal);
+    await screenshot(page, 'reprice-estimate');
+    await page.getByRole('button', { name: 'Compare 1 and 2' }).click();
+    await page.getByRole('heading', { level: 1, name: `Compare revisions of ${number}` }).waitFor();
+    await screenshot(page, 'reprice-compare');
+
+    await page.getByRole('navigation', { name: 'Main' }).getByRole('link', { name: 'Price list' }).click();
     await page.getByRole('searchbox', { name: /Search materials/ }).fill('shellac');
     await page.getByRole('searchbox', { name: /Search materials/ }).press('Enter');
     await expect.poll(() => page.getByTestId('price-SHELLAC-FLAKES-250').textContent()).toBe('£12.35');
@@ -111,6 +149,8 @@ describe('the owner keeps the price list', () => {
     await page.getByRole('button', { name: 'Save price for Pumice powder, fine, 250 g' }).click();
     await expect.poll(() => page.getByTestId('price-PUMICE-250').textContent()).toBe('£6.10');
     await screenshot(page, 'price-list-inline-price');
+    await expect.poll(() => page.getByRole('status').filter({ hasText: 'use older prices' }).textContent()).toMatch(/\d+ open estimates? uses? older prices — review repricing/);
+    await screenshot(page, 'price-list-reprice-notice');
 
     await page.getByRole('navigation', { name: 'Main' }).getByRole('link', { name: 'Settings' }).click();
     await page.getByRole('heading', { level: 1, name: 'Settings' }).waitFor();

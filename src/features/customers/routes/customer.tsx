@@ -115,17 +115,17 @@ export function CustomerPage() {
       <div className="grid items-start gap-6 xl:grid-cols-[20rem_minmax(0,1fr)]">
         <Card title="Details">
           <dl className="space-y-3 text-sm">
-            <div className="flex gap-2"><Mail className="mt-0.5 h-4 w-4 text-walnut-400" aria-hidden /><dt className="sr-only">E-mail</dt><dd>{c.email ? <a className="underline" href={`mailto:${c.email}`}>{c.email}</a> : '—'}</dd></div>
-            <div className="flex gap-2"><Phone className="mt-0.5 h-4 w-4 text-walnut-400" aria-hidden /><dt className="sr-only">Telephone</dt><dd>{c.phone ?? '—'}</dd></div>
-            <div className="flex gap-2"><MapPin className="mt-0.5 h-4 w-4 text-walnut-400" aria-hidden /><dt className="sr-only">Address</dt><dd className="whitespace-pre-line">{c.address ?? '—'}</dd></div>
+            <div className="flex gap-2"><dt><Mail className="mt-0.5 h-4 w-4 text-walnut-400" aria-hidden /><span className="sr-only">E-mail</span></dt><dd>{c.email ? <a className="underline" href={`mailto:${c.email}`}>{c.email}</a> : '—'}</dd></div>
+            <div className="flex gap-2"><dt><Phone className="mt-0.5 h-4 w-4 text-walnut-400" aria-hidden /><span className="sr-only">Telephone</span></dt><dd>{c.phone ?? '—'}</dd></div>
+            <div className="flex gap-2"><dt><MapPin className="mt-0.5 h-4 w-4 text-walnut-400" aria-hidden /><span className="sr-only">Address</span></dt><dd className="whitespace-pre-line">{c.address ?? '—'}</dd></div>
             {c.notes && (
               <div>
                 <dt className="text-xs font-medium uppercase tracking-wide text-walnut-500">Notes</dt>
                 <dd className="mt-0.5 whitespace-pre-line text-walnut-700">{c.notes}</dd>
               </div>
             )}
-            <div className="border-t border-parchment-200 pt-2 text-xs text-walnut-500">Customer since {new Date(c.createdAt).toLocaleDateString('en-GB', { dateStyle: 'long' })}</div>
           </dl>
+          <p className="mt-3 border-t border-parchment-200 pt-2 text-xs text-walnut-500">Customer since {new Date(c.createdAt).toLocaleDateString('en-GB', { dateStyle: 'long' })}</p>
         </Card>
         <div className="min-w-0 space-y-6">
           <section aria-labelledby="pieces-heading">

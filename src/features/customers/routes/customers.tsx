@@ -1,4 +1,4 @@
-import { Plus, Search } from 'lucide-react';
+import { Plus } from 'lucide-react';
 import { useState } from 'react';
 import { Link, useNavigate } from 'react-router-dom';
 import type { Customer } from '@shared/schemas/customers';
@@ -6,6 +6,7 @@ import { Alert } from '@/components/alert';
 import { Button } from '@/components/button';
 import { PageHeader } from '@/components/card';
 import { DataTable, type Column } from '@/components/data-table';
+import { SearchBox } from '@/components/search-box';
 import { pathTo } from '@/config/paths';
 import { useCan } from '@/features/estimates/lib/permissions';
 import { useTableState } from '@/lib/use-table-state';
@@ -17,7 +18,6 @@ const PAGE_SIZE = 25;
 /** The workshop's customers: searched, sorted and paged on the server, so ten thousand are as quick as ten. */
 export function CustomersPage() {
   const table = useTableState({ sort: 'name', filters: ['archived'] });
-  const [searchText, setSearchText] = useState(table.state.q);
   const [adding, setAdding] = useState(false);
   const can = useCan();
   const navigate = useNavigate();
@@ -62,25 +62,7 @@ export function CustomersPage() {
         }
       />
       <div className="mb-4 flex flex-wrap items-center gap-3">
-        <form
-          role="search"
-          className="relative"
-          onSubmit={(e) => {
-            e.preventDefault();
-            table.setSearch(searchText.trim());
-          }}
-        >
-          <Search className="pointer-events-none absolute left-2.5 top-2.5 h-4 w-4 text-walnut-400" aria-hidden />
-          <input
-            type="search"
-            aria-label="Search customers by name, e-mail or telephone"
-            placeholder="Search name, e-mail or telephone"
-            value={searchText}
-            onChange={(e) => setSearchText(e.target.value)}
-            onBlur={() => table.setSearch(searchText.trim())}
-            className="w-80 rounded-md border border-walnut-200 bg-white py-2 pl-8 pr-3 text-sm"
-          />
-        </form>
+        <SearchBox value={table.state.q} onSearch={table.setSearch} label="Search customers by name, e-mail or telephone" placeholder="Search name, e-mail or telephone" className="w-80" />
         <label className="inline-flex items-center gap-2 text-sm text-walnut-700">
           <input type="checkbox" className="h-4 w-4 accent-amber-600" checked={archived} onChange={(e) => table.setFilter('archived', e.target.checked ? 'true' : '')} />
           Archived customers

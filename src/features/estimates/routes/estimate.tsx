@@ -1,10 +1,12 @@
-import { Archive, ArchiveRestore, BadgeCheck, CopyPlus, FilePenLine, PencilLine } from 'lucide-react';
+import { Archive, ArchiveRestore, BadgeCheck, CopyPlus, FilePenLine, FileText, PencilLine } from 'lucide-react';
 import { Link, useLocation, useNavigate, useParams } from 'react-router-dom';
 import { OPEN_STATES, type EstimateDetail } from '@shared/schemas/estimates';
 import { Alert } from '@/components/alert';
 import { Button } from '@/components/button';
 import { Spinner } from '@/components/spinner';
 import { pathTo } from '@/config/paths';
+import { estimatePdfUrl } from '@/features/quotes/api/quotes';
+import { EstimateQuotes } from '@/features/quotes/components/estimate-quotes';
 import { useCalcCatalog } from '../api/catalog';
 import { useArchiveEstimate, useDuplicateEstimate, useEstimate, useSetEstimateState } from '../api/estimates';
 import { CautionsPanel } from '../components/cautions';
@@ -87,6 +89,14 @@ export function EstimatePage() {
             </h1>
           </div>
           <div className="flex flex-wrap gap-2">
+            <a
+              href={estimatePdfUrl(d.id)}
+              target="_blank"
+              rel="noopener"
+              className="inline-flex items-center gap-2 rounded-md border border-walnut-200 bg-white px-4 py-2 text-sm font-medium text-walnut-800 hover:bg-parchment-100"
+            >
+              <FileText className="h-4 w-4" aria-hidden /> Customer’s view (PDF)
+            </a>
             {can.editEstimates && open && (
               <Button onClick={() => navigate(pathTo.editEstimate(d.id))}>
                 <FilePenLine className="h-4 w-4" aria-hidden /> Revise
@@ -144,6 +154,9 @@ export function EstimatePage() {
           <RevisionsList estimateId={d.id} revisions={d.revisions} current={d.current.number} currency={d.currency} />
         </div>
         <CautionsPanel result={result} units={units} compact />
+      </div>
+      <div className="mt-6">
+        <EstimateQuotes estimate={d} />
       </div>
       <div className="mt-6">
         <ResultsDetail result={result} units={units} catalog={calc.data?.catalog} />

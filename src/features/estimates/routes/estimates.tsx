@@ -1,5 +1,5 @@
-import { Archive, ArchiveRestore, CopyPlus, Search } from 'lucide-react';
-import { useState } from 'react';
+import { Archive, ArchiveRestore, CopyPlus } from 'lucide-react';
+
 import { Link, useNavigate } from 'react-router-dom';
 import { ESTIMATE_STATE_LABELS, ESTIMATE_STATES, type EstimateState, type EstimateSummary } from '@shared/schemas/estimates';
 import { PIECE_KIND_LABELS, type PieceKind } from '@shared/schemas/customers';
@@ -7,8 +7,10 @@ import { Alert } from '@/components/alert';
 import { Button } from '@/components/button';
 import { PageHeader } from '@/components/card';
 import { DataTable, type Column } from '@/components/data-table';
+import { SearchBox } from '@/components/search-box';
 import { paths, pathTo } from '@/config/paths';
 import { CustomerPicker } from '@/features/customers/components/customer-picker';
+import { EstimateQuoteDate } from '@/features/quotes/components/estimate-quote-date';
 import { useTableState } from '@/lib/use-table-state';
 import { useArchiveEstimate, useDuplicateEstimate, useEstimates, type EstimateListQuery } from '../api/estimates';
 import { StateBadge } from '../components/state-badge';
@@ -20,7 +22,6 @@ const PAGE_SIZE = 25;
 /** Every estimate the workshop holds: search, filter by state and customer, sort and page on the server. */
 export function EstimatesPage() {
   const table = useTableState({ sort: 'updatedAt', dir: 'desc', filters: ['state', 'customerId', 'archived'] });
-  const [searchText, setSearchText] = useState(table.state.q);
   const can = useCan();
   const navigate = useNavigate();
   const archive = useArchiveEstimate();
@@ -62,7 +63,17 @@ export function EstimatesPage() {
         </Link>
       ),
     },
-    { key: 'state', header: 'State', sortKey: 'state', render: (e) => <StateBadge state={e.state} /> },
+    {
+      key: 'state',
+      header: 'State',
+      sortKey: 'state',
+      render: (e) => (
+        <>
+          <StateBadge state={e.state} />
+          <EstimateQuoteDate estimateId={e.id} state={e.state} />
+        </>
+      ),
+    },
     { key: 'labourHours', header: 'Hours', sortKey: 'labourHours', align: 'right', render: (e) => formatHours(e.labourHours) },
     { key: 'total', header: 'Total', sortKey: 'total', align: 'right', render: (e) => <span className="font-medium">{formatMoney(e.total, e.currency)}</span> },
     { key: 'updatedAt', header: 'Updated', sortKey: 'updatedAt', render: (e) => <span className="num whitespace-nowrap text-walnut-600">{formatWhen(e.updatedAt)}</span> },
@@ -107,28 +118,7 @@ export function EstimatesPage() {
         }
       />
       <div className="mb-4 flex flex-wrap items-end gap-3">
-        <form
-          role="search"
-          className="relative"
-          onSubmit={(e) => {
-            e.preventDefault();
-            table.setSearch(searchText.trim());
-          }}
-        >
-          <label htmlFor="estimate-search" className="block text-xs font-medium uppercase tracking-wide text-walnut-600">
-            Search
-          </label>
-          <Search className="pointer-events-none absolute left-2.5 top-7 h-4 w-4 text-walnut-400" aria-hidden />
-          <input
-            id="estimate-search"
-            type="search"
-            placeholder="Number, title, customer or piece"
-            value={searchText}
-            onChange={(e) => setSearchText(e.target.value)}
-            onBlur={() => table.setSearch(searchText.trim())}
-            className="mt-0.5 w-72 rounded-md border border-walnut-200 bg-white py-2 pl-8 pr-3 text-sm"
-          />
-        </form>
+        <SearchBox value={table.state.q} onSearch={table.setSearch} label="Search estimates by number, title, customer or piece" placeholder="Number, title, customer or piece" showLabel className="w-72" />
         <div>
           <label htmlFor="estimate-state" className="block text-xs font-medium uppercase tracking-wide text-walnut-600">
             State

@@ -1,4 +1,4 @@
-import { Archive, ArchiveRestore, Circle, CircleDashed, CircleDot, Pencil, Plus, Search } from 'lucide-react';
+import { Archive, ArchiveRestore, Circle, CircleDashed, CircleDot, Pencil, Plus } from 'lucide-react';
 import { useState, type FormEvent } from 'react';
 import { PORES } from '@shared/schemas/catalog';
 import { CreateSpeciesSchema, type SpeciesDto, type SpeciesListQuery } from '@shared/schemas/finishing-admin';
@@ -8,6 +8,7 @@ import { PageHeader } from '@/components/card';
 import { DataTable, type Column } from '@/components/data-table';
 import { Dialog } from '@/components/dialog';
 import { SelectField, TextField } from '@/components/field';
+import { SearchBox } from '@/components/search-box';
 import { useMe } from '@/features/auth/api/get-me';
 import { serverFieldErrors, zodFieldErrors } from '@/lib/form-errors';
 import { useTableState } from '@/lib/use-table-state';
@@ -68,7 +69,6 @@ export function SpeciesPage() {
   const me = useMe();
   const isOwner = me.data?.role === 'owner';
   const table = useTableState({ sort: 'name', filters: ['archived'] });
-  const [searchText, setSearchText] = useState(table.state.q);
   const [dialog, setDialog] = useState<{ editing: SpeciesDto | null } | null>(null);
   const update = useUpdateSpecies();
   const query: Partial<SpeciesListQuery> = {
@@ -122,10 +122,7 @@ export function SpeciesPage() {
         actions={isOwner && <Button onClick={() => setDialog({ editing: null })}><Plus className="h-4 w-4" aria-hidden /> Add species</Button>}
       />
       <div className="mb-4 flex flex-wrap items-end gap-3">
-        <form role="search" className="relative" onSubmit={(e) => (e.preventDefault(), table.setSearch(searchText.trim()))}>
-          <Search className="pointer-events-none absolute left-2.5 top-2.5 h-4 w-4 text-walnut-400" aria-hidden />
-          <input type="search" aria-label="Search species" placeholder="Search species" value={searchText} onChange={(e) => setSearchText(e.target.value)} onBlur={() => table.setSearch(searchText.trim())} className="w-64 rounded-md border border-walnut-200 bg-white py-2 pl-8 pr-3 text-sm" />
-        </form>
+        <SearchBox value={table.state.q} onSearch={table.setSearch} label="Search species" placeholder="Search species" className="w-64" />
         <select aria-label="Show" value={table.state.filters.archived} onChange={(e) => table.setFilter('archived', e.target.value)} className="rounded-md border border-walnut-200 bg-white px-3 py-2 text-sm">
           <option value="">In use</option>
           <option value="archived">Archived</option>

@@ -79,9 +79,13 @@ export function useUpdatePack() {
   });
 }
 
+/** Names the new-price mutation, so a page can tell that a price was just changed (the repricing notice). */
+export const setPackPriceMutationKey = ['price-list', 'set-price'] as const;
+
 export function useSetPackPrice() {
   const invalidate = useInvalidate();
   return useMutation({
+    mutationKey: setPackPriceMutationKey,
     mutationFn: ({ packId, ...input }: NewPriceInput & { packId: number }) =>
       api<{ material: MaterialDto; catalogVersion: CatalogVersionChange }>(`/api/price-list/packs/${packId}/prices`, { method: 'POST', body: input }),
     onSuccess: invalidate,

@@ -9,6 +9,7 @@ import { DataTable, type Column } from '@/components/data-table';
 import { Spinner } from '@/components/spinner';
 import { paths } from '@/config/paths';
 import { useMe } from '@/features/auth/api/get-me';
+import { RepriceAfterPriceChange } from '@/features/reprice/components/reprice-notice';
 import { formatDate, formatDateTime, formatMoney } from '@/lib/format';
 import { useLocalTable } from '@/lib/use-local-table';
 import { useMaterialHistory, useUpdatePack } from '../api/price-list';
@@ -113,6 +114,7 @@ export function MaterialHistoryPage() {
         }
       />
       {material.notes && <p className="-mt-3 mb-5 max-w-3xl text-sm text-walnut-600">{material.notes}</p>}
+      {isOwner && <RepriceAfterPriceChange />}
       <Card title="Price over time" className="mb-6">
         <PriceChart history={history.data} />
       </Card>

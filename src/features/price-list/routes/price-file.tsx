@@ -7,6 +7,7 @@ import { Button } from '@/components/button';
 import { Card, PageHeader } from '@/components/card';
 import { DataTable, type Column } from '@/components/data-table';
 import { paths } from '@/config/paths';
+import { RepriceNotice } from '@/features/reprice/components/reprice-notice';
 import { formatDate, formatDateTime, formatMoney } from '@/lib/format';
 import { useLocalTable } from '@/lib/use-local-table';
 import { useApplyPriceFile, useUploadPriceFile } from '../api/price-files';
@@ -224,6 +225,7 @@ export function PriceFilePage() {
                   <Alert tone="info" title="Price list updated">
                     {apply.data.pricesAdded} price{apply.data.pricesAdded === 1 ? '' : 's'} recorded, {apply.data.packsAdded} pack{apply.data.packsAdded === 1 ? '' : 's'} and {apply.data.materialsAdded} material{apply.data.materialsAdded === 1 ? '' : 's'} added. The old prices stay in each pack's history.
                   </Alert>
+                  <RepriceNotice />
                   <div className="flex gap-2">
                     <Link to={paths.priceList} className="inline-flex items-center gap-2 rounded-md bg-walnut-800 px-4 py-2 text-sm font-medium text-parchment-50 hover:bg-walnut-700">
                       <ListChecks className="h-4 w-4" aria-hidden /> See the price list

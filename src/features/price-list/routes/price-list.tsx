@@ -1,4 +1,4 @@
-import { Archive, ArchiveRestore, FileUp, History, PackagePlus, Plus, Search } from 'lucide-react';
+import { Archive, ArchiveRestore, FileUp, History, PackagePlus, Plus, RefreshCw } from 'lucide-react';
 import { useState } from 'react';
 import { Link } from 'react-router-dom';
 import { MATERIAL_KINDS } from '@shared/schemas/catalog';
@@ -7,8 +7,10 @@ import { Alert } from '@/components/alert';
 import { Button } from '@/components/button';
 import { PageHeader } from '@/components/card';
 import { DataTable, type Column } from '@/components/data-table';
+import { SearchBox } from '@/components/search-box';
 import { ownerPathTo, paths } from '@/config/paths';
 import { useMe } from '@/features/auth/api/get-me';
+import { RepriceAfterPriceChange } from '@/features/reprice/components/reprice-notice';
 import { useWorkshop } from '@/features/workshop/api/get-workshop';
 import { formatDate } from '@/lib/format';
 import { useTableState } from '@/lib/use-table-state';
@@ -27,7 +29,6 @@ export function PriceListPage() {
   const isOwner = me.data?.role === 'owner';
   const currency = useWorkshop().data?.settings.pricing.currency ?? 'GBP';
   const table = useTableState({ sort: 'name', filters: ['kind', 'archived'] });
-  const [searchText, setSearchText] = useState(table.state.q);
   const [adding, setAdding] = useState(false);
   const [addingPackTo, setAddingPackTo] = useState<MaterialDto | null>(null);
   const update = useUpdateMaterial();
@@ -151,6 +152,9 @@ export function PriceListPage() {
               <Link to={paths.priceFile} className="inline-flex items-center gap-2 rounded-md border border-walnut-200 bg-white px-4 py-2 text-sm font-medium text-walnut-800 hover:bg-parchment-100">
                 <FileUp className="h-4 w-4" aria-hidden /> Upload supplier file
               </Link>
+              <Link to={paths.reprice} className="inline-flex items-center gap-2 rounded-md border border-walnut-200 bg-white px-4 py-2 text-sm font-medium text-walnut-800 hover:bg-parchment-100">
+                <RefreshCw className="h-4 w-4" aria-hidden /> Reprice estimates
+              </Link>
               <Button onClick={() => setAdding(true)}>
                 <Plus className="h-4 w-4" aria-hidden /> Add material
               </Button>
@@ -158,26 +162,9 @@ export function PriceListPage() {
           )
         }
       />
+      {isOwner && <RepriceAfterPriceChange />}
       <div className="mb-4 flex flex-wrap items-end gap-3">
-        <form
-          role="search"
-          className="relative"
-          onSubmit={(e) => {
-            e.preventDefault();
-            table.setSearch(searchText.trim());
-          }}
-        >
-          <Search className="pointer-events-none absolute left-2.5 top-2.5 h-4 w-4 text-walnut-400" aria-hidden />
-          <input
-            type="search"
-            aria-label="Search materials, suppliers and codes"
-            placeholder="Search material, supplier or code"
-            value={searchText}
-            onChange={(e) => setSearchText(e.target.value)}
-            onBlur={() => table.setSearch(searchText.trim())}
-            className="w-80 rounded-md border border-walnut-200 bg-white py-2 pl-8 pr-3 text-sm"
-          />
-        </form>
+        <SearchBox value={table.state.q} onSearch={table.setSearch} label="Search materials, suppliers and codes" placeholder="Search material, supplier or code" className="w-80" />
         <select aria-label="Filter by kind" value={table.state.filters.kind} onChange={(e) => table.setFilter('kind', e.target.value)} className="rounded-md border border-walnut-200 bg-white px-3 py-2 text-sm">
           <option value="">All kinds</option>
           {MATERIAL_KINDS.map((k) => (

@@ -1,10 +1,11 @@
-import { CircleCheck, CircleSlash, KeyRound, Plus, Search } from 'lucide-react';
+import { CircleCheck, CircleSlash, KeyRound, Plus } from 'lucide-react';
 import { useState } from 'react';
 import { ROLE_LABELS, ROLES, type Role, type User, type UserListQuery } from '@shared/schemas/auth';
 import { Alert } from '@/components/alert';
 import { Button } from '@/components/button';
 import { PageHeader } from '@/components/card';
 import { DataTable, type Column } from '@/components/data-table';
+import { SearchBox } from '@/components/search-box';
 import { useMe } from '@/features/auth/api/get-me';
 import { useTableState } from '@/lib/use-table-state';
 import { useUpdateUser, useUsers } from '../api/users';
@@ -30,7 +31,6 @@ export function UsersPage() {
   const table = useTableState({ sort: 'name', filters: ['role'] });
   const [adding, setAdding] = useState(false);
   const [resetting, setResetting] = useState<User | null>(null);
-  const [searchText, setSearchText] = useState(table.state.q);
   const update = useUpdateUser();
   const query: Partial<UserListQuery> = {
     q: table.state.q || undefined,
@@ -113,25 +113,7 @@ export function UsersPage() {
         }
       />
       <div className="mb-4 flex flex-wrap items-end gap-3">
-        <form
-          role="search"
-          className="relative"
-          onSubmit={(e) => {
-            e.preventDefault();
-            table.setSearch(searchText.trim());
-          }}
-        >
-          <Search className="pointer-events-none absolute left-2.5 top-2.5 h-4 w-4 text-walnut-400" aria-hidden />
-          <input
-            type="search"
-            aria-label="Search users by name or e-mail"
-            placeholder="Search name or e-mail"
-            value={searchText}
-            onChange={(e) => setSearchText(e.target.value)}
-            onBlur={() => table.setSearch(searchText.trim())}
-            className="w-72 rounded-md border border-walnut-200 bg-white py-2 pl-8 pr-3 text-sm"
-          />
-        </form>
+        <SearchBox value={table.state.q} onSearch={table.setSearch} label="Search users by name or e-mail" placeholder="Search name or e-mail" className="w-72" />
         <select
           aria-label="Filter by role"
           value={table.state.filters.role}

@@ -1,0 +1,146 @@
+import { FileText, FileSignature, Plus } from 'lucide-react';
+import { useState } from 'react';
+import { Link } from 'react-router-dom';
+import type { EstimateDetail, EstimateState } from '@shared/schemas/estimates';
+import type { QuoteDetail } from '@shared/schemas/quotes';
+import { Alert } from '@/components/alert';
+import { Button } from '@/components/button';
+import { pathTo } from '@/config/paths';
+import { useMe } from '@/features/auth/api/get-me';
+import { useCustomer } from '@/features/customers/api/customers';
+import { useCalcCatalog } from '@/features/estimates/api/catalog';
+import { formatDate, formatMoney } from '@/lib/format';
+import { quotePdfUrl, useEstimateQuotes, useQuote } from '../api/quotes';
+import { canSell } from '../lib/permissions';
+import { PriceBreakdown } from './price-breakdown';
+import { QuoteDates } from './quote-timeline';
+import { QuoteForm } from './quote-form';
+import { QuoteStateBadge } from './quote-state-badge';
+import { SendQuote } from './send-quote';
+
+/** Estimate states from which a new quote may be made (the server holds the same list). */
+const QUOTABLE: readonly EstimateState[] = ['priced', 'quoted', 'viewed', 'expired', 'declined'];
+
+function addDays(days: number): string {
+  const d = new Date(Date.now() + days * 86_400_000);
+  return `${d.getFullYear()}-${String(d.getMonth() + 1).padStart(2, '0')}-${String(d.getDate()).padStart(2, '0')}`;
+}
+
+const linkClass = 'inline-flex items-center gap-1.5 rounded-md border border-walnut-200 bg-white px-3 py-1.5 text-sm font-medium text-walnut-800 hover:bg-parchment-100';
+
+/** The quote just prepared: its price as the customer will read it, the PDF, and sending. */
+function PreparedQuote({ id }: { id: number }) {
+  const quote = useQuote(id);
+  if (!quote.data) return null;
+  const q = quote.data;
+  return (
+    <section aria-labelledby="prepared-heading" className="rounded-lg border border-amber-300 bg-amber-50/40 p-4" data-testid="prepared-quote">
+      <div className="flex flex-wrap items-center justify-between gap-3">
+        <h3 id="prepared-heading" className="flex items-center gap-2 font-serif text-lg font-semibold text-walnut-900">
+          Quote <Link to={pathTo.quote(q.id)} className="num underline decoration-amber-400 underline-offset-2 hover:text-amber-700">{q.number}</Link>
+          <QuoteStateBadge state={q.state} />
+        </h3>
+        <a href={quotePdfUrl(q.id)} target="_blank" rel="noopener" className={linkClass}>
+          <FileText className="h-4 w-4" aria-hidden /> Preview the PDF
+        </a>
+      </div>
+      <p className="mt-1 text-sm text-walnut-600">
+        Revision {q.estimate.revision} · valid until <span className="num">{formatDate(q.validUntil)}</span>
+        {q.discountPct > 0 && <> · discount <span className="num">{q.discountPct} %</span></>}
+      </p>
+      <div className="mt-3 grid gap-6 lg:grid-cols-2">
+        <PriceBreakdown pricing={q.pricing} extras={q.extras} />
+        <div className="space-y-3">
+          <h4 className="text-sm font-semibold text-walnut-800">{q.state === 'draft' ? 'Send it to the customer' : 'Sent: send again if needed'}</h4>
+          <SendQuote quote={q} />
+        </div>
+      </div>
+    </section>
+  );
+}
+
+/**
+ * The quotes made from one estimate, with their states and dates; sales and the owner prepare a new one here once the
+ * estimate is priced, check its price, preview its PDF and send it.
+ */
+export function EstimateQuotes({ estimate }: { estimate: EstimateDetail }) {
+  const role = useMe().data?.role;
+  const seller = canSell(role);
+  const quotes = useEstimateQuotes(estimate.id, estimate.number);
+  const calc = useCalcCatalog();
+  const customer = useCustomer(seller ? estimate.customer.id : undefined);
+  const [formOpen, setFormOpen] = useState(false);
+  const [prepared, setPrepared] = useState<number>();
+  const quotable = QUOTABLE.includes(estimate.state) && !estimate.archived;
+  const settings = calc.data?.settings;
+
+  const onCreated = (q: QuoteDetail) => {
+    setPrepared(q.id);
+    setFormOpen(false);
+  };
+
+  return (
+    <section aria-labelledby="quotes-heading" className="rounded-xl border border-parchment-200 bg-white shadow-card" data-testid="estimate-quotes">
+      <header className="flex flex-wrap items-center justify-between gap-2 border-b border-parchment-200 px-4 py-2.5">
+        <h2 id="quotes-heading" className="flex items-center gap-2 text-base font-semibold text-walnut-800">
+          <FileSignature className="h-4 w-4 text-amber-600" aria-hidden /> Quotes
+        </h2>
+        {seller && quotable && !formOpen && (
+          <Button size="sm" variant="accent" onClick={() => setFormOpen(true)} disabled={!settings}>
+            <Plus className="h-3.5 w-3.5" aria-hidden /> Prepare a quote
+          </Button>
+        )}
+      </header>
+      <div className="space-y-4 px-4 py-3">
+        {seller && !quotable && estimate.state === 'draft' && (
+          <p className="text-sm text-walnut-600">A quote can be prepared once the estimator marks this estimate as priced.</p>
+        )}
+        {formOpen && role && settings && (
+          <QuoteForm
+            estimateId={estimate.id}
+            revisions={estimate.revisions}
+            role={role}
+            onCreated={onCreated}
+            onCancel={() => setFormOpen(false)}
+            defaults={{
+              currentRevision: estimate.current.number,
+              revisionDiscountPct: estimate.current.input.discountPct ?? 0,
+              recipient: customer.data?.email ?? '',
+              depositPct: settings.pricing.depositPct,
+              maxDiscountPct: settings.pricing.maxDiscountPct,
+              validUntil: addDays(settings.quoteValidityDays),
+              currency: estimate.currency,
+            }}
+          />
+        )}
+        {prepared !== undefined && <PreparedQuote id={prepared} />}
+        {quotes.isError ? (
+          <Alert tone="error" title="The quotes could not be loaded">{quotes.error.message}</Alert>
+        ) : quotes.data && quotes.data.length === 0 ? (
+          <p className="text-sm text-walnut-500">No quote yet.</p>
+        ) : (
+          <ol className="divide-y divide-parchment-200" aria-label="Quotes of this estimate">
+            {(quotes.data ?? []).map((q) => (
+              <li key={q.id} className="flex flex-wrap items-start justify-between gap-3 py-2.5 text-sm" data-testid={`estimate-quote-${q.number}`}>
+                <div className="min-w-0">
+                  <p className="flex flex-wrap items-center gap-2">
+                    <Link to={pathTo.quote(q.id)} className="num font-semibold text-walnut-900 underline decoration-amber-400 underline-offset-2 hover:text-amber-700">
+                      {q.number}
+                    </Link>
+                    <QuoteStateBadge state={q.state} />
+                    <span className="text-xs text-walnut-500">revision {q.estimate.revision} · valid until {formatDate(q.validUntil)}</span>
+                  </p>
+                  <QuoteDates quote={q} className="mt-1" />
+                </div>
+                <div className="num shrink-0 text-right">
+                  <p className="font-semibold text-walnut-900">{formatMoney(q.total, q.currency)}</p>
+                  <p className="text-xs text-walnut-500">deposit {formatMoney(q.deposit, q.currency)}</p>
+                </div>
+              </li>
+            ))}
+          </ol>
+        )}
+      </div>
+    </section>
+  );
+}

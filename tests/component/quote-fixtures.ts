@@ -1,0 +1,78 @@
+/** Quotes as the API answers them, for component tests. */
+import type { PublicQuote, QuoteDetail, QuotePricing } from '../../shared/schemas/quotes';
+
+export const PRICING: QuotePricing = {
+  lines: [
+    { code: 'materials', label: 'Materials', amount: '212.40' },
+    { code: 'labour', label: 'Labour, 70.00 h at 42.00 per hour', amount: '2940.00' },
+    { code: 'overhead', label: 'Workshop overhead (15 %)', amount: '472.86' },
+    { code: 'margin', label: 'Margin (10 %)', amount: '362.53' },
+    { code: 'discount', label: 'Discount (5 %)', amount: '-199.39' },
+    { code: 'tax', label: 'VAT (20 %)', amount: '757.68' },
+  ],
+  total: '4546.08',
+  depositPct: 30,
+  deposit: '1363.82',
+  balance: '3182.26',
+  taxLabel: 'VAT',
+  taxPct: 20,
+  currency: 'GBP',
+};
+
+export const EXTRA = { id: 'x1', label: 'Regulate the action', description: 'Key dip and let-off, by our technician', hours: 6, price: '300.00', priceWithTax: '360.00' };
+
+export const QUOTE: QuoteDetail = {
+  id: 55,
+  number: 'Q-2027-0012',
+  state: 'draft',
+  estimate: { id: 1, number: 'E-0001', title: 'Full repolish', revision: 1 },
+  customer: { id: 3, name: 'Hester Quillfeather', email: 'hester@example.com' },
+  total: PRICING.total,
+  deposit: PRICING.deposit,
+  currency: 'GBP',
+  validUntil: '2099-01-31',
+  recipient: 'hester@example.com',
+  sentAt: null,
+  viewedAt: null,
+  acceptedAt: null,
+  declinedAt: null,
+  depositPaidAt: null,
+  createdAt: '2027-01-02T10:00:00Z',
+  updatedAt: '2027-01-02T10:00:00Z',
+  message: 'Thank you for bringing the grand to us.',
+  discountPct: 5,
+  depositPct: 30,
+  extras: [EXTRA],
+  pricing: PRICING,
+  acceptedName: null,
+  acceptedIp: null,
+  acceptedExtras: null,
+  acceptedTotal: null,
+  acceptedDeposit: null,
+  declineReason: null,
+  payments: [],
+};
+
+export const PUBLIC_QUOTE: PublicQuote = {
+  number: 'Q-2027-0012',
+  state: 'viewed',
+  closed: null,
+  workshop: { name: 'Larkmoor Polishing Rooms', email: 'hello@larkmoor.example', phone: '01632 960 000', address: '2 Yard Lane\nLarkmoor LM1 2AB' },
+  customerName: 'Hester Quillfeather',
+  piece: 'Rosewood grand, about 1895',
+  message: 'Thank you for bringing the grand to us.',
+  validUntil: '2099-01-31',
+  work: { systemName: 'Full French polish', coats: 24, labourHours: 70, calendarDays: 21, areaText: '8.83 m²', stages: [{ name: 'Bodying up', sessions: 4, coats: 12 }] },
+  pricing: PRICING,
+  extras: [EXTRA],
+  terms: ['The quote is valid until the date shown.'],
+  cautions: [{ code: 'flammable', severity: 'danger', text: 'Spirit vapour is flammable: no naked flames.' }],
+  acceptedName: null,
+  acceptedAt: null,
+  acceptedExtras: null,
+  acceptedTotal: null,
+  acceptedDeposit: null,
+  declinedAt: null,
+  depositPaidAt: null,
+  pricesIncludeTax: true,
+};
