@@ -5,9 +5,12 @@ export function containsPattern(q: string): string {
   return `%${q.replace(/[\\%_]/g, (c) => `\\${c}`)}%`;
 }
 
-/** ORDER BY direction with nulls kept at the end of either direction. */
-export function direction(dir: 'asc' | 'desc'): string {
-  return dir === 'asc' ? 'ASC NULLS LAST' : 'DESC NULLS LAST';
+/**
+ * ORDER BY direction. Plain ASC/DESC, so that PostgreSQL can walk the sort column's index (the sorted list columns
+ * are NOT NULL; a NULLS clause that differs from the index's order would force a sort of every row).
+ */
+export function direction(dir: 'asc' | 'desc'): 'ASC' | 'DESC' {
+  return dir === 'asc' ? 'ASC' : 'DESC';
 }
 
 export function offset(page: number, pageSize: number): number {
