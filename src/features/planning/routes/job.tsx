@@ -122,7 +122,7 @@ function SessionsTable({ job, canMark, onMark }: { job: JobDetail; canMark: bool
                 <span className="num block text-xs text-walnut-500">{hoursText(s.handsOnHours)} hands-on · rest {restText(s.restHours)}</span>
               </td>
               <td className="num px-3 py-2 whitespace-nowrap">
-                {s.start ? `${dateTime(s.start)} → ${s.end!.slice(11)}` : '—'}
+                {s.start ? `${dateTime(s.start)} → ${s.end!.slice(0, 10) === s.start.slice(0, 10) ? s.end!.slice(11) : dateTime(s.end!)}` : '—'}
                 {s.restUntil && s.restHours > 0 && <span className="block text-xs text-walnut-500">rest until {dateTime(s.restUntil)}</span>}
                 {s.baselineStart && s.start !== s.baselineStart && !s.done && <span className="block text-xs text-amber-800">was {dateTime(s.baselineStart)}</span>}
               </td>
