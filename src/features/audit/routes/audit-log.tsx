@@ -1,9 +1,9 @@
 import { ArrowRight, FilterX } from 'lucide-react';
 import { AUDIT_ENTITY_LABELS, type AuditEntryDto, type AuditQuery } from '@shared/schemas/audit';
-import { Alert } from '@/components/alert';
 import { Button } from '@/components/button';
 import { PageHeader } from '@/components/card';
-import { DataTable, type Column } from '@/components/data-table';
+import type { Column } from '@/components/data-table';
+import { PagedTable } from '@/components/paged-table';
 import { useWorkshop } from '@/features/workshop/api/get-workshop';
 import { formatChange, formatDate, formatDateTime, formatMoney } from '@/lib/format';
 import { useTableState } from '@/lib/use-table-state';
@@ -144,25 +144,17 @@ export function AuditLogPage() {
           </Button>
         )}
       </form>
-      {log.isError ? (
-        <Alert tone="error" title="The audit log could not be loaded">{log.error.message}</Alert>
-      ) : (
-        <DataTable
-          caption="Audit log"
-          columns={columns}
-          rows={log.data?.rows ?? []}
-          rowKey={(e) => e.id}
-          total={log.data?.total ?? 0}
-          page={table.state.page}
-          pageSize={PAGE_SIZE}
-          sort="at"
-          dir={table.state.dir}
-          loading={log.isFetching}
-          empty="No entry matches these filters."
-          onSort={table.toggleSort}
-          onPage={table.setPage}
-        />
-      )}
+      <PagedTable
+        caption="Audit log"
+        columns={columns}
+        rowKey={(e) => e.id}
+        query={log}
+        table={table}
+        pageSize={PAGE_SIZE}
+        empty="No entry matches these filters."
+        errorTitle="The audit log could not be loaded"
+        sort="at"
+      />
     </>
   );
 }

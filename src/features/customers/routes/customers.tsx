@@ -2,11 +2,11 @@ import { Plus } from 'lucide-react';
 import { useState } from 'react';
 import { Link, useNavigate } from 'react-router-dom';
 import type { Customer } from '@shared/schemas/customers';
-import { Alert } from '@/components/alert';
 import { Button } from '@/components/button';
 import { PageHeader } from '@/components/card';
-import { DataTable, type Column } from '@/components/data-table';
+import type { Column } from '@/components/data-table';
 import { SearchBox } from '@/components/search-box';
+import { PagedTable } from '@/components/paged-table';
 import { pathTo } from '@/config/paths';
 import { useCan } from '@/features/estimates/lib/permissions';
 import { useTableState } from '@/lib/use-table-state';
@@ -68,25 +68,16 @@ export function CustomersPage() {
           Archived customers
         </label>
       </div>
-      {customers.isError ? (
-        <Alert tone="error" title="Customers could not be loaded">{customers.error.message}</Alert>
-      ) : (
-        <DataTable
-          caption="Customers"
-          columns={columns}
-          rows={customers.data?.rows ?? []}
-          rowKey={(c) => c.id}
-          total={customers.data?.total ?? 0}
-          page={table.state.page}
-          pageSize={PAGE_SIZE}
-          sort={table.state.sort}
-          dir={table.state.dir}
-          loading={customers.isFetching}
-          empty={table.state.q ? 'No customer matches that search.' : 'No customers yet.'}
-          onSort={table.toggleSort}
-          onPage={table.setPage}
-        />
-      )}
+      <PagedTable
+        caption="Customers"
+        columns={columns}
+        rowKey={(c) => c.id}
+        query={customers}
+        table={table}
+        pageSize={PAGE_SIZE}
+        empty={table.state.q ? 'No customer matches that search.' : 'No customers yet.'}
+        errorTitle="Customers could not be loaded"
+      />
       <CustomerFormDialog open={adding} onClose={() => setAdding(false)} onSaved={(c) => navigate(pathTo.customer(c.id))} />
     </>
   );

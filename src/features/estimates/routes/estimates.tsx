@@ -6,8 +6,9 @@ import { PIECE_KIND_LABELS, type PieceKind } from '@shared/schemas/customers';
 import { Alert } from '@/components/alert';
 import { Button } from '@/components/button';
 import { PageHeader } from '@/components/card';
-import { DataTable, type Column } from '@/components/data-table';
+import type { Column } from '@/components/data-table';
 import { SearchBox } from '@/components/search-box';
+import { PagedTable } from '@/components/paged-table';
 import { paths, pathTo } from '@/config/paths';
 import { CustomerPicker } from '@/features/customers/components/customer-picker';
 import { EstimateQuoteDate } from '@/features/quotes/components/estimate-quote-date';
@@ -148,25 +149,16 @@ export function EstimatesPage() {
           <Alert tone="error" title="That did not work">{actionError.message}</Alert>
         </div>
       )}
-      {estimates.isError ? (
-        <Alert tone="error" title="Estimates could not be loaded">{estimates.error.message}</Alert>
-      ) : (
-        <DataTable
-          caption="Estimates"
-          columns={columns}
-          rows={estimates.data?.rows ?? []}
-          rowKey={(e) => e.id}
-          total={estimates.data?.total ?? 0}
-          page={table.state.page}
-          pageSize={PAGE_SIZE}
-          sort={table.state.sort}
-          dir={table.state.dir}
-          loading={estimates.isFetching}
-          empty={archived ? 'No archived estimate matches.' : 'No estimate matches. Estimates start from a customer’s piece.'}
-          onSort={table.toggleSort}
-          onPage={table.setPage}
-        />
-      )}
+      <PagedTable
+        caption="Estimates"
+        columns={columns}
+        rowKey={(e) => e.id}
+        query={estimates}
+        table={table}
+        pageSize={PAGE_SIZE}
+        empty={archived ? 'No archived estimate matches.' : 'No estimate matches. Estimates start from a customer’s piece.'}
+        errorTitle="Estimates could not be loaded"
+      />
     </>
   );
 }

@@ -5,10 +5,11 @@ import { CreateSpeciesSchema, type SpeciesDto, type SpeciesListQuery } from '@sh
 import { Alert } from '@/components/alert';
 import { Button } from '@/components/button';
 import { PageHeader } from '@/components/card';
-import { DataTable, type Column } from '@/components/data-table';
+import type { Column } from '@/components/data-table';
 import { Dialog } from '@/components/dialog';
 import { SelectField, TextField } from '@/components/field';
 import { SearchBox } from '@/components/search-box';
+import { PagedTable } from '@/components/paged-table';
 import { useMe } from '@/features/auth/api/get-me';
 import { serverFieldErrors, zodFieldErrors } from '@/lib/form-errors';
 import { useTableState } from '@/lib/use-table-state';
@@ -130,25 +131,16 @@ export function SpeciesPage() {
         </select>
       </div>
       {update.isError && <div className="mb-4"><Alert tone="error" title="Not changed">{update.error.message}</Alert></div>}
-      {species.isError ? (
-        <Alert tone="error" title="Species could not be loaded">{species.error.message}</Alert>
-      ) : (
-        <DataTable
-          caption="Wood species"
-          columns={columns}
-          rows={species.data?.rows ?? []}
-          rowKey={(s) => s.id}
-          total={species.data?.total ?? 0}
-          page={table.state.page}
-          pageSize={PAGE_SIZE}
-          sort={table.state.sort}
-          dir={table.state.dir}
-          loading={species.isFetching}
-          empty="No species matches."
-          onSort={table.toggleSort}
-          onPage={table.setPage}
-        />
-      )}
+      <PagedTable
+        caption="Wood species"
+        columns={columns}
+        rowKey={(s) => s.id}
+        query={species}
+        table={table}
+        pageSize={PAGE_SIZE}
+        empty="No species matches."
+        errorTitle="Species could not be loaded"
+      />
       {dialog && <SpeciesDialog editing={dialog.editing} open onClose={() => setDialog(null)} />}
     </>
   );

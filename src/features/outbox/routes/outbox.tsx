@@ -2,9 +2,9 @@ import { Paperclip } from 'lucide-react';
 import { useCallback, useState } from 'react';
 import { Link } from 'react-router-dom';
 import type { OutboxSummary } from '@shared/schemas/quotes';
-import { Alert } from '@/components/alert';
 import { PageHeader } from '@/components/card';
-import { DataTable, type Column } from '@/components/data-table';
+import type { Column } from '@/components/data-table';
+import { PagedTable } from '@/components/paged-table';
 import { pathTo } from '@/config/paths';
 import { formatDateTime } from '@/lib/format';
 import { useTableState } from '@/lib/use-table-state';
@@ -70,22 +70,17 @@ export function OutboxPage() {
           ))}
         </select>
       </div>
-      {outbox.isError ? (
-        <Alert tone="error" title="The outbox could not be loaded">{outbox.error.message}</Alert>
-      ) : (
-        <DataTable
-          caption="Outbox"
-          columns={columns}
-          rows={outbox.data?.rows ?? []}
-          rowKey={(m) => m.id}
-          total={outbox.data?.total ?? 0}
-          page={table.state.page}
-          pageSize={PAGE_SIZE}
-          loading={outbox.isFetching}
-          empty={status ? 'No message with this status.' : 'Nothing sent yet.'}
-          onPage={table.setPage}
-        />
-      )}
+      <PagedTable
+        caption="Outbox"
+        columns={columns}
+        rowKey={(m) => m.id}
+        query={outbox}
+        table={table}
+        pageSize={PAGE_SIZE}
+        empty={status ? 'No message with this status.' : 'Nothing sent yet.'}
+        errorTitle="The outbox could not be loaded"
+        sort={false}
+      />
       {open !== undefined && <MessageDialog id={open} onClose={close} />}
     </>
   );

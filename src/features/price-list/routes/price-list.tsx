@@ -6,8 +6,9 @@ import { MATERIAL_KIND_LABELS, UpdateMaterialSchema, type MaterialDto, type Mate
 import { Alert } from '@/components/alert';
 import { Button } from '@/components/button';
 import { PageHeader } from '@/components/card';
-import { DataTable, type Column } from '@/components/data-table';
+import type { Column } from '@/components/data-table';
 import { SearchBox } from '@/components/search-box';
+import { PagedTable } from '@/components/paged-table';
 import { ownerPathTo, paths } from '@/config/paths';
 import { useMe } from '@/features/auth/api/get-me';
 import { RepriceAfterPriceChange } from '@/features/reprice/components/reprice-notice';
@@ -182,25 +183,16 @@ export function PriceListPage() {
           <Alert tone="error" title="Change not saved">{update.error.message}</Alert>
         </div>
       )}
-      {materials.isError ? (
-        <Alert tone="error" title="The price list could not be loaded">{materials.error.message}</Alert>
-      ) : (
-        <DataTable
-          caption="Materials"
-          columns={columns}
-          rows={materials.data?.rows ?? []}
-          rowKey={(m) => m.id}
-          total={materials.data?.total ?? 0}
-          page={table.state.page}
-          pageSize={PAGE_SIZE}
-          sort={table.state.sort}
-          dir={table.state.dir}
-          loading={materials.isFetching}
-          empty="No material matches."
-          onSort={table.toggleSort}
-          onPage={table.setPage}
-        />
-      )}
+      <PagedTable
+        caption="Materials"
+        columns={columns}
+        rowKey={(m) => m.id}
+        query={materials}
+        table={table}
+        pageSize={PAGE_SIZE}
+        empty="No material matches."
+        errorTitle="The price list could not be loaded"
+      />
       <AddMaterialDialog open={adding} onClose={() => setAdding(false)} currency={currency} />
       <AddPackDialog material={addingPackTo} onClose={() => setAddingPackTo(null)} currency={currency} />
     </>

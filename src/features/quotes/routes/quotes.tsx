@@ -1,10 +1,10 @@
 
 import { Link } from 'react-router-dom';
 import { QUOTE_STATES, QUOTE_STATE_LABELS, type QuoteState, type QuoteSummary } from '@shared/schemas/quotes';
-import { Alert } from '@/components/alert';
 import { PageHeader } from '@/components/card';
-import { DataTable, type Column } from '@/components/data-table';
+import type { Column } from '@/components/data-table';
 import { SearchBox } from '@/components/search-box';
+import { PagedTable } from '@/components/paged-table';
 import { pathTo } from '@/config/paths';
 import { useMe } from '@/features/auth/api/get-me';
 import { useCalcCatalog } from '@/features/estimates/api/catalog';
@@ -108,25 +108,16 @@ export function QuotesPage() {
           </select>
         </div>
       </div>
-      {quotes.isError ? (
-        <Alert tone="error" title="Quotes could not be loaded">{quotes.error.message}</Alert>
-      ) : (
-        <DataTable
-          caption="Quotes"
-          columns={columns}
-          rows={quotes.data?.rows ?? []}
-          rowKey={(q) => q.id}
-          total={quotes.data?.total ?? 0}
-          page={table.state.page}
-          pageSize={PAGE_SIZE}
-          sort={table.state.sort}
-          dir={table.state.dir}
-          loading={quotes.isFetching}
-          empty={table.state.q || table.state.filters.state ? 'No quote matches.' : 'No quote yet. Quotes are prepared from a priced estimate.'}
-          onSort={table.toggleSort}
-          onPage={table.setPage}
-        />
-      )}
+      <PagedTable
+        caption="Quotes"
+        columns={columns}
+        rowKey={(q) => q.id}
+        query={quotes}
+        table={table}
+        pageSize={PAGE_SIZE}
+        empty={table.state.q || table.state.filters.state ? 'No quote matches.' : 'No quote yet. Quotes are prepared from a priced estimate.'}
+        errorTitle="Quotes could not be loaded"
+      />
     </>
   );
 }

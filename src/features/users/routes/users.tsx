@@ -4,8 +4,9 @@ import { ROLE_LABELS, ROLES, type Role, type User, type UserListQuery } from '@s
 import { Alert } from '@/components/alert';
 import { Button } from '@/components/button';
 import { PageHeader } from '@/components/card';
-import { DataTable, type Column } from '@/components/data-table';
+import type { Column } from '@/components/data-table';
 import { SearchBox } from '@/components/search-box';
+import { PagedTable } from '@/components/paged-table';
 import { useMe } from '@/features/auth/api/get-me';
 import { useTableState } from '@/lib/use-table-state';
 import { useUpdateUser, useUsers } from '../api/users';
@@ -131,25 +132,16 @@ export function UsersPage() {
           <Alert tone="error" title="Change not saved">{update.error.message}</Alert>
         </div>
       )}
-      {users.isError ? (
-        <Alert tone="error" title="Users could not be loaded">{users.error.message}</Alert>
-      ) : (
-        <DataTable
-          caption="Users"
-          columns={columns}
-          rows={users.data?.rows ?? []}
-          rowKey={(u) => u.id}
-          total={users.data?.total ?? 0}
-          page={table.state.page}
-          pageSize={PAGE_SIZE}
-          sort={table.state.sort}
-          dir={table.state.dir}
-          loading={users.isFetching}
-          empty="No user matches."
-          onSort={table.toggleSort}
-          onPage={table.setPage}
-        />
-      )}
+      <PagedTable
+        caption="Users"
+        columns={columns}
+        rowKey={(u) => u.id}
+        query={users}
+        table={table}
+        pageSize={PAGE_SIZE}
+        empty="No user matches."
+        errorTitle="Users could not be loaded"
+      />
       <AddUserDialog open={adding} onClose={() => setAdding(false)} />
       <ResetPasswordDialog user={resetting} onClose={() => setResetting(null)} />
     </>
