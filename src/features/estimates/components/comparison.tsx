@@ -58,6 +58,21 @@ const num = 'num px-3 py-1.5 text-right whitespace-nowrap';
 const KIND_WORD = { added: 'Added', removed: 'Removed', changed: 'Changed', same: 'Same' } as const;
 
 /** Two revisions side by side: inputs that changed, then hours, materials and price, each with its change. */
+
+/** The head of a before/after table: what is compared, the two revisions and the change. */
+function CompareHead({ first, before, after }: { first: string; before: string; after: string }) {
+  return (
+    <thead className="bg-parchment-100 text-left text-xs uppercase tracking-wide text-walnut-600">
+      <tr>
+        <th className={th}>{first}</th>
+        <th className={`${th} text-right`}>{before}</th>
+        <th className={`${th} text-right`}>{after}</th>
+        <th className={`${th} text-right`}>Change</th>
+      </tr>
+    </thead>
+  );
+}
+
 export function Comparison({ diff, units }: { diff: RevisionComparison; units: UnitSystem }) {
   const currency = diff.currency;
   const stages = diff.stages.filter((s) => s.kind !== 'same');
@@ -97,14 +112,7 @@ export function Comparison({ diff, units }: { diff: RevisionComparison; units: U
 
       <Section id="cmp-figures" title="Figures">
         <table className="min-w-full text-sm">
-          <thead className="bg-parchment-100 text-left text-xs uppercase tracking-wide text-walnut-600">
-            <tr>
-              <th className={th}>Figure</th>
-              <th className={`${th} text-right`}>{before}</th>
-              <th className={`${th} text-right`}>{after}</th>
-              <th className={`${th} text-right`}>Change</th>
-            </tr>
-          </thead>
+          <CompareHead first="Figure" before={before} after={after} />
           <tbody className="divide-y divide-parchment-200">
             {diff.totals.map((f) => (
               <tr key={f.key} data-testid={`figure-${f.key}`}>
@@ -179,14 +187,7 @@ export function Comparison({ diff, units }: { diff: RevisionComparison; units: U
 
       <Section id="cmp-price" title="Price">
         <table className="min-w-full text-sm">
-          <thead className="bg-parchment-100 text-left text-xs uppercase tracking-wide text-walnut-600">
-            <tr>
-              <th className={th}>Line</th>
-              <th className={`${th} text-right`}>{before}</th>
-              <th className={`${th} text-right`}>{after}</th>
-              <th className={`${th} text-right`}>Change</th>
-            </tr>
-          </thead>
+          <CompareHead first="Line" before={before} after={after} />
           <tbody className="divide-y divide-parchment-200">
             {diff.price.map((p) => (
               <tr key={p.key} className={p.key === 'total' ? 'bg-parchment-50 font-semibold' : ''} data-testid={`price-change-${p.key}`}>
