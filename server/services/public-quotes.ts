@@ -4,6 +4,7 @@
  */
 import type { Sequelize, Transaction } from 'sequelize';
 import type { z } from 'zod';
+import { customerCautions } from '@shared/calc';
 import { QUOTE_TERMS, type AcceptQuoteSchema, type PublicQuote } from '@shared/schemas/quotes';
 import { formatArea } from '@shared/units';
 import type { Config } from '../config';
@@ -81,7 +82,7 @@ export async function viewQuote(config: Config, token: string): Promise<PublicQu
     pricing: quote.pricing,
     extras: quote.extras,
     terms: QUOTE_TERMS,
-    cautions: r.cautions,
+    cautions: customerCautions(r.cautions),
     acceptedName: quote.acceptedName,
     acceptedAt: quote.acceptedAt?.toISOString() ?? null,
     acceptedExtras: quote.acceptedExtras,

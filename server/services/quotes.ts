@@ -7,7 +7,7 @@ import { createHash, createHmac, randomBytes, timingSafeEqual } from 'node:crypt
 import fs from 'node:fs/promises';
 import { Op, QueryTypes, type Sequelize, type Transaction, type WhereOptions } from 'sequelize';
 import type { z } from 'zod';
-import { estimate as runEstimate } from '@shared/calc';
+import { CUSTOMER_VENTILATION_TEXT, customerCautions, estimate as runEstimate } from '@shared/calc';
 import { money, percentOf, sumMoney } from '@shared/money';
 import type { Page, Role } from '@shared/schemas/auth';
 import type { EstimateState } from '@shared/schemas/estimates';
@@ -460,7 +460,6 @@ async function documentFor(a: {
   const author = a.createdBy ? await User.findByPk(a.createdBy, { transaction }) : null;
   const r = revision.result;
   const system = revision.catalog.systems.find((s) => s.key === r.system);
-  const v = r.ventilation;
   return {
     paperSize: settings.paperSize,
     workshop: { name: workshop?.name ?? 'Workshop', address: workshop?.address ?? null, email: workshop?.email ?? null, phone: workshop?.phone ?? null },
@@ -499,7 +498,8 @@ async function documentFor(a: {
     price: { lines: pricing.lines.map((l) => ({ label: l.label, amount: l.amount })), total: pricing.total, depositPct: pricing.depositPct, deposit: pricing.deposit, balance: pricing.balance },
     extras: a.extras.map((x) => ({ label: x.label, description: x.description, hours: x.hours, price: x.priceWithTax })),
     terms: QUOTE_TERMS,
-    cautions: r.cautions,
-    ventilationText: `While polishing the room needs fresh air of at least ${Math.ceil(v.requiredFlowM3h).toLocaleString('en-GB')} m³/h (${Math.ceil(v.requiredFlowCfm).toLocaleString('en-GB')} ft³/min) to keep spirit vapour below its exposure limit.`,
+    // The customer reads plain cautions: the workshop's air-change arithmetic stays on staff screens.
+    cautions: customerCautions(r.cautions),
+    ventilationText: CUSTOMER_VENTILATION_TEXT,
   };
 }

@@ -44,6 +44,9 @@ export interface EstimateOptions {
 
 const checkedCatalogs = new WeakSet<object>();
 
+/** Kinds of material that give off solvent vapour of their own, which the spirit's ventilation figure does not count. */
+const UNCOVERED_KINDS: ReadonlySet<string> = new Set(['stripper', 'stain']);
+
 /** Validates a catalog once per object (the engine is called on every keystroke with the same catalog). */
 function checkCatalog(catalog: Catalog): void {
   if (checkedCatalogs.has(catalog)) return;
@@ -282,10 +285,16 @@ export function estimate(rawInput: EstimateInput, catalog: Catalog, options: Est
     warnings.push({ code: 'discount-over-cap', text: `A discount of ${input.discountPct} % is above the workshop's cap of ${catalog.pricing.maxDiscountPct} %.` });
   }
 
-  // Safety.
+  // Safety. Stages that use a solvent product other than the spirit (stripper, stain) are named, not guessed at.
+  const kindOf = new Map(catalog.materials.map((m) => [m.key, m]));
+  const notCovered = works.flatMap((w) => {
+    const own = w.result.materials.map((m) => kindOf.get(m.material)).filter((m): m is Material => m !== undefined && UNCOVERED_KINDS.has(m.kind));
+    return own.length > 0 ? [{ stage: w.stage.key, name: w.stage.name, materials: own.map((m) => m.name) }] : [];
+  });
   const vent = ventilation(
     scheduled.map((s) => ({ index: s.index, date: fromMinutes(s.start).slice(0, 10), spiritL: sessionSpiritL[s.index] ?? 0, handsOnMin: s.handsOnMin })),
     catalog.safety,
+    notCovered,
   );
   if (!vent.adequate) {
     warnings.push({ code: 'ventilation', text: `The finishing room supplies ${Math.round(vent.suppliedFlowM3h)} m³/h of air; the busiest session needs ${Math.ceil(vent.requiredFlowM3h)} m³/h.` });
@@ -343,9 +352,20 @@ export function estimate(rawInput: EstimateInput, catalog: Catalog, options: Est
       worstSession: { ...vent.worstSession, spiritL: round(vent.worstSession.spiritL, 4), evaporationLPerMin: round(vent.worstSession.evaporationLPerMin, 6) },
       worstDay: { ...vent.worstDay, spiritL: round(vent.worstDay.spiritL, 4) },
       days: vent.days.map((d) => ({ date: d.date, spiritL: round(d.spiritL, 4) })),
+      components: vent.components.map((c) => ({
+        ...c,
+        evaporationLPerMin: round(c.evaporationLPerMin, 7),
+        vapourM3h: round(c.vapourM3h, 4),
+        requiredFlowM3h: round(c.requiredFlowM3h, 1),
+        requiredFlowCfm: round(c.requiredFlowCfm, 1),
+        concentrationPpm: round(c.concentrationPpm, 1),
+      })),
       concentrationPpm: round(vent.concentrationPpm, 1),
+      exposureIndex: round(vent.exposureIndex, 3),
       mixtureLelPct: round(vent.mixtureLelPct, 3),
       quarterLelPpm: round(vent.quarterLelPpm, 0),
+      exposureFlowM3h: round(vent.exposureFlowM3h, 1),
+      fireFlowM3h: round(vent.fireFlowM3h, 1),
       requiredFlowM3h: round(vent.requiredFlowM3h, 1),
       requiredFlowCfm: round(vent.requiredFlowCfm, 1),
     },

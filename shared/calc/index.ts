@@ -28,10 +28,12 @@ export type { CompiledCalendar, SessionRequest, ScheduledSession, Segment, Clima
 export { priceEstimate, usedCost } from './price';
 export type { PriceInput, PriceBreakdown, PriceLineOut } from './price';
 export {
-  SOLVENTS, MOLAR_VOLUME_L, ML_PER_US_PINT, M3H_PER_CFM, dilutionFlowCfm, dilutionFlowM3h, vapourM3h, mixtureLel, strictestLimit,
-  ventilation, cautions,
+  SOLVENTS, MOLAR_VOLUME_L, ML_PER_US_PINT, M3H_PER_CFM, dilutionFlowCfm, dilutionFlowM3h, vapourM3h, mixtureLel,
+  ventilation, cautions, customerCautions, CUSTOMER_VENTILATION_TEXT,
 } from './safety';
-export type { SolventData, SolventKey, SessionSpirit, Ventilation, DilutionImperial, DilutionMetric } from './safety';
+export type {
+  SolventData, SolventKey, SessionSpirit, Ventilation, VentilationComponent, UncoveredStage, DilutionImperial, DilutionMetric,
+} from './safety';
 export { DEFAULT_SPECIES } from './presets/species';
 export { DEFAULT_SYSTEMS, FULL_REPOLISH, RE_BODY, REVIVE, NEW_WORK } from './presets/systems';
 export { DEFAULT_FACTORS, DEFAULT_SHELLAC } from './presets/settings';

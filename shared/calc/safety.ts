@@ -3,7 +3,9 @@
  * fresh air the dilution-ventilation equation asks for, and the cautions every estimate carries.
  *
  * Solvent data: NIOSH Pocket Guide to Chemical Hazards (isopropanol density from memory). Ventilation: the
- * general dilution-ventilation equation of ACGIH "Industrial Ventilation" and the OSHA Technical Manual.
+ * general dilution-ventilation equation of ACGIH "Industrial Ventilation" and the OSHA Technical Manual; for a
+ * mixture, the additive rule of OSHA 29 CFR 1910.1000(d)(2): each solvent's air against its own limit, added.
+ * Sources in our words: docs/references.md.
  */
 import type { SafetySettings, SpiritComposition } from '../schemas/catalog';
 import type { Caution } from '../schemas/calc';
@@ -110,19 +112,6 @@ export function mixtureLel(shares: Record<SolventKey, number>): number {
   return 1 / sum;
 }
 
-/**
- * The strictest exposure limit among the solvents present.
- *
- * @example strictestLimit({ ethanol: 0.9, methanol: 0.1, isopropanol: 0 }) // { solvent: 'methanol', ppm: 200 }
- */
-export function strictestLimit(spirit: SpiritComposition): { solvent: SolventKey; ppm: number } {
-  let best: { solvent: SolventKey; ppm: number } | null = null;
-  for (const key of SOLVENT_KEYS) {
-    if (spirit[key] > 0 && (!best || SOLVENTS[key].limitPpm < best.ppm)) best = { solvent: key, ppm: SOLVENTS[key].limitPpm };
-  }
-  return best ?? { solvent: 'ethanol', ppm: SOLVENTS.ethanol.limitPpm };
-}
-
 /** Spirit used in one session. */
 export interface SessionSpirit {
   index: number;
@@ -130,6 +119,31 @@ export interface SessionSpirit {
   date: string;
   spiritL: number;
   handsOnMin: number;
+}
+
+/** A stage that gives off solvent vapour the ventilation figure does not count, with the materials that do. */
+export interface UncoveredStage {
+  stage: string;
+  name: string;
+  materials: string[];
+}
+
+/** One solvent of the spirit in the busiest session. */
+export interface VentilationComponent {
+  solvent: SolventKey;
+  /** Share of the spirit by volume, 0–1. */
+  share: number;
+  /** Litres of this solvent evaporated per minute. */
+  evaporationLPerMin: number;
+  /** Vapour given off, m³/h. */
+  vapourM3h: number;
+  /** Its own 8 h exposure limit, ppm. */
+  limitPpm: number;
+  /** Fresh air that keeps this solvent alone at its own limit, m³/h (the mixing factor included). */
+  requiredFlowM3h: number;
+  requiredFlowCfm: number;
+  /** Its concentration at the room's air supply, ppm. */
+  concentrationPpm: number;
 }
 
 /** Ventilation figures for the job's worst session. */
@@ -140,24 +154,38 @@ export interface Ventilation {
   worstSession: { index: number; spiritL: number; evaporationLPerMin: number };
   worstDay: { date: string; spiritL: number };
   days: Array<{ date: string; spiritL: number }>;
+  components: VentilationComponent[];
+  /** All vapour at the room's air supply, ppm. */
   concentrationPpm: number;
-  exposureLimitPpm: number;
-  limitingSolvent: string;
+  /** Σ Cᵢ / Lᵢ at the room's air supply (OSHA 29 CFR 1910.1000(d)(2)(i)); above 1 the mixture is over its limit. */
+  exposureIndex: number;
   mixtureLelPct: number;
   quarterLelPpm: number;
+  /** Fresh air for the exposure limits: Σ of each solvent's own figure (additive mixture rule). */
+  exposureFlowM3h: number;
+  /** Fresh air that keeps the vapour below 25 % of the mixture's LEL. */
+  fireFlowM3h: number;
+  /** Which of the two asks for more air. */
+  governs: 'exposure' | 'fire';
   requiredFlowM3h: number;
   requiredFlowCfm: number;
   suppliedFlowM3h: number;
   adequate: boolean;
+  /** Stages whose own solvents (stripper, stain) the figure leaves out; named in the cautions. */
+  notCovered: UncoveredStage[];
 }
 
 /**
  * Ventilation for the session that evaporates spirit fastest. All spirit of a session is taken to evaporate
  * during its hands-on time (conservative). Concentration at steady state: C = G × K / Q × 10⁶ with G the
- * vapour generated and Q the room's air supply (volume × air changes). The required flow is the larger of
- * those keeping the mixture at the strictest exposure limit and at 25 % of its LEL (OSHA/NFPA practice).
+ * vapour generated and Q the room's air supply (volume × air changes).
+ *
+ * Exposure: each solvent's evaporation is set against its own limit and the flows are added (the dilution
+ * equation applied per component, ACGIH "Industrial Ventilation"; the additive rule of OSHA 29 CFR
+ * 1910.1000(d)(2)(i), Σ Cᵢ/Lᵢ ≤ 1, holds exactly at that flow). Fire: all vapour against 25 % of the mixture's LEL
+ * (Le Chatelier). The required flow is the larger of the two.
  */
-export function ventilation(sessions: readonly SessionSpirit[], settings: SafetySettings): Ventilation {
+export function ventilation(sessions: readonly SessionSpirit[], settings: SafetySettings, notCovered: readonly UncoveredStage[] = []): Ventilation {
   const k = settings.mixingFactor;
   const spirit = settings.spirit;
   let worst: SessionSpirit | null = null;
@@ -177,19 +205,33 @@ export function ventilation(sessions: readonly SessionSpirit[], settings: Safety
   const vapour = vapourM3h(worstRate, spirit);
   const generated = SOLVENT_KEYS.reduce((t, key) => t + vapour[key], 0);
   const supplied = settings.room.volumeM3 * settings.room.airChangesPerHour;
-  const limit = strictestLimit(spirit);
   const lel = generated > 0 ? mixtureLel(vapour) : mixtureLel({ ...spirit });
   const quarterLelPpm = 0.25 * lel * 10_000;
-  const allowed = Math.min(limit.ppm, quarterLelPpm);
-  let requiredM3h = 0;
-  let requiredCfm = 0;
+
+  const components: VentilationComponent[] = [];
+  let fireCfm = 0;
   for (const key of SOLVENT_KEYS) {
     if (spirit[key] === 0) continue;
     const s = SOLVENTS[key];
     const er = worstRate * spirit[key];
-    requiredM3h += dilutionFlowM3h({ density: s.density, erLitresPerMin: er, k, molarMass: s.molarMass, ppm: allowed });
-    requiredCfm += dilutionFlowCfm({ specificGravity: s.density, erPintsPerMin: (er * 1000) / ML_PER_US_PINT, k, molarMass: s.molarMass, ppm: allowed });
+    const pintsPerMin = (er * 1000) / ML_PER_US_PINT;
+    components.push({
+      solvent: key,
+      share: spirit[key],
+      evaporationLPerMin: er,
+      vapourM3h: vapour[key],
+      limitPpm: s.limitPpm,
+      requiredFlowM3h: dilutionFlowM3h({ density: s.density, erLitresPerMin: er, k, molarMass: s.molarMass, ppm: s.limitPpm }),
+      requiredFlowCfm: dilutionFlowCfm({ specificGravity: s.density, erPintsPerMin: pintsPerMin, k, molarMass: s.molarMass, ppm: s.limitPpm }),
+      concentrationPpm: (vapour[key] * k * 1e6) / supplied,
+    });
+    fireCfm += dilutionFlowCfm({ specificGravity: s.density, erPintsPerMin: pintsPerMin, k, molarMass: s.molarMass, ppm: quarterLelPpm });
   }
+  const exposureFlowM3h = components.reduce((t, c) => t + c.requiredFlowM3h, 0);
+  const exposureFlowCfm = components.reduce((t, c) => t + c.requiredFlowCfm, 0);
+  const fireFlowM3h = (generated * k * 1e6) / quarterLelPpm;
+  const governs = fireFlowM3h > exposureFlowM3h ? 'fire' : 'exposure';
+  const requiredM3h = Math.max(exposureFlowM3h, fireFlowM3h);
   return {
     roomVolumeM3: settings.room.volumeM3,
     airChangesPerHour: settings.room.airChangesPerHour,
@@ -197,20 +239,35 @@ export function ventilation(sessions: readonly SessionSpirit[], settings: Safety
     worstSession: { index: worst?.index ?? 0, spiritL: worst?.spiritL ?? 0, evaporationLPerMin: worstRate },
     worstDay,
     days: [...byDay].map(([date, litres]) => ({ date, spiritL: litres })),
+    components,
     concentrationPpm: (generated * k * 1e6) / supplied,
-    exposureLimitPpm: limit.ppm,
-    limitingSolvent: limit.solvent,
+    exposureIndex: components.reduce((t, c) => t + c.concentrationPpm / c.limitPpm, 0),
     mixtureLelPct: lel,
     quarterLelPpm,
+    exposureFlowM3h,
+    fireFlowM3h,
+    governs,
     requiredFlowM3h: requiredM3h,
-    requiredFlowCfm: requiredCfm,
+    requiredFlowCfm: governs === 'fire' ? fireCfm : exposureFlowCfm,
     suppliedFlowM3h: supplied,
     adequate: supplied >= requiredM3h,
+    notCovered: notCovered.map((u) => ({ ...u, materials: [...u.materials] })),
   };
 }
 
+/** What the customer reads for the ventilation caution: no figures, no room arithmetic. */
+const PLAIN_VENTILATION =
+  'Spirit vapour builds up while polishing: the finishing room is worked with its extraction running and fresh air coming in, so the vapour stays well below its exposure limits and far from the point where it could ignite.';
+
+/** The staff's words for stages whose own solvents the ventilation figure leaves out. */
+function uncoveredText(stages: readonly UncoveredStage[]): string {
+  const names = stages.map((s) => `${s.name} (${s.materials.join(', ')})`).join('; ');
+  return `The ventilation figure counts the polishing spirit only. These stages give off vapour of their own that it does not cover: ${names}. Ventilate for them as each product's safety data sheet says.`;
+}
+
 /**
- * The cautions every estimate carries. Never empty.
+ * The cautions every estimate carries, in plain words: no air-change arithmetic (the working is in the
+ * ventilation figures, shown on staff screens only). Never empty.
  *
  * @example cautions(vent, spirit).map((c) => c.code) // ['flammable-vapour', 'ignition-sources', 'ventilation', ...]
  */
@@ -225,10 +282,10 @@ export function cautions(vent: Ventilation, spirit: SpiritComposition): Caution[
       code: 'ignition-sources', severity: 'danger',
       text: 'No naked flames, smoking, heaters with exposed elements or sparking tools where spirit or polish is open or drying.',
     },
-    {
-      code: 'ventilation', severity: vent.adequate ? 'warning' : 'danger',
-      text: `Ventilate the finishing room: the busiest session evaporates about ${(vent.worstSession.evaporationLPerMin * 1000).toFixed(1)} mL of spirit a minute, which needs at least ${Math.ceil(vent.requiredFlowM3h)} m³/h (${Math.ceil(vent.requiredFlowCfm)} ft³/min) of fresh air with mixing factor ${vent.mixingFactor} to stay below ${Math.round(Math.min(vent.exposureLimitPpm, vent.quarterLelPpm))} ppm; the room supplies ${Math.round(vent.suppliedFlowM3h)} m³/h.${vent.adequate ? '' : ' That is not enough: add extraction or work smaller areas at a time.'}`,
-    },
+    { code: 'ventilation', severity: 'warning', text: PLAIN_VENTILATION },
+  ];
+  if (vent.notCovered.length > 0) list.push({ code: 'other-solvents', severity: 'warning', text: uncoveredText(vent.notCovered) });
+  list.push(
     {
       code: 'spirit-storage', severity: 'warning',
       text: 'Keep spirit and polish in closed, labelled metal containers in a flammable-liquids cabinet, away from exits and heat; take out only what the session needs.',
@@ -241,11 +298,11 @@ export function cautions(vent: Ventilation, spirit: SpiritComposition): Caution[
       code: 'gloves-eyes', severity: 'warning',
       text: 'Wear solvent-resistant gloves and eye protection when stripping, mixing polish and handling spirit.',
     },
-  ];
+  );
   if (spirit.methanol > 0) {
     list.push({
       code: 'methanol', severity: 'danger',
-      text: `This spirit contains methanol (${Math.round(spirit.methanol * 100)} %): it is toxic by breathing, swallowing and through the skin (exposure limit 200 ppm). Ventilate, wear gloves, never use it in a closed room.`,
+      text: `This spirit contains methanol (${Math.round(spirit.methanol * 100)} %): it is toxic by breathing, swallowing and through the skin. Ventilate, wear gloves, never use it in a closed room.`,
     });
   }
   list.push({
@@ -254,3 +311,29 @@ export function cautions(vent: Ventilation, spirit: SpiritComposition): Caution[
   });
   return list;
 }
+
+/**
+ * The cautions as the customer reads them (public quote page, quote PDF, e-mail): fire, vapour, oily rags and
+ * local rules in plain words, without the workshop's air-change arithmetic, evaporation rates or limits. Works on
+ * the cautions of revisions saved before the cautions were plain, by code.
+ *
+ * @example customerCautions(result.cautions).find((c) => c.code === 'ventilation')?.text // no m³/h in it
+ */
+export function customerCautions(list: readonly Caution[]): Caution[] {
+  return list.map((c) => {
+    if (c.code === 'ventilation') return { code: c.code, severity: 'warning', text: PLAIN_VENTILATION };
+    if (c.code === 'other-solvents') {
+      return {
+        code: c.code, severity: c.severity,
+        text: 'Stripping and staining use products with vapour of their own besides the polishing spirit; they are used with the ventilation and protection their makers\' safety data sheets ask for.',
+      };
+    }
+    if (c.code === 'methanol') return { ...c, text: c.text.replace(/\s*\(exposure limit [^)]*\)/, '') };
+    if (c.code === 'local-rules') return { ...c, text: c.text.replace('these figures do not replace them', 'these notes do not replace them') };
+    return { ...c };
+  });
+}
+
+/** The sentence on ventilation for the customer's documents: no figures. */
+export const CUSTOMER_VENTILATION_TEXT =
+  'While we polish, the finishing room is ventilated with its extraction running and fresh air coming in, to keep spirit vapour well below its exposure limits.';

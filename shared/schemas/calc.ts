@@ -328,15 +328,31 @@ export const VentilationResultSchema = z.object({
   worstDay: z.object({ date: z.string(), spiritL: z.number() }),
   /** Spirit evaporated per working day, litres. */
   days: z.array(z.object({ date: z.string(), spiritL: z.number() })),
+  /** Each solvent of the spirit in the busiest session, against its own limit (additive mixture rule). */
+  components: z.array(z.object({
+    solvent: z.string(),
+    share: z.number(),
+    evaporationLPerMin: z.number(),
+    vapourM3h: z.number(),
+    limitPpm: z.number(),
+    requiredFlowM3h: z.number(),
+    requiredFlowCfm: z.number(),
+    concentrationPpm: z.number(),
+  })),
   concentrationPpm: z.number(),
-  exposureLimitPpm: z.number(),
-  limitingSolvent: z.string(),
+  /** Σ Cᵢ/Lᵢ at the room's air supply; above 1 the mixture is over its limit (OSHA 29 CFR 1910.1000(d)(2)). */
+  exposureIndex: z.number(),
   mixtureLelPct: z.number(),
   quarterLelPpm: z.number(),
+  exposureFlowM3h: z.number(),
+  fireFlowM3h: z.number(),
+  governs: z.enum(['exposure', 'fire']),
   requiredFlowM3h: z.number(),
   requiredFlowCfm: z.number(),
   suppliedFlowM3h: z.number(),
   adequate: z.boolean(),
+  /** Stages whose own solvents (stripper, stain) the figure does not count; the cautions name them. */
+  notCovered: z.array(z.object({ stage: z.string(), name: z.string(), materials: z.array(z.string()) })),
 });
 export type VentilationResult = z.infer<typeof VentilationResultSchema>;
 

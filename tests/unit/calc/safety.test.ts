@@ -1,5 +1,5 @@
 import { describe, expect, it } from 'vitest';
-import { cautions, ventilation } from '../../../shared/calc/safety';
+import { cautions, customerCautions, CUSTOMER_VENTILATION_TEXT, ventilation } from '../../../shared/calc/safety';
 import type { SafetySettings } from '../../../shared/schemas/catalog';
 
 const settings: SafetySettings = { room: { volumeM3: 100, airChangesPerHour: 4 }, mixingFactor: 3, spirit: { ethanol: 1, methanol: 0, isopropanol: 0 } };
@@ -19,24 +19,37 @@ describe('ventilation', () => {
     expect(v.worstDay.spiritL).toBeCloseTo(0.9, 12);
   });
 
-  it('concentration C = G × K / Q (hand arithmetic: 0.01 L/min ethanol → 0.25125 m³/h vapour; × 3 / 400 m³/h = 1884 ppm)', () => {
-    const vapour = ((10 * 0.789) / 46.07) * 24.45 * 0.06;
-    expect(v.concentrationPpm).toBeCloseTo((vapour * 3 * 1e6) / 400, 6);
-    expect(v.concentrationPpm).toBeCloseTo(1884, 0);
+  it('concentration C = G × K / Q (hand arithmetic: 0.01 L/min ethanol → 0.25124 m³/h vapour; × 3 / 400 m³/h = 1884 ppm)', () => {
+    expect(v.concentrationPpm).toBeCloseTo(1884.3, 0);
+    expect(v.exposureIndex).toBeCloseTo(1.884, 2);
   });
 
-  it('requires the flow that brings the concentration down to the limit, and judges the room against it', () => {
-    // At the required flow the concentration is exactly the limit: Q = G × K × 10⁶ / 1000.
-    expect(v.requiredFlowM3h).toBeCloseTo((v.concentrationPpm * 400) / 1000, 6);
+  it('judges the room against the required flow: 400 m³/h is short of 753.7, 1000 m³/h is enough', () => {
+    expect(v.requiredFlowM3h).toBeCloseTo(753.7, 1);
     expect(v.adequate).toBe(false);
     expect(ventilation(sessions, { ...settings, room: { volumeM3: 100, airChangesPerHour: 10 } }).adequate).toBe(true);
   });
 
-  it('with methanol present, the 200 ppm limit governs', () => {
-    const m = ventilation(sessions, { ...settings, spirit: { ethanol: 0.9, methanol: 0.1, isopropanol: 0 } });
-    expect(m.exposureLimitPpm).toBe(200);
-    expect(m.limitingSolvent).toBe('methanol');
-    expect(m.requiredFlowM3h).toBeGreaterThan(v.requiredFlowM3h * 4);
+  it('the required flow brings the exposure index to exactly 1 (the additive rule at its limit)', () => {
+    for (const spirit of [{ ethanol: 0.95, methanol: 0.05, isopropanol: 0 }, { ethanol: 0.5, methanol: 0.2, isopropanol: 0.3 }]) {
+      const m = ventilation(sessions, { ...settings, spirit });
+      const atRequired = ventilation(sessions, { ...settings, spirit, room: { volumeM3: m.exposureFlowM3h, airChangesPerHour: 1 } });
+      expect(atRequired.exposureIndex).toBeCloseTo(1, 9);
+    }
+  });
+
+  it('a little methanol adds its own share of air; it no longer sets the limit for all the ethanol', () => {
+    const m = ventilation(sessions, { ...settings, spirit: { ethanol: 0.95, methanol: 0.05, isopropanol: 0 } });
+    expect(m.components.map((c) => c.solvent)).toEqual(['ethanol', 'methanol']);
+    expect(m.requiredFlowM3h).toBeGreaterThan(v.requiredFlowM3h);
+    expect(m.requiredFlowM3h).toBeLessThan(v.requiredFlowM3h * 1.5);
+  });
+
+  it('names the stages it does not cover', () => {
+    const u = ventilation(sessions, settings, [{ stage: 'strip', name: 'Strip the old finish', materials: ['Finish stripper, gel'] }]);
+    expect(u.notCovered).toEqual([{ stage: 'strip', name: 'Strip the old finish', materials: ['Finish stripper, gel'] }]);
+    expect(cautions(u, settings.spirit).find((c) => c.code === 'other-solvents')?.text).toMatch(/Strip the old finish \(Finish stripper, gel\)/);
+    expect(cautions(v, settings.spirit).some((c) => c.code === 'other-solvents')).toBe(false);
   });
 });
 
@@ -48,9 +61,11 @@ describe('cautions', () => {
     expect(codes).toEqual(['flammable-vapour', 'ignition-sources', 'ventilation', 'spirit-storage', 'oily-rags', 'gloves-eyes', 'local-rules']);
   });
 
-  it('give the computed ventilation figure', () => {
-    const text = cautions(v, settings.spirit).find((c) => c.code === 'ventilation')?.text ?? '';
-    expect(text).toContain(`${Math.ceil(v.requiredFlowM3h)} m³/h`);
+  it('speak in plain words: no flow, no limit, no single limit for a whole mixture', () => {
+    const mixed = ventilation([{ index: 0, date: '2025-03-03', spiritL: 0.5, handsOnMin: 120 }], { ...settings, spirit: { ethanol: 0.95, methanol: 0.05, isopropanol: 0 } });
+    for (const c of cautions(mixed, { ethanol: 0.95, methanol: 0.05, isopropanol: 0 })) {
+      expect(c.text).not.toMatch(/m³\/h|ft³\/min|cfm|\d\s*ppm|mL of spirit a minute|adequate/);
+    }
   });
 
   it('add methanol toxicity only when the spirit holds methanol', () => {
@@ -66,5 +81,27 @@ describe('cautions', () => {
 
   it('say local fire codes, the regulator and licensed practice come first', () => {
     expect(cautions(v, settings.spirit).at(-1)?.text).toMatch(/Local fire codes, the workplace-safety regulator and licensed practice come first/);
+  });
+});
+
+describe('customer cautions', () => {
+  // A revision saved before the cautions were plain: the ventilation caution carries the room's arithmetic.
+  const saved = [
+    { code: 'flammable-vapour', severity: 'danger' as const, text: 'Spirit is highly flammable: its flash point is about 11 °C.' },
+    {
+      code: 'ventilation', severity: 'danger' as const,
+      text: 'Ventilate the finishing room: the busiest session evaporates about 4.5 mL of spirit a minute, which needs at least 1735 m³/h (1007 ft³/min) of fresh air with mixing factor 3 to stay below 200 ppm; the room supplies 720 m³/h.',
+    },
+    { code: 'oily-rags', severity: 'danger' as const, text: 'Rags and rubbers with oil can heat up and catch fire on their own.' },
+    { code: 'methanol', severity: 'danger' as const, text: 'This spirit contains methanol (5 %): it is toxic by breathing, swallowing and through the skin (exposure limit 200 ppm). Ventilate.' },
+    { code: 'local-rules', severity: 'info' as const, text: 'Local fire codes, the workplace-safety regulator and licensed practice come first: these figures do not replace them.' },
+  ];
+
+  it('keep fire, vapour, rags and local rules, without the air-change arithmetic', () => {
+    const plain = customerCautions(saved);
+    expect(plain.map((c) => c.code)).toEqual(saved.map((c) => c.code));
+    for (const c of plain) expect(c.text).not.toMatch(/m³\/h|ft³\/min|ppm|mixing factor|air changes/);
+    expect(plain.find((c) => c.code === 'local-rules')?.text).toMatch(/Local fire codes/);
+    expect(CUSTOMER_VENTILATION_TEXT).not.toMatch(/\d/);
   });
 });

@@ -1,5 +1,5 @@
 import { Flame, Info, ShieldAlert, TriangleAlert, Wind } from 'lucide-react';
-import type { Caution, EstimateResult } from '@shared/schemas/calc';
+import type { Caution, EstimateResult, VentilationResult } from '@shared/schemas/calc';
 import type { UnitSystem } from '@shared/units';
 
 const SEVERITY: Record<Caution['severity'], { word: string; Icon: typeof Flame; box: string }> = {
@@ -16,9 +16,52 @@ function airFlow(m3h: number, units: UnitSystem): string {
 /** Cubic metres per hour in one cubic foot per minute. */
 const M3H_PER_CFM = 1.6990108;
 
-/** The fire, vapour and oily-rag cautions with the ventilation figure: shown with every estimate. */
+/** One solvent's line of the working: its evaporation against its own limit and the air that takes. */
+function componentLine(c: VentilationResult['components'][number], units: UnitSystem): string {
+  return `${c.solvent} ${Math.round(c.share * 100)} %: ${(c.evaporationLPerMin * 1000).toFixed(2)} mL/min against its own ${c.limitPpm} ppm limit → ${airFlow(c.requiredFlowM3h, units)}`;
+}
+
+/**
+ * The ventilation working for staff: the busiest session's evaporation, each solvent against its own limit (the
+ * additive mixture rule), the mixing factor, and one verdict. The figure is printed once, in the display units.
+ */
+function VentilationWorking({ v, units }: { v: VentilationResult; units: UnitSystem }) {
+  // Revisions saved before the mixture rule carry no per-solvent working.
+  const components = v.components ?? [];
+  const short = !v.adequate;
+  return (
+    <div className={`flex gap-2 rounded-md border px-3 py-2 ${short ? 'border-brick-600/40 bg-brick-100 text-brick-700' : 'border-walnut-200 bg-parchment-50 text-walnut-800'}`} data-testid="ventilation">
+      <Wind className="mt-0.5 h-4 w-4 shrink-0" aria-hidden />
+      <div className="space-y-1">
+        <p>
+          <strong>{short ? 'More fresh air needed' : 'Fresh air covers the busiest session'}:</strong> it evaporates{' '}
+          <span className="num">{(v.worstSession.evaporationLPerMin * 1000).toFixed(1)} mL</span> of spirit a minute and needs{' '}
+          <span className="num font-semibold">{airFlow(v.requiredFlowM3h, units)}</span>
+          {v.governs === 'fire' ? ' to stay below a quarter of the lower explosive limit' : ' to keep every solvent within its exposure limit'}; the
+          room supplies <span className="num">{airFlow(v.suppliedFlowM3h, units)}</span> ({v.airChangesPerHour} air changes per hour in{' '}
+          <span className="num">{v.roomVolumeM3} m³</span>).{short ? ' Add extraction or work smaller areas at a time.' : ''}
+        </p>
+        {components.length > 0 && (
+          <ul className="text-xs" aria-label="Ventilation working">
+            {components.map((c) => (
+              <li key={c.solvent} className="num">{componentLine(c, units)}</li>
+            ))}
+            <li>
+              Mixing factor {v.mixingFactor}; solvents added, each against its own limit (mixture rule); exposure index at the room&apos;s supply{' '}
+              <span className="num">{(v.exposureIndex ?? 0).toFixed(2)}</span> (1 is the limit).
+            </li>
+          </ul>
+        )}
+      </div>
+    </div>
+  );
+}
+
+/** The fire, vapour and oily-rag cautions with the ventilation working: shown with every estimate, on staff screens. */
 export function CautionsPanel({ result, units, compact = false }: { result: Pick<EstimateResult, 'cautions' | 'ventilation' | 'warnings'>; units: UnitSystem; compact?: boolean }) {
   const v = result.ventilation;
+  // The ventilation warning repeats the box above it: shown once.
+  const warnings = result.warnings.filter((w) => w.code !== 'ventilation');
   return (
     <section aria-labelledby="cautions-heading" className="rounded-xl border border-brick-600/30 bg-white shadow-card">
       <header className="flex items-center gap-2 border-b border-brick-600/20 bg-brick-100/50 px-4 py-2.5">
@@ -28,19 +71,10 @@ export function CautionsPanel({ result, units, compact = false }: { result: Pick
         </h2>
       </header>
       <div className="space-y-3 px-4 py-3 text-sm">
-        <div className={`flex gap-2 rounded-md border px-3 py-2 ${v.adequate ? 'border-walnut-200 bg-parchment-50 text-walnut-800' : 'border-brick-600/40 bg-brick-100 text-brick-700'}`} data-testid="ventilation">
-          <Wind className="mt-0.5 h-4 w-4 shrink-0" aria-hidden />
-          <p>
-            <strong>{v.adequate ? 'Ventilation adequate' : 'Ventilation NOT adequate'}:</strong> the busiest session evaporates{' '}
-            <span className="num">{v.worstSession.spiritL.toFixed(2)} L</span> of spirit and needs{' '}
-            <span className="num font-semibold">{airFlow(v.requiredFlowM3h, units)}</span> of fresh air; the room supplies{' '}
-            <span className="num">{airFlow(v.suppliedFlowM3h, units)}</span> ({v.airChangesPerHour} air changes per hour in{' '}
-            <span className="num">{v.roomVolumeM3} m³</span>).
-          </p>
-        </div>
-        {result.warnings.length > 0 && (
+        <VentilationWorking v={v} units={units} />
+        {warnings.length > 0 && (
           <ul className="space-y-1.5" aria-label="Things to check on this job">
-            {result.warnings.map((w) => (
+            {warnings.map((w) => (
               <li key={w.code + w.text} className="flex gap-2 rounded-md border border-amber-500/50 bg-amber-50 px-3 py-1.5 text-amber-800">
                 <TriangleAlert className="mt-0.5 h-4 w-4 shrink-0" aria-hidden />
                 <span>
