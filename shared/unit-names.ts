@@ -7,3 +7,7 @@ export type LengthUnit = (typeof LENGTH_UNITS)[number];
 /** Display systems a workshop may choose. */
 export const UNIT_SYSTEMS = ['metric', 'imperial'] as const;
 export type UnitSystem = (typeof UNIT_SYSTEMS)[number];
+
+/** Whose pints and fluid ounces an imperial display shows: US customary or imperial (UK). */
+export const VOLUME_MEASURES = ['us', 'uk'] as const;
+export type VolumeMeasure = (typeof VOLUME_MEASURES)[number];

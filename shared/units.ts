@@ -6,10 +6,10 @@
  */
 import { unit } from 'mathjs';
 
-import type { LengthUnit, UnitSystem } from './unit-names';
+import type { LengthUnit, UnitSystem, VolumeMeasure } from './unit-names';
 
-export { LENGTH_UNITS, UNIT_SYSTEMS } from './unit-names';
-export type { LengthUnit, UnitSystem } from './unit-names';
+export { LENGTH_UNITS, UNIT_SYSTEMS, VOLUME_MEASURES } from './unit-names';
+export type { LengthUnit, UnitSystem, VolumeMeasure } from './unit-names';
 
 /** The largest length the estimator accepts: nothing in a workshop is longer than 100 m. */
 export const MAX_LENGTH_MM = 100_000;
@@ -153,6 +153,9 @@ export function parseLength(value: string | number, defaultUnit: LengthUnit = 'm
 const FT2_PER_M2 = 1 / unit(1, 'ft^2').toNumber('m^2');
 const ML_PER_US_FLOZ = unit(1, 'floz').toNumber('mL');
 const ML_PER_US_PINT = unit(1, 'pint').toNumber('mL');
+/** Imperial pint: an eighth of the imperial gallon of 4.54609 L (UK Weights and Measures Act 1985); 20 fl oz to it. */
+const ML_PER_UK_PINT = 4546.09 / 8;
+const ML_PER_UK_FLOZ = ML_PER_UK_PINT / 20;
 const G_PER_OZ = unit(1, 'oz').toNumber('g');
 const G_PER_LB = unit(1, 'lb').toNumber('g');
 
@@ -173,13 +176,16 @@ export function formatArea(m2: number, system: UnitSystem): string {
 }
 
 /**
- * Formats a volume given in litres: mL under a litre, else L; imperial in US fl oz under a pint, else US pints.
+ * Formats a volume given in litres: mL under a litre, else L; imperial in fluid ounces under a pint, else pints,
+ * US customary or imperial (UK) as the workshop's convention says, and always named.
  *
  * @example formatVolume(0.25, 'metric') // "250 mL"
+ * @example formatVolume(0.56826125, 'imperial', 'uk') // "1.00 imperial pints"
  */
-export function formatVolume(litres: number, system: UnitSystem): string {
+export function formatVolume(litres: number, system: UnitSystem, measure: VolumeMeasure = 'us'): string {
   const ml = litres * 1000;
   if (system === 'metric') return ml < 1000 ? `${sensible(ml)} mL` : `${sensible(litres)} L`;
+  if (measure === 'uk') return ml < ML_PER_UK_PINT ? `${sensible(ml / ML_PER_UK_FLOZ)} imperial fl oz` : `${sensible(ml / ML_PER_UK_PINT)} imperial pints`;
   return ml < ML_PER_US_PINT ? `${sensible(ml / ML_PER_US_FLOZ)} US fl oz` : `${sensible(ml / ML_PER_US_PINT)} US pints`;
 }
 

@@ -12,6 +12,7 @@ import { FinishingSystem, LabourRate, Material, MaterialPack, PackPrice, Species
 /** Settings of a new workshop (the owner reviews them on the settings page). */
 export const DEFAULT_SETTINGS: WorkshopSettings = {
   units: 'metric',
+  imperialVolumes: 'us',
   defaultLengthUnit: 'mm',
   pricing: {
     currency: 'GBP',

@@ -21,6 +21,7 @@ export function withWorkshopDefaults(body: unknown, settings: WorkshopSettings):
   const filled = isObject
     ? {
         units: settings.units,
+        imperialVolumes: settings.imperialVolumes,
         defaultLengthUnit: settings.defaultLengthUnit,
         climate: { temperatureC: settings.dryingRoom.temperatureC, humidityPct: settings.dryingRoom.humidityPct },
         ...(body as Record<string, unknown>),

@@ -49,7 +49,7 @@ export interface PartArea {
   edgeAreaM2: number;
   /** All faces and edges of all pieces. */
   areaM2: number;
-  /** The cut-outs were larger than the face. */
+  /** The cut-outs leave no face (as large as the face or larger). */
   cutOutsExceedFace: boolean;
 }
 
@@ -195,7 +195,7 @@ export function partArea(part: ResolvedPart): PartArea {
     faceAreaM2: face / MM2_PER_M2,
     edgeAreaM2: edge / MM2_PER_M2,
     areaM2: ((face * part.faces + edge) * part.count) / MM2_PER_M2,
-    cutOutsExceedFace: cutArea > gross,
+    cutOutsExceedFace: cutArea > 0 && cutArea >= gross,
   };
 }
 

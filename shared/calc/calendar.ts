@@ -107,33 +107,51 @@ export interface Segment {
 }
 
 /**
- * Places a session of `duration` minutes at or after `earliest`. A session that fits inside one day's opening
- * hours is never split (it waits for a day with room); a longer one starts at the next opening and runs on
- * through the following openings.
+ * Places a session of `duration` minutes at or after `earliest`, by one monotonic rule: a longer session, or a
+ * later earliest start, never ends sooner.
+ *
+ * - A session that fits inside the longest opening of the week is never split: it starts at the first moment at
+ *   or after `earliest` from which the rest of that day's opening holds all of it.
+ * - A longer session starts where a session of exactly the longest opening would (the opening of the next
+ *   full-length working day) and runs on through the following openings.
+ *
+ * So a session one minute longer than a day never starts in the last hour of today and finishes before a
+ * session of exactly a day, which would have waited for tomorrow.
  *
  * @example placeSession(cal, toMinutes('2025-03-14T16:00'), 120) // next working day at opening
  */
 export function placeSession(cal: CompiledCalendar, earliest: number, duration: number): Segment[] {
+  if (duration <= cal.longestWindow) {
+    const start = wholeStart(cal, earliest, duration);
+    return [{ start, end: start + duration }];
+  }
   const segments: Segment[] = [];
   let remaining = duration;
-  const splittable = duration > cal.longestWindow;
+  let day = dayOf(wholeStart(cal, earliest, cal.longestWindow));
+  for (let i = 0; i < SEARCH_DAYS; i++, day++) {
+    const w = openingWindow(cal, day);
+    if (!w) continue;
+    const room = w[1] - w[0];
+    if (remaining <= room) {
+      segments.push({ start: w[0], end: w[0] + remaining });
+      return segments;
+    }
+    segments.push({ start: w[0], end: w[1] });
+    remaining -= room;
+  }
+  throw new CalendarError(`No opening hours found within ${SEARCH_DAYS} days to finish a session`);
+}
+
+/** The first moment at or after `earliest` from which one day's opening holds `duration` minutes. */
+function wholeStart(cal: CompiledCalendar, earliest: number, duration: number): number {
   let day = dayOf(earliest);
   for (let i = 0; i < SEARCH_DAYS; i++, day++) {
     const w = openingWindow(cal, day);
     if (!w) continue;
     const start = Math.max(earliest, w[0]);
-    if (start >= w[1]) continue;
-    const room = w[1] - start;
-    if (remaining <= room) {
-      segments.push({ start, end: start + remaining });
-      return segments;
-    }
-    if (splittable) {
-      segments.push({ start, end: w[1] });
-      remaining -= room;
-    }
+    if (w[1] - start >= duration) return start;
   }
-  throw new CalendarError('No opening hours found within ten years to place a session');
+  throw new CalendarError(`No opening hours found within ${SEARCH_DAYS} days to place a session`);
 }
 
 /** A session to schedule. */

@@ -6,19 +6,19 @@ import { CatalogSchema } from '../schemas/catalog';
 import type { Catalog, Material, Species, Stage } from '../schemas/catalog';
 import { EstimateInputSchema } from '../schemas/calc';
 import type {
-  EstimateInput, EstimateResult, EstimateWarning, MaterialResult, ParsedEstimateInput, Part, PartResult, StageResult,
+  EstimateInput, EstimateResult, EstimateWarning, MaterialResult, ParsedEstimateInput, Part, PartResult, StageResult, TemplateKey,
 } from '../schemas/calc';
-import { formatArea, formatMass, formatVolume } from '../units';
+import { UnitParseError, formatArea, formatMass, formatVolume } from '../units';
 import { formatAmount, money, sumMoney } from '../money';
 import type { Money } from '../money';
 import { partArea, resolvePart } from './area';
 import type { PartArea, ResolvedPart } from './area';
-import { TEMPLATE_WOOD, templateParts } from './templates';
+import { TEMPLATE_DEFAULTS, TEMPLATE_WOOD, templateDimensions, templateParts } from './templates';
 import { cutToGramsPerLitre, makeUpPolish, polishLitres, withWaste } from './shellac';
 import { choosePacks } from './packs';
 import { labourCost, labourMinutes, roundHours, stageHours } from './labour';
 import {
-  climateWarnings, compileCalendar, dayOf, fromMinutes, restFactor, scheduleSessions, toMinutes,
+  CalendarError, climateWarnings, compileCalendar, dayOf, fromMinutes, restFactor, scheduleSessions, toMinutes,
 } from './calendar';
 import type { ScheduledSession, SessionRequest } from './calendar';
 import { priceEstimate, usedCost } from './price';
@@ -73,6 +73,46 @@ function inputParts(input: ParsedEstimateInput): { parts: Part[]; path: Array<st
   return { parts: input.parts ?? [], path: ['parts'], defaultSpecies: undefined };
 }
 
+/**
+ * Reads a part into millimetres. A template's generated part may outgrow the limits a part has (a lid edge over
+ * 100 m for a grand given as 90 m long): that is the dimensions' fault, and the error names them.
+ */
+function resolveOrRefuse(p: Part, i: number, input: ParsedEstimateInput, path: Array<string | number>, defaultSpecies: string): ResolvedPart {
+  try {
+    return resolvePart(p, input.defaultLengthUnit, defaultSpecies, i);
+  } catch (error) {
+    if (!(error instanceof UnitParseError)) throw error;
+    const piece = input.piece;
+    if (piece?.template) {
+      // The largest dimension given is the one that outgrew the part.
+      const given = Object.entries(templateDimensions(piece.template, piece.dimensions, input.defaultLengthUnit))
+        .filter(([name]) => piece.dimensions[name] !== undefined)
+        .sort((a, b) => b[1] - a[1]);
+      const field = given[0] ? ['piece', 'dimensions', given[0][0]] : ['piece', 'template'];
+      throw new EstimateError('template-too-large', field, `At these dimensions the template's part "${p.name}" goes past the limits of a part (${error.message.replace(/; expected .*$/s, '')}): check the dimensions.`);
+    }
+    throw new EstimateError('part-too-large', [...path, i], error.message);
+  }
+}
+
+/** The smallest plausible main dimension of a template, mm (common practice: no piano case is under 60 cm). */
+const PLAUSIBLE_MIN_MM: Readonly<Record<TemplateKey, number>> = { grand: 1000, upright: 600, square: 1000, table: 200, cabinet: 200, chest: 200 };
+
+/** Flags a template piece whose dimensions are far from any real piece of its kind (a piano a few millimetres long). */
+function implausibleSize(input: ParsedEstimateInput): EstimateWarning[] {
+  const piece = input.piece;
+  if (!piece?.template) return [];
+  const dims = templateDimensions(piece.template, piece.dimensions, input.defaultLengthUnit);
+  const out: EstimateWarning[] = [];
+  for (const [name, mm] of Object.entries(dims)) {
+    const usual = TEMPLATE_DEFAULTS[piece.template][name] as number;
+    const small = name === Object.keys(dims)[0] ? Math.min(PLAUSIBLE_MIN_MM[piece.template], usual / 4) : usual / 10;
+    if (mm < small) out.push({ code: 'implausible-size', text: `A ${piece.template} ${name} of ${Math.round(mm)} mm is far below any real one (about ${Math.round(usual)} mm is usual): check the unit.` });
+    else if (mm > usual * 10) out.push({ code: 'implausible-size', text: `A ${piece.template} ${name} of ${Math.round(mm)} mm is far above any real one (about ${Math.round(usual)} mm is usual): check the unit.` });
+  }
+  return out;
+}
+
 interface PartContext {
   part: ResolvedPart;
   area: PartArea;
@@ -119,7 +159,8 @@ function workStage(stage: Stage, parts: readonly PartContext[], catalog: Catalog
     });
   }
   if (areaM2 === 0) return null;
-  const made = stage.cutLb > 0 ? makeUpPolish(withWaste(polishL, catalog.pricing.wastePct), stage.cutLb, catalog.shellac.apparentDensity) : null;
+  const gallon = catalog.shellac.gallon;
+  const made = stage.cutLb > 0 ? makeUpPolish(withWaste(polishL, catalog.pricing.wastePct), stage.cutLb, catalog.shellac.apparentDensity, gallon) : null;
   const spiritL = (made?.solventL ?? 0) + extraSpiritL;
   const hours = stageHours(partMinutes, stage.setupMinPerSession, stage.sessions);
   const unitOf = new Map(catalog.materials.map((m) => [m.key, m.unit]));
@@ -135,7 +176,8 @@ function workStage(stage: Stage, parts: readonly PartContext[], catalog: Catalog
       coatsPerSession: stage.coatsPerSession,
       coats: stage.cutLb > 0 ? coats : 0,
       cutLb: stage.cutLb,
-      cutGPerL: round(cutToGramsPerLitre(stage.cutLb), 2),
+      cutGPerL: round(cutToGramsPerLitre(stage.cutLb, gallon), 2),
+      cutBasis: gallon,
       areaM2: round(areaM2, 4),
       polishL: round(made?.polishL ?? 0, 4),
       flakesG: round(made?.flakesG ?? 0, 2),
@@ -198,7 +240,7 @@ export function estimate(rawInput: EstimateInput, catalog: Catalog, options: Est
 
   // Parts and areas.
   const contexts: PartContext[] = source.parts.map((p, i) => {
-    const part = resolvePart(p, input.defaultLengthUnit, defaultSpecies, i);
+    const part = resolveOrRefuse(p, i, input, source.path, defaultSpecies);
     const species = speciesByKey.get(part.species);
     if (!species) {
       const path = source.path[0] === 'piece' && source.path.length === 1 ? ['piece', 'species'] : [...source.path, i, 'species'];
@@ -208,8 +250,9 @@ export function estimate(rawInput: EstimateInput, catalog: Catalog, options: Est
   });
   const warnings: EstimateWarning[] = [];
   for (const c of contexts) {
-    if (c.area.cutOutsExceedFace) warnings.push({ code: 'cut-outs-exceed-face', text: `The cut-outs of "${c.part.name}" are larger than the part; its face area is taken as zero.` });
+    if (c.area.cutOutsExceedFace) warnings.push({ code: 'cut-outs-exceed-face', text: `The cut-outs of "${c.part.name}" leave no face: its face area is taken as zero.` });
   }
+  warnings.push(...implausibleSize(input));
   const parts: PartResult[] = contexts.map((c) => ({
     id: c.part.id,
     name: c.part.name,
@@ -270,7 +313,17 @@ export function estimate(rawInput: EstimateInput, catalog: Catalog, options: Est
   }
   const startText = input.startDate ?? options.today ?? todayLocal();
   const startDay = toMinutes(startText.slice(0, 10));
-  const scheduled = scheduleSessions(requests, compileCalendar(catalog.calendar), toMinutes(startText));
+  let scheduled: ScheduledSession[];
+  try {
+    scheduled = scheduleSessions(requests, compileCalendar(catalog.calendar), toMinutes(startText));
+  } catch (error) {
+    if (!(error instanceof CalendarError)) throw error;
+    const longest = Math.max(0, ...requests.map((r) => r.handsOnMin)) / 60;
+    throw new EstimateError(
+      'calendar-unplaceable', source.path,
+      `The work cannot be placed in the working calendar (${error.message}): the longest session is ${Math.round(longest).toLocaleString('en-GB')} hours of hands-on work. Check the sizes and counts of the parts.`,
+    );
+  }
   const first = scheduled[0] as ScheduledSession | undefined;
   const last = scheduled[scheduled.length - 1] as ScheduledSession | undefined;
   const firstFinish = scheduled.findIndex((s) => s.stageKind === 'cut-back' || s.stageKind === 'burnish');
@@ -279,10 +332,25 @@ export function estimate(rawInput: EstimateInput, catalog: Catalog, options: Est
   const jobEnd = last?.end ?? startDay;
   const calendarDays = first ? dayOf(jobEnd) - dayOf(jobStart) + 1 : 0;
 
+  const years = (jobEnd - jobStart) / (365 * 1440);
+  if (years > 1) {
+    warnings.push({
+      code: 'calendar-past-a-year',
+      text: `The calendar runs ${calendarDays} days, past a year${factor > 1.5 ? `: the climate stretches every rest ${round(factor, 1)} times` : ''}. Check the climate and the rests before quoting.`,
+    });
+  }
+
   // Price.
   const price = priceEstimate({ materialsCost, labourHours, labourCost: labour, perHour: rate.perHour, discountPct: input.discountPct, pricing: catalog.pricing });
   if (input.discountPct > catalog.pricing.maxDiscountPct) {
     warnings.push({ code: 'discount-over-cap', text: `A discount of ${input.discountPct} % is above the workshop's cap of ${catalog.pricing.maxDiscountPct} %.` });
+  }
+
+  if (money(price.total).isZero()) {
+    warnings.push({ code: 'zero-price', text: 'The price comes to 0.00: the labour rate and the materials in use have no prices yet. Enter them in the price list before quoting.' });
+  } else {
+    const unpriced = priced.filter((p) => p.result.need > 0 && money(p.result.packsCost).isZero()).map((p) => p.result.name);
+    if (unpriced.length > 0) warnings.push({ code: 'unpriced-materials', text: `No price yet for ${unpriced.join(', ')}: they are counted at 0.00.` });
   }
 
   // Safety. Stages that use a solvent product other than the spirit (stripper, stain) are named, not guessed at.
@@ -318,7 +386,9 @@ export function estimate(rawInput: EstimateInput, catalog: Catalog, options: Est
       units: input.units,
       area: formatArea(totalArea, input.units),
       flakes: formatMass(flakesG, input.units),
-      spirit: formatVolume(spiritL, input.units),
+      spirit: formatVolume(spiritL, input.units, input.imperialVolumes),
+      volumes: input.imperialVolumes,
+      gallon: catalog.shellac.gallon,
     },
     system: system.key,
     catalogVersion: catalog.version,

@@ -30,8 +30,8 @@ export function cutToGramsPerLitre(cutLb: number, gallon: 'us' | 'uk' = 'us'): n
  *
  * @example solutionPerLitreOfSolvent(2, 1.2) // ≈ 1.2 (Fine Woodworking: 2 lb in 1 gal → about 1.2 gal)
  */
-export function solutionPerLitreOfSolvent(cutLb: number, apparentDensity: number): number {
-  return 1 + cutToGramsPerLitre(cutLb) / (apparentDensity * 1000);
+export function solutionPerLitreOfSolvent(cutLb: number, apparentDensity: number, gallon: 'us' | 'uk' = 'us'): number {
+  return 1 + cutToGramsPerLitre(cutLb, gallon) / (apparentDensity * 1000);
 }
 
 /** Flakes and solvent that make up a volume of polish. */
@@ -47,10 +47,10 @@ export interface MakeUp {
  *
  * @example makeUpPolish(1.2, 2, 1.2) // ≈ { solventL: 1, flakesG: 239.65 }
  */
-export function makeUpPolish(polishL: number, cutLb: number, apparentDensity: number): MakeUp {
+export function makeUpPolish(polishL: number, cutLb: number, apparentDensity: number, gallon: 'us' | 'uk' = 'us'): MakeUp {
   if (polishL <= 0) return { polishL: 0, flakesG: 0, solventL: 0 };
-  const solventL = polishL / solutionPerLitreOfSolvent(cutLb, apparentDensity);
-  return { polishL, flakesG: solventL * cutToGramsPerLitre(cutLb), solventL };
+  const solventL = polishL / solutionPerLitreOfSolvent(cutLb, apparentDensity, gallon);
+  return { polishL, flakesG: solventL * cutToGramsPerLitre(cutLb, gallon), solventL };
 }
 
 /** What decides how much polish a part takes in one stage. */

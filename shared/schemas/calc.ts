@@ -4,7 +4,7 @@
  */
 import { z } from 'zod';
 import { COMPLEXITIES, STAGE_KINDS, StageSchema } from './catalog';
-import { LENGTH_UNITS, UNIT_SYSTEMS, UnitParseError, parseLength } from '../units';
+import { LENGTH_UNITS, UNIT_SYSTEMS, UnitParseError, VOLUME_MEASURES, parseLength } from '../units';
 import type { LengthUnit } from '../units';
 
 /** Templates that generate a parts list, and the dimensions each one reads. */
@@ -184,6 +184,8 @@ export const EstimateInputSchema = z
     startDate: LocalDateTimeSchema.optional(),
     discountPct: z.number({ error: 'must be a percentage' }).min(0).max(100).default(0),
     units: z.enum(UNIT_SYSTEMS).default('metric'),
+    /** Imperial display: US or imperial (UK) pints and fluid ounces. */
+    imperialVolumes: z.enum(VOLUME_MEASURES).default('us'),
     defaultLengthUnit: z.enum(LENGTH_UNITS).default('mm'),
   })
   .superRefine((input, ctx) => {
@@ -250,6 +252,8 @@ export const StageResultSchema = z.object({
   coats: z.number(),
   cutLb: z.number(),
   cutGPerL: z.number(),
+  /** The gallon the cut is measured against. */
+  cutBasis: z.enum(['us', 'uk']),
   areaM2: z.number(),
   polishL: z.number(),
   flakesG: z.number(),
@@ -372,7 +376,15 @@ export const EstimateResultSchema = z.object({
   totals: TotalsSchema,
   cautions: z.array(CautionSchema).min(1),
   warnings: z.array(WarningSchema),
-  display: z.object({ units: z.enum(UNIT_SYSTEMS), area: z.string(), flakes: z.string(), spirit: z.string() }),
+  display: z.object({
+    units: z.enum(UNIT_SYSTEMS),
+    area: z.string(),
+    flakes: z.string(),
+    spirit: z.string(),
+    volumes: z.enum(VOLUME_MEASURES),
+    /** The gallon the cuts are measured against. */
+    gallon: z.enum(['us', 'uk']),
+  }),
   system: z.string(),
   catalogVersion: z.string(),
   parts: z.array(PartResultSchema),

@@ -69,7 +69,7 @@ export const StageSchema = z.object({
   enabled: z.boolean().default(true),
   sessions: z.number().int().min(0).max(200),
   coatsPerSession: z.number().int().min(0).max(30),
-  /** Pound cut of the polish (lb of flakes per US gallon of spirit); 0 when the stage lays no shellac. */
+  /** Pound cut of the polish (lb of flakes per gallon of spirit, the workshop's gallon); 0 when the stage lays no shellac. */
   cutLb: z.number().min(0).max(6),
   polishMlPerM2PerCoat: z.number().min(0).max(500),
   /** Spirit beyond the polish itself: thinning, charging the rubber, spiriting, cleaning. */
@@ -159,10 +159,16 @@ export const WorkingCalendarSchema = z.object({
 });
 export type WorkingCalendar = z.infer<typeof WorkingCalendarSchema>;
 
-/** Which catalog materials hold the shellac flakes and the spirit, and the solids' apparent density. */
+/** The gallon a "pound cut" is measured against: US (231 in³, 3.785 L) or imperial (4.546 L). */
+export const GALLON_BASES = ['us', 'uk'] as const;
+export type GallonBasis = (typeof GALLON_BASES)[number];
+
+/** Which catalog materials hold the shellac flakes and the spirit, the solids' apparent density and the cut's gallon. */
 export const ShellacSettingsSchema = z.object({
   flakesMaterial: key,
   spiritMaterial: key,
+  /** A pound cut is pounds of flakes per gallon of spirit: the workshop says which gallon (US by default). */
+  gallon: z.enum(GALLON_BASES).default('us'),
   /** g/cm³; about 1.2 reproduces the Fine Woodworking dilution chart. */
   apparentDensity: z.number().min(0.8).max(2),
 });

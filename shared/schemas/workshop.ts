@@ -1,6 +1,6 @@
 import { z } from 'zod';
 import { FactorsSchema, PricingSchema, SafetySettingsSchema, ShellacSettingsSchema, WorkingCalendarSchema } from './catalog';
-import { LENGTH_UNITS, UNIT_SYSTEMS } from '../unit-names';
+import { LENGTH_UNITS, UNIT_SYSTEMS, VOLUME_MEASURES } from '../unit-names';
 
 export { CALENDAR_WEEKDAYS as WEEKDAYS } from './catalog';
 
@@ -20,6 +20,8 @@ export type DryingRoom = z.infer<typeof DryingRoomSchema>;
  */
 export const WorkshopSettingsSchema = z.object({
   units: z.enum(UNIT_SYSTEMS),
+  /** Imperial display of volumes: US pints and fluid ounces, or imperial (UK) ones. */
+  imperialVolumes: z.enum(VOLUME_MEASURES).default('us'),
   defaultLengthUnit: z.enum(LENGTH_UNITS),
   pricing: PricingSchema,
   /** Show prices to customers with tax included. */

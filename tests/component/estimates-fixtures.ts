@@ -9,6 +9,7 @@ import { DEMO_CATALOG } from '../fixtures/catalog';
 
 export const SETTINGS: WorkshopSettings = {
   units: 'metric',
+  imperialVolumes: 'us',
   defaultLengthUnit: 'mm',
   pricing: DEMO_CATALOG.pricing,
   pricesIncludeTax: true,

@@ -6,8 +6,9 @@
  * - a session that fits in a day's opening window is never split: it waits for a day, a time and a polisher with
  *   room for all of it;
  * - a session longer than the longest opening window is split into day-sized parts on consecutive open days, all
- *   by the same polisher: the first part runs from its start to closing, the next ones from opening (as the
- *   estimate's coat calendar does);
+ *   by the same polisher: it starts at the opening of a full-length day (where a session of exactly the longest
+ *   window would start, so a longer session never ends sooner), the next parts from opening (as the estimate's
+ *   coat calendar does);
  * - among polishers able to start at the same time, the one who did the job's previous session keeps it, then the
  *   first in the list.
  */
@@ -132,9 +133,9 @@ function placeSplit(prep: Prepared, own: ReadonlyMap<number, number>, earliest: 
   const firstDay = dayOf(earliest);
   for (let day = firstDay; day < firstDay + prep.horizonDays; day++) {
     const w = openingWindow(prep.cal, day);
-    if (!w) continue;
-    const lo = Math.max(earliest, w[0]);
-    if (lo >= w[1]) continue;
+    // As in the coat calendar: a long session starts at the opening of a full-length day.
+    if (!w || w[1] - w[0] < prep.cal.longestWindow || earliest > w[0]) continue;
+    const lo = w[0];
     let best: Placement | null = null;
     let bestStart = Infinity;
     for (const p of tried) {

@@ -26,4 +26,5 @@ export const DEFAULT_SHELLAC: ShellacSettings = {
   flakesMaterial: 'shellac-flakes',
   spiritMaterial: 'spirit',
   apparentDensity: 1.2,
+  gallon: 'us',
 };

@@ -56,7 +56,7 @@ const fad = stage({
   firstCoats: true, materials: [use('wadding', 8)],
 });
 
-const body = (sessions: number, restHours = 24): Stage =>
+const body = (sessions: number, restHours = 12): Stage =>
   stage({
     key: 'body', kind: 'body', name: 'Bodying with the rubber', sessions, coatsPerSession: 3, cutLb: 1.5,
     polishMlPerM2PerCoat: 12, spiritMlPerM2PerSession: 20, labourMinPerM2PerCoat: 7, setupMinPerSession: 15, restHours,

@@ -80,9 +80,7 @@ describe('scheduleSessions properties', () => {
     handsOnMin: 10 + Math.floor(random() * 900),
     restMin: Math.floor(random() * 100) * 60,
   }));
-  const t0 = performance.now();
   const out = scheduleSessions(requests, compiled, toMinutes('2025-03-03T10:30'));
-  const elapsed = performance.now() - t0;
 
   it('never schedules work outside opening hours or on closed dates', () => {
     for (const s of out) for (const g of s.segments) expect(insideOpening(calendar, fromMinutes(g.start), fromMinutes(g.end))).toBe(true);
@@ -101,10 +99,6 @@ describe('scheduleSessions properties', () => {
       const worked = s.segments.reduce((t, g) => t + g.end - g.start, 0);
       expect(worked).toBe(Math.round(requests[i]!.handsOnMin));
     });
-  });
-
-  it('lays 80 sessions in well under 50 ms', () => {
-    expect(elapsed).toBeLessThan(50);
   });
 });
 

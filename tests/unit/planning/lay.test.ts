@@ -42,14 +42,14 @@ describe('planJob: rests and opening hours', () => {
   });
 
   it('splits a session longer than the longest window into parts on consecutive open days, one polisher', () => {
-    // 20 h from Friday 12:00: Friday 4.5 h, Saturday 4 h, Monday 8.5 h, Tuesday 3 h.
+    // 20 h asked from Friday 12:00 starts at the next full day's opening, as the coat calendar does: Monday 8.5 h,
+    // Tuesday 8.5 h, Wednesday 3 h.
     const plan = planned(planJob(job('j', [[1200, 0]]), m('2026-12-11T12:00'), [], context()));
     const s = plan.sessions[0]!;
     expect(s.segments.map((g) => [iso(g.start), iso(g.end)])).toEqual([
-      ['2026-12-11T12:00', '2026-12-11T16:30'],
-      ['2026-12-12T08:00', '2026-12-12T12:00'],
       ['2026-12-14T08:00', '2026-12-14T16:30'],
-      ['2026-12-15T08:00', '2026-12-15T11:00'],
+      ['2026-12-15T08:00', '2026-12-15T16:30'],
+      ['2026-12-16T08:00', '2026-12-16T11:00'],
     ]);
     expect(s.polisherId).toBe('p1');
     expect(planErrors(plan, context())).toEqual([]);

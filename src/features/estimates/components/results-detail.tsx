@@ -31,6 +31,9 @@ const tdNum = 'num px-3 py-1.5 text-right whitespace-nowrap';
 /** The full detail of an estimate: areas, stages, materials and packs, labour, calendar, price. */
 function ResultsDetailView({ result, units, catalog, stale = false }: { result: EstimateResult; units: UnitSystem; catalog?: Catalog; stale?: boolean }) {
   const currency = result.price.currency;
+  // Revisions saved before the volume and gallon settings were US throughout.
+  const vol = result.display.volumes ?? 'us';
+  const gallon = result.display.gallon ?? 'us';
   const speciesName = new Map((catalog?.species ?? []).map((s) => [s.key, s.name]));
   const materialName = new Map<string, { name: string; unit: string }>([
     ...(catalog?.materials ?? []).map((m): [string, { name: string; unit: string }] => [m.key, { name: m.name, unit: m.unit }]),
@@ -78,7 +81,7 @@ function ResultsDetailView({ result, units, catalog, stale = false }: { result: 
         </table>
       </Section>
 
-      <Section id="stages-heading" title="Stages: coats, shellac, spirit and labour" aside={`${result.totals.coats} coats · ${formatMass(result.totals.flakesG, units)} flakes · ${formatVolume(result.totals.spiritL, units)} spirit`}>
+      <Section id="stages-heading" title="Stages: coats, shellac, spirit and labour" aside={`${result.totals.coats} coats · ${formatMass(result.totals.flakesG, units)} flakes · ${formatVolume(result.totals.spiritL, units, vol)} spirit`}>
         <table className="min-w-full text-sm">
           <thead className="bg-parchment-100 text-left text-xs uppercase tracking-wide text-walnut-600">
             <tr>
@@ -101,14 +104,14 @@ function ResultsDetailView({ result, units, catalog, stale = false }: { result: 
                   {s.sessions} × {s.coatsPerSession}
                   {s.coats > 0 && <span className="block text-xs text-walnut-500">{s.coats} coats</span>}
                 </td>
-                <td className={tdNum}>{s.cutLb > 0 ? <>{s.cutLb} lb<span className="block text-xs text-walnut-500">{Math.round(s.cutGPerL)} g/L</span></> : '—'}</td>
+                <td className={tdNum}>{s.cutLb > 0 ? <>{s.cutLb} lb per {(s.cutBasis ?? gallon) === 'uk' ? 'imperial' : 'US'} gal<span className="block text-xs text-walnut-500">{Math.round(s.cutGPerL)} g/L</span></> : '—'}</td>
                 <td className={tdNum}>{formatArea(s.areaM2, units)}</td>
                 <td className={tdNum}>{s.flakesG > 0 ? formatMass(s.flakesG, units) : '—'}</td>
-                <td className={tdNum}>{s.spiritL > 0 ? formatVolume(s.spiritL, units) : '—'}</td>
+                <td className={tdNum}>{s.spiritL > 0 ? formatVolume(s.spiritL, units, vol) : '—'}</td>
                 <td className={`${td} text-xs text-walnut-700`}>
                   {s.materials.length === 0
                     ? '—'
-                    : s.materials.map((m) => `${materialName.get(m.material)?.name ?? m.material} ${formatQuantity(m.quantity, m.unit, units)}`).join('; ')}
+                    : s.materials.map((m) => `${materialName.get(m.material)?.name ?? m.material} ${formatQuantity(m.quantity, m.unit, units, vol)}`).join('; ')}
                 </td>
                 <td className={tdNum}>{s.restHours} h</td>
                 <td className={`${td} min-w-40`}>
@@ -129,7 +132,7 @@ function ResultsDetailView({ result, units, catalog, stale = false }: { result: 
               <td />
               <td />
               <td className={tdNum}>{formatMass(result.totals.flakesG, units)}</td>
-              <td className={tdNum}>{formatVolume(result.totals.spiritL, units)}</td>
+              <td className={tdNum}>{formatVolume(result.totals.spiritL, units, vol)}</td>
               <td />
               <td />
               <td className={`${td} text-right`}>
@@ -161,15 +164,15 @@ function ResultsDetailView({ result, units, catalog, stale = false }: { result: 
                   <span className="font-medium text-walnut-900">{m.name}</span>
                   {m.supplier && <span className="block text-xs text-walnut-500">{m.supplier}</span>}
                 </td>
-                <td className={tdNum}>{formatQuantity(m.need, m.unit, units)}</td>
+                <td className={tdNum}>{formatQuantity(m.need, m.unit, units, vol)}</td>
                 <td className={`${td} text-sm`}>
                   {m.packs.map((p) => (
                     <span key={p.size} className="num mr-2 inline-block whitespace-nowrap rounded border border-parchment-300 bg-parchment-50 px-1.5 py-0.5 text-xs">
-                      {formatPack(p.size, p.count, m.unit, units, p.label)} @ {formatMoney(p.price, currency)}
+                      {formatPack(p.size, p.count, m.unit, units, p.label, vol)} @ {formatMoney(p.price, currency)}
                     </span>
                   ))}
                 </td>
-                <td className={tdNum}>{formatQuantity(m.leftover, m.unit, units)}</td>
+                <td className={tdNum}>{formatQuantity(m.leftover, m.unit, units, vol)}</td>
                 <td className={tdNum}>{formatMoney(m.charge, currency)}</td>
               </tr>
             ))}

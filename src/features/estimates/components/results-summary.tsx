@@ -49,7 +49,7 @@ export function ResultsSummary({ result, units, stale = false, heading = 'Estima
           <Figure label="Shellac coats" icon={<Layers className={icon} aria-hidden />} value={`${t.coats} coats`} testId="total-coats" />
           <Figure label="Labour" icon={<Clock className={icon} aria-hidden />} value={formatHours(t.labourHours)} testId="total-hours" />
           <Figure label="Flakes" icon={<Package className={icon} aria-hidden />} value={formatMass(t.flakesG, units)} testId="total-flakes" />
-          <Figure label="Spirit" icon={<Droplets className={icon} aria-hidden />} value={formatVolume(t.spiritL, units)} testId="total-spirit" />
+          <Figure label="Spirit" icon={<Droplets className={icon} aria-hidden />} value={formatVolume(t.spiritL, units, result.display.volumes ?? 'us')} testId="total-spirit" />
           <Figure
             label="Calendar"
             icon={<CalendarRange className={icon} aria-hidden />}

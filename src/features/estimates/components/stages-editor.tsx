@@ -18,7 +18,9 @@ interface StagesEditorProps {
 }
 
 /** The stages this estimate uses, copied from the finishing system and edited here only. */
-export function StagesEditor({ stages, onChange, errors, results }: StagesEditorProps) {
+export function StagesEditor({ stages, onChange, errors, results, catalog }: StagesEditorProps) {
+  // The cut's gallon is a workshop setting, named beside every cut.
+  const unitOf = (k: StageNumber): string => (k === 'cutLb' ? `lb per ${catalog.shellac.gallon === 'uk' ? 'imperial' : 'US'} gal` : STAGE_NUMBER_LABELS[k].unit);
   const [open, setOpen] = useState<string | null>(null);
   const set = (i: number, patch: Partial<StageDraft>) => onChange(stages.map((s, k) => (k === i ? { ...s, ...patch } : s)));
   const byKey = new Map(results.map((r) => [r.key, r]));
@@ -32,7 +34,7 @@ export function StagesEditor({ stages, onChange, errors, results }: StagesEditor
             {MAIN.map((k) => (
               <th key={k} className="px-2 py-2" title={STAGE_NUMBER_LABELS[k].label}>
                 {STAGE_NUMBER_LABELS[k].short}
-                {STAGE_NUMBER_LABELS[k].unit && <span className="block font-normal normal-case">{STAGE_NUMBER_LABELS[k].unit}</span>}
+                {unitOf(k) && <span className="block font-normal normal-case">{unitOf(k)}</span>}
               </th>
             ))}
             <th className="px-2 py-2 text-right">Labour</th>

@@ -1,15 +1,15 @@
 /** Areas, volumes, masses and material quantities in the chosen display units (metric or imperial). */
-import { formatArea, formatLength, formatMass, formatVolume, type UnitSystem } from '@shared/units';
+import { formatArea, formatLength, formatMass, formatVolume, type UnitSystem, type VolumeMeasure } from '@shared/units';
 
 export { formatArea, formatLength, formatMass, formatVolume };
 
 /** A material quantity in its catalog unit (g, mL, sheet, each), shown in the display system. */
-export function formatQuantity(quantity: number, unit: string, system: UnitSystem): string {
+export function formatQuantity(quantity: number, unit: string, system: UnitSystem, measure: VolumeMeasure = 'us'): string {
   switch (unit) {
     case 'g':
       return formatMass(quantity, system);
     case 'mL':
-      return formatVolume(quantity / 1000, system);
+      return formatVolume(quantity / 1000, system, measure);
     case 'sheet':
       return `${round(quantity)} ${quantity === 1 ? 'sheet' : 'sheets'}`;
     default:
@@ -22,6 +22,6 @@ function round(q: number): string {
 }
 
 /** A pack as bought: "2 × 500 g". */
-export function formatPack(size: number, count: number, unit: string, system: UnitSystem, label?: string): string {
-  return `${count} × ${label && label.trim() !== '' ? label : formatQuantity(size, unit, system)}`;
+export function formatPack(size: number, count: number, unit: string, system: UnitSystem, label?: string, measure: VolumeMeasure = 'us'): string {
+  return `${count} × ${label && label.trim() !== '' ? label : formatQuantity(size, unit, system, measure)}`;
 }

@@ -198,6 +198,10 @@ export function SettingsForm({
         {select(['settings', 'shellac', 'flakesMaterial'], 'Shellac flakes', materialOptions('shellac'))}
         {select(['settings', 'shellac', 'spiritMaterial'], 'Spirit', materialOptions('spirit'))}
         {num(['settings', 'shellac', 'apparentDensity'], 'Flakes apparent density', 'g/cm³', { hint: 'About 1.2 reproduces the usual dilution chart' })}
+        {select(['settings', 'shellac', 'gallon'], 'A pound cut is pounds per', [
+          { value: 'us', label: 'US gallon (3.785 L)' },
+          { value: 'uk', label: 'imperial gallon (4.546 L)' },
+        ], 'Shown beside every cut')}
       </Section>
 
       <Section icon={<FileText className="h-4 w-4 text-amber-600" aria-hidden />} title="Quotes, paper and units">
@@ -210,6 +214,10 @@ export function SettingsForm({
           { value: 'metric', label: 'Metric (mm, m², L, g)' },
           { value: 'imperial', label: 'Imperial (in, ft², fl oz, oz)' },
         ])}
+        {select(['settings', 'imperialVolumes'], 'Imperial pints and fluid ounces', [
+          { value: 'us', label: 'US (pint 473 mL)' },
+          { value: 'uk', label: 'imperial (pint 568 mL)' },
+        ], 'Used when measurements are shown in imperial')}
         {select(['settings', 'defaultLengthUnit'], 'A bare number means', LENGTH_UNITS.map((u) => ({ value: u, label: u })), 'When a length is typed without a unit')}
       </Section>
 
