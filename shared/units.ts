@@ -77,7 +77,33 @@ function checkMagnitude(mm: number, text: string, allowZero: boolean): number {
 
 const NUMBER = String.raw`(?:\d+(?:\.\d*)?|\.\d+)(?:e[+-]?\d+)?`;
 const PLAIN_MM = /^\s*(\d{1,9}(?:\.\d{1,9})?)\s*mm\s*$/;
-const TOKEN = new RegExp(String.raw`\s*(${NUMBER})\s*([a-z]+)?\s*`, 'y');
+/**
+ * One amount and its unit: a number ("75", "75.5"), a mixed number as workshops write it ("3 1/2", "3-1/2"), or
+ * a fraction alone ("1/2"); then an optional unit word.
+ */
+const TOKEN = new RegExp(
+  String.raw`\s*(?:(\d+)\s*/\s*(\d+)|(${NUMBER})(?:(?:\s+|\s*-\s*)(\d+)\s*/\s*(\d+))?)\s*([a-z]+)?\s*`,
+  'y',
+);
+
+/** Unicode vulgar fractions workshops type or paste ("3½"). */
+const VULGAR: Readonly<Record<string, string>> = {
+  '½': '1/2', '⅓': '1/3', '⅔': '2/3', '¼': '1/4', '¾': '3/4', '⅕': '1/5', '⅖': '2/5', '⅗': '3/5', '⅘': '4/5',
+  '⅙': '1/6', '⅚': '5/6', '⅛': '1/8', '⅜': '3/8', '⅝': '5/8', '⅞': '7/8', '⅟': '1/',
+};
+
+/** The amount of a token: a number, a mixed number (its whole part a whole number) or a fraction. */
+function readAmount(value: string, match: RegExpExecArray): number {
+  const [, fracNum, fracDen, number, mixedNum, mixedDen] = match;
+  const fraction = (num: string, den: string): number => {
+    if (Number(den) === 0) throw new UnitParseError(value, 'a fraction cannot have 0 below the line');
+    return Number(num) / Number(den);
+  };
+  if (number === undefined) return fraction(fracNum as string, fracDen as string);
+  if (mixedNum === undefined) return Number(number);
+  if (!/^\d+$/.test(number)) throw new UnitParseError(value, 'a whole number goes before a fraction, as in "3 1/2"');
+  return Number(number) + fraction(mixedNum, mixedDen as string);
+}
 
 /** Options for {@link parseLength}. */
 export interface ParseLengthOptions {
@@ -89,7 +115,9 @@ export interface ParseLengthOptions {
  * Reads a length written as text (or a bare number) and returns millimetres.
  *
  * Accepts a number with a unit ("190 cm", "1.9 m", "1900 mm", "75 in", "75.5in"), a sum of feet and inches
- * ("6 ft 3 in", "6ft3in", "6' 3\"", "6 ft"), or a bare number (number or numeric string) in `defaultUnit`.
+ * ("6 ft 3 in", "6ft3in", "6' 3\"", "6 ft"), fractions as workshops write them ("6 ft 3½ in", "6 ft 3 1/2 in",
+ * "75 1/2 in", "6' 3-1/2\""), or a bare number (number or numeric string) in `defaultUnit`. A comma between feet
+ * and inches ("6 ft, 3 in") and a decimal comma ("75,5 in") are refused, each with its own message.
  * Throws {@link UnitParseError} for anything else, for negatives, zero (unless allowed), NaN, Infinity and
  * lengths over 100 m.
  *
@@ -113,10 +141,14 @@ export function parseLength(value: string | number, defaultUnit: LengthUnit = 'm
     .trim()
     .toLowerCase()
     .replace(/''|[″”“"]/g, ' in ')
-    .replace(/[′’‘']/g, ' ft ');
+    .replace(/[′’‘']/g, ' ft ')
+    .replace(/\u2044/g, '/')
+    .replace(/(\d)?\s*-?\s*([½⅓⅔¼¾⅕⅖⅗⅘⅙⅚⅛⅜⅝⅞])/g, (_m, whole: string | undefined, f: string) => `${whole ?? ''} ${VULGAR[f] ?? f}`)
+    .trim();
   if (text === '') throw new UnitParseError(value, 'it is empty');
   if (text.startsWith('-')) throw new UnitParseError(value, 'a length cannot be negative');
-  if (text.includes(',')) throw new UnitParseError(value, 'use a point, not a comma, for decimals');
+  if (/\d,\d/.test(text)) throw new UnitParseError(value, 'use a point, not a comma, for decimals');
+  if (text.includes(',')) throw new UnitParseError(value, 'write feet and inches without a comma between them, as "6 ft 3 in"');
 
   const parts: Array<{ amount: number; unit: LengthUnit | null }> = [];
   TOKEN.lastIndex = 0;
@@ -124,8 +156,8 @@ export function parseLength(value: string | number, defaultUnit: LengthUnit = 'm
     const at = TOKEN.lastIndex;
     const match = TOKEN.exec(text);
     if (!match || match.index !== at) throw new UnitParseError(value, `unexpected text at "${text.slice(at).trim()}"`);
-    const amount = Number(match[1]);
-    const word = match[2];
+    const amount = readAmount(value, match);
+    const word = match[6];
     let lengthUnit: LengthUnit | null = null;
     if (word !== undefined) {
       const known = UNIT_ALIASES[word];

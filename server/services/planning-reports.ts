@@ -4,7 +4,7 @@
  * jobs with a shopping list in packs.
  */
 import { Op, type Sequelize, type Transaction } from 'sequelize';
-import { choosePacks, toMinutes } from '@shared/calc';
+import { choosePacks, sessionShare, toMinutes } from '@shared/calc';
 import { sumMoney } from '@shared/money';
 import type { StageKind } from '@shared/schemas/catalog';
 import type {
@@ -253,7 +253,8 @@ export async function materialForecast(sequelize: Sequelize, q: { weeks: number 
       count++;
       const week = Math.max(0, Math.floor((toMinutes(s.plannedStart.slice(0, 10)) / 1440 - day0) / 7));
       for (const m of stage.materials) {
-        const share = m.quantity / stage.sessions;
+        // Sheets, cloths and pads fall on their sessions in whole pieces.
+        const share = sessionShare(m.quantity, m.unit, stage.sessions, Math.min(s.session, stage.sessions));
         mine[m.material] = (mine[m.material] ?? 0) + share;
         const t = totals.get(m.material) ?? { need: 0, unit: m.unit, byWeek: Array.from({ length: q.weeks }, () => 0) };
         t.need += share;

@@ -16,6 +16,7 @@ import type { PartArea, ResolvedPart } from './area';
 import { TEMPLATE_DEFAULTS, TEMPLATE_WOOD, templateDimensions, templateParts } from './templates';
 import { cutToGramsPerLitre, makeUpPolish, polishLitres, withWaste } from './shellac';
 import { choosePacks } from './packs';
+import { wholeForUnit } from './pieces';
 import { labourCost, labourMinutes, roundHours, stageHours } from './labour';
 import {
   CalendarError, climateWarnings, compileCalendar, dayOf, fromMinutes, restFactor, scheduleSessions, toMinutes,
@@ -164,6 +165,8 @@ function workStage(stage: Stage, parts: readonly PartContext[], catalog: Catalog
   const spiritL = (made?.solventL ?? 0) + extraSpiritL;
   const hours = stageHours(partMinutes, stage.setupMinPerSession, stage.sessions);
   const unitOf = new Map(catalog.materials.map((m) => [m.key, m.unit]));
+  // Sheets, cloths and pads are opened whole: a stage's count is rounded up to whole pieces.
+  for (const [key, q] of used) used.set(key, wholeForUnit(q, unitOf.get(key) ?? ''));
   return {
     stage,
     spiritL,

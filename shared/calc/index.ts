@@ -17,6 +17,7 @@ export {
 } from './shellac';
 export type { MakeUp, PolishDemand } from './shellac';
 export { choosePacks } from './packs';
+export { PIECE_UNITS, wholeForUnit, sessionShare } from './pieces';
 export type { PackChoice, PackCount } from './packs';
 export { labourMinutes, stageHours, labourCost, roundHours } from './labour';
 export type { LabourDemand } from './labour';

@@ -1,6 +1,7 @@
 /**
  * Labour: minutes of rubbing per part and stage, hours per stage, and their cost at the polisher's rate.
  */
+import Decimal from 'decimal.js';
 import { money, toCents } from '../money';
 import type { Money, MoneyInput } from '../money';
 
@@ -45,10 +46,13 @@ export function labourCost(hours: number, perHour: MoneyInput): Money {
 }
 
 /**
- * Hours to a hundredth.
+ * Hours to a hundredth, half up, in decimal arithmetic: 1.005 h is 1.01 h (binary floating point would make it
+ * 1.00, since 1.005 is stored as 1.00499999…). Noise below a billionth of an hour from summing minutes is dropped
+ * first.
  *
  * @example roundHours(70.256) // 70.26
+ * @example roundHours(1.005) // 1.01
  */
 export function roundHours(hours: number): number {
-  return Math.round(hours * 100) / 100;
+  return new Decimal(hours).toDecimalPlaces(9, Decimal.ROUND_HALF_UP).toDecimalPlaces(2, Decimal.ROUND_HALF_UP).toNumber();
 }
