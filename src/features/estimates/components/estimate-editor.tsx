@@ -84,7 +84,7 @@ export function EstimateEditor({ calc, pieceKind, initial, saveLabel, saving = f
 
   // The engine runs on the deferred draft so typing never waits for it.
   const deferred = useDeferredValue(draft);
-  const input = useMemo(() => buildInput(deferred, settings), [deferred, settings]);
+  const input = useMemo(() => buildInput(deferred), [deferred]);
   const outcome = useMemo<Outcome>(() => {
     try {
       return { ok: true, result: estimate(input, catalog, today ? { today } : {}) };
@@ -115,7 +115,7 @@ export function EstimateEditor({ calc, pieceKind, initial, saveLabel, saving = f
 
   const editParts = () => {
     try {
-      const parts = partsFromTemplate(draft, settings.defaultLengthUnit);
+      const parts = partsFromTemplate(draft, draft.lengthUnit);
       setTemplateError(undefined);
       patch({ mode: 'parts', parts });
     } catch (error) {
@@ -130,7 +130,7 @@ export function EstimateEditor({ calc, pieceKind, initial, saveLabel, saving = f
     e.preventDefault();
     setSubmitted(true);
     if (!outcome.ok) return;
-    onSave({ input: buildInput(draft, settings), title: draft.title.trim(), note: draft.note.trim() });
+    onSave({ input: buildInput(draft), title: draft.title.trim(), note: draft.note.trim() });
   };
 
   return (
@@ -165,7 +165,7 @@ export function EstimateEditor({ calc, pieceKind, initial, saveLabel, saving = f
               <div className="space-y-4">
                 <p className="text-sm text-walnut-600">
                   Pick a template and type its sizes with their units — <span className="font-medium">190 cm</span>, <span className="font-medium">6 ft 3 in</span>,{' '}
-                  <span className="font-medium">1900 mm</span>. A bare number is in {settings.defaultLengthUnit}. Leave a size empty to use the template's usual one.
+                  <span className="font-medium">1900 mm</span>. A bare number is in {draft.lengthUnit}. Leave a size empty to use the template's usual one.
                 </p>
                 <div className="grid gap-4 sm:grid-cols-2 lg:grid-cols-4">
                   <MiniSelect<TemplateKey>
@@ -183,7 +183,7 @@ export function EstimateEditor({ calc, pieceKind, initial, saveLabel, saving = f
                     <LengthInput
                       key={name}
                       showLabel
-                      unit={settings.defaultLengthUnit}
+                      unit={draft.lengthUnit}
                       label={DIMENSION_LABELS[name] ?? name}
                       value={draft.dimensions[name] ?? ''}
                       placeholder={defaultDimension(draft.template, name, units)}
@@ -219,7 +219,7 @@ export function EstimateEditor({ calc, pieceKind, initial, saveLabel, saving = f
                 parts={draft.parts}
                 onChange={(parts) => patch({ parts })}
                 errors={errors}
-                unit={settings.defaultLengthUnit}
+                unit={draft.lengthUnit}
                 units={units}
                 species={catalog.species}
                 areas={outcome.ok ? outcome.result.parts : draft.parts.map(() => undefined)}

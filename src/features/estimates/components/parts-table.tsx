@@ -56,7 +56,7 @@ function CutOuts({ part, index, onCutOuts, errors, unit }: { part: PartDraft; in
           <Scissors className="mr-1 inline h-3.5 w-3.5" aria-hidden />
           Cut-outs of {part.name} (openings taken off each face)
         </p>
-        <Button size="sm" variant="ghost" onClick={() => onCutOuts([...part.cutOuts, { key: rowKey('cut'), kind: 'rectangle', dims: { length: '', width: '' }, count: '1' }])}>
+        <Button size="sm" variant="ghost" onClick={() => onCutOuts([...part.cutOuts, { key: rowKey('cut'), kind: 'rectangle', dims: { length: '', width: '' }, points: '', count: '1' }])}>
           <Plus className="h-3.5 w-3.5" aria-hidden /> Add cut-out
         </Button>
       </div>
@@ -83,7 +83,24 @@ function CutOuts({ part, index, onCutOuts, errors, unit }: { part: PartDraft; in
               error={messageAt(errors, `piece.parts.${index}.cutOuts.${j}.${f.name}`)}
             />
           ))}
-          {SHAPE_FIELDS[c.kind].length < 2 && <span />}
+          {c.kind === 'polygon' && (
+            <label className="col-span-3 block text-xs text-walnut-700">
+              <span className="sr-only">{`Cut-out ${j + 1} outline points`}</span>
+              <textarea
+                aria-label={`Cut-out ${j + 1} outline points`}
+                rows={3}
+                value={c.points}
+                placeholder={'x, y one pair a line'}
+                onChange={(e) => set(j, { points: e.target.value })}
+                spellCheck={false}
+                className="num block w-full rounded-md border border-walnut-200 bg-white px-2 py-1 font-mono text-xs"
+              />
+              {messageAt(errors, `piece.parts.${index}.cutOuts.${j}.points`, { under: true }) && (
+                <span className="text-brick-700">{messageAt(errors, `piece.parts.${index}.cutOuts.${j}.points`, { under: true })}</span>
+              )}
+            </label>
+          )}
+          {c.kind !== 'polygon' && SHAPE_FIELDS[c.kind].length < 2 && <span />}
           <CellInput label={`Cut-out ${j + 1} count`} value={c.count} onValue={(v) => set(j, { count: v })} suffix="each" inputMode="numeric" error={messageAt(errors, `piece.parts.${index}.cutOuts.${j}.count`)} />
           <Button size="sm" variant="ghost" aria-label={`Remove cut-out ${j + 1}`} onClick={() => onCutOuts(part.cutOuts.filter((_, k) => k !== j))}>
             <Trash2 className="h-3.5 w-3.5" aria-hidden />

@@ -8,7 +8,7 @@ import type { Catalog, Complexity, Stage, AppliesTo } from '@shared/schemas/cata
 import { TEMPLATE_DIMENSIONS, type EstimateInput, type PartInput, type ShapeInput, type ShapeKind, type TemplateKey } from '@shared/schemas/calc';
 import type { Piece, PieceKind } from '@shared/schemas/customers';
 import type { WorkshopSettings } from '@shared/schemas/workshop';
-import { formatLength, type LengthUnit } from '@shared/units';
+import { formatLength, type LengthUnit, type UnitSystem, type VolumeMeasure } from '@shared/units';
 import { todayLocal } from './format';
 
 /** Shapes a part may take, with the lengths each one needs, in the order they are asked for. */
@@ -36,7 +36,7 @@ export const SHAPE_LABELS: Record<ShapeKind, string> = {
   'edge-strip': 'Edge strip',
 };
 
-export const CUT_OUT_KINDS = ['rectangle', 'circle', 'ellipse'] as const;
+export const CUT_OUT_KINDS = ['rectangle', 'circle', 'ellipse', 'polygon'] as const;
 export type CutOutKind = (typeof CUT_OUT_KINDS)[number];
 
 export const TEMPLATE_LABELS: Record<TemplateKey, string> = {
@@ -72,6 +72,8 @@ export interface CutOutDraft {
   key: string;
   kind: CutOutKind;
   dims: Record<string, string>;
+  /** Outline points, one "x, y" pair a line (polygon only). */
+  points: string;
   count: string;
 }
 
@@ -126,6 +128,11 @@ export interface StageDraft {
 export interface EstimateDraft {
   /** template: the piece from a template and its dimensions; parts: the parts table, edited freely. */
   mode: 'template' | 'parts';
+  /** The unit a bare number means: the workshop's default for a new estimate, the revision's own when reopened. */
+  lengthUnit: LengthUnit;
+  /** Display units the estimate is saved with. */
+  units: UnitSystem;
+  imperialVolumes: VolumeMeasure;
   template: TemplateKey;
   dimensions: Record<string, string>;
   species: string;
@@ -158,8 +165,25 @@ export function toNumber(value: string): number {
 
 // ------------------------------------------------------------------------------------------------ parts
 
+/** Polygon points as the editor shows them: one "x, y" pair a line. */
+function pointsText(points: ReadonlyArray<readonly [string | number, string | number]>): string {
+  return points.map(([x, y]) => `${text(x)}, ${text(y)}`).join('\n');
+}
+
+/** Reads the points typed, one "x, y" pair a line. */
+function readPoints(points: string): [string, string][] {
+  return points
+    .split('\n')
+    .map((l) => l.trim())
+    .filter((l) => l !== '')
+    .map((l): [string, string] => {
+      const [x = '', y = ''] = l.split(/[,;\t]/).map((s) => s.trim());
+      return [x, y];
+    });
+}
+
 export function shapeDraft(shape: ShapeInput): ShapeDraft {
-  if (shape.kind === 'polygon') return { kind: 'polygon', dims: {}, points: shape.points.map(([x, y]) => `${text(x)}, ${text(y)}`).join('\n') };
+  if (shape.kind === 'polygon') return { kind: 'polygon', dims: {}, points: pointsText(shape.points) };
   const dims: Record<string, string> = {};
   for (const f of SHAPE_FIELDS[shape.kind]) dims[f.name] = text((shape as Record<string, string | number | undefined>)[f.name]);
   return { kind: shape.kind, dims, points: '' };
@@ -175,13 +199,13 @@ export function partDraft(part: PartInput): PartDraft {
     edges: part.edges ?? false,
     thickness: text(part.thickness),
     count: text(part.count ?? 1),
-    cutOuts: (part.cutOuts ?? [])
-      .filter((c): c is Extract<typeof c, { kind: CutOutKind }> => (CUT_OUT_KINDS as readonly string[]).includes(c.kind))
-      .map((c) => {
-        const dims: Record<string, string> = {};
-        for (const f of SHAPE_FIELDS[c.kind]) dims[f.name] = text((c as Record<string, string | number | undefined>)[f.name]);
-        return { key: rowKey('cut'), kind: c.kind, dims, count: text(c.count ?? 1) };
-      }),
+    // Every cut-out kind the schema knows is kept, outlines (polygons) included.
+    cutOuts: (part.cutOuts ?? []).map((c) => {
+      if (c.kind === 'polygon') return { key: rowKey('cut'), kind: 'polygon', dims: {}, points: pointsText(c.points), count: text(c.count ?? 1) };
+      const dims: Record<string, string> = {};
+      for (const f of SHAPE_FIELDS[c.kind]) dims[f.name] = text((c as Record<string, string | number | undefined>)[f.name]);
+      return { key: rowKey('cut'), kind: c.kind, dims, points: '', count: text(c.count ?? 1) };
+    }),
     species: part.species ?? '',
     veneered: part.veneered ?? false,
     complexity: part.complexity ?? 'flat',
@@ -215,17 +239,7 @@ export function setShapeKind(shape: ShapeDraft, kind: ShapeKind): ShapeDraft {
 }
 
 function buildShape(shape: ShapeDraft): ShapeInput {
-  if (shape.kind === 'polygon') {
-    const points = shape.points
-      .split('\n')
-      .map((l) => l.trim())
-      .filter((l) => l !== '')
-      .map((l): [string, string] => {
-        const [x = '', y = ''] = l.split(/[,;\t]/).map((s) => s.trim());
-        return [x, y];
-      });
-    return { kind: 'polygon', points };
-  }
+  if (shape.kind === 'polygon') return { kind: 'polygon', points: readPoints(shape.points) };
   const out: Record<string, string> = {};
   for (const f of SHAPE_FIELDS[shape.kind]) out[f.name] = shape.dims[f.name] ?? '';
   return { kind: shape.kind, ...out } as ShapeInput;
@@ -241,6 +255,7 @@ export function buildPart(p: PartDraft): PartInput {
     ...(p.edges && p.thickness.trim() !== '' ? { thickness: p.thickness } : {}),
     count: toNumber(p.count),
     cutOuts: p.cutOuts.map((c) => {
+      if (c.kind === 'polygon') return { kind: 'polygon', points: readPoints(c.points), count: toNumber(c.count) };
       const out: Record<string, string> = {};
       for (const f of SHAPE_FIELDS[c.kind]) out[f.name] = c.dims[f.name] ?? '';
       return { kind: c.kind, ...out, count: toNumber(c.count) } as NonNullable<PartInput['cutOuts']>[number];
@@ -273,8 +288,11 @@ export function systemStages(catalog: Catalog, systemKey: string): StageDraft[] 
 
 // ------------------------------------------------------------------------------------------------ input
 
-/** The engine input for a draft, in the workshop's units. */
-export function buildInput(d: EstimateDraft, settings: Pick<WorkshopSettings, 'units' | 'defaultLengthUnit'>): EstimateInput {
+/**
+ * The engine input for a draft. Bare numbers mean the draft's own length unit (the revision's when it was reopened),
+ * whatever the workshop's default is now: input → draft → input is the identity.
+ */
+export function buildInput(d: EstimateDraft): EstimateInput {
   const dimensions: Record<string, string> = {};
   for (const name of TEMPLATE_DIMENSIONS[d.template]) {
     const v = (d.dimensions[name] ?? '').trim();
@@ -290,8 +308,9 @@ export function buildInput(d: EstimateDraft, settings: Pick<WorkshopSettings, 'u
     climate: { temperatureC: toNumber(d.temperatureC), humidityPct: toNumber(d.humidityPct) },
     ...(d.startDate.trim() !== '' ? { startDate: d.startDate.trim() } : {}),
     discountPct: d.discountPct.trim() === '' ? 0 : toNumber(d.discountPct),
-    units: settings.units,
-    defaultLengthUnit: settings.defaultLengthUnit,
+    units: d.units,
+    imperialVolumes: d.imperialVolumes,
+    defaultLengthUnit: d.lengthUnit,
   };
 }
 
@@ -313,6 +332,9 @@ export function newDraft(piece: Pick<Piece, 'kind' | 'dimensions' | 'description
   for (const name of TEMPLATE_DIMENSIONS[template]) dims[name] = piece.dimensions[name] ?? '';
   return {
     mode: 'template',
+    lengthUnit: settings.defaultLengthUnit,
+    units: settings.units,
+    imperialVolumes: settings.imperialVolumes ?? 'us',
     template,
     dimensions: dims,
     species: TEMPLATE_WOOD[template].species,
@@ -339,6 +361,10 @@ export function draftFromInput(input: EstimateInput, catalog: Catalog, settings:
   const system = input.system ?? 'full-repolish';
   return {
     mode: piece?.template ? 'template' : 'parts',
+    // The revision's own units: a bare "75" saved in inches stays 75 in after the workshop moves to millimetres.
+    lengthUnit: input.defaultLengthUnit ?? 'mm',
+    units: input.units ?? settings.units,
+    imperialVolumes: input.imperialVolumes ?? settings.imperialVolumes ?? 'us',
     template,
     dimensions: dims,
     species: piece?.species ?? TEMPLATE_WOOD[template].species,
