@@ -13,10 +13,14 @@ import type { LengthInput, Part, ShapeInput, TemplateKey } from '../schemas/calc
 import { polygonPerimeter } from './area';
 import type { Point } from './area';
 
-/** Default dimensions per template, mm. Grand: width about 5 ft (Blue Book of Pianos), rim about 33 cm (from memory). */
+/**
+ * Default dimensions per template, mm. Grand: 6 ft 3 in, a medium grand (Piano Buyer), width about 5 ft (Blue Book of
+ * Pianos), rim about 33 cm (from memory). Upright: 1300 mm (51 in), a full upright, which the Blue Book of Pianos puts
+ * over 50 in; width about 5 ft, depth 2 ft (Blue Book of Pianos).
+ */
 export const TEMPLATE_DEFAULTS: Readonly<Record<TemplateKey, Readonly<Record<string, number>>>> = {
   grand: { length: 1905, width: 1500, rimHeight: 330 },
-  upright: { height: 1250, width: 1500, depth: 620 },
+  upright: { height: 1300, width: 1500, depth: 620 },
   square: { length: 1700, width: 780, height: 880 },
   table: { length: 1500, width: 900, height: 750 },
   cabinet: { height: 1000, width: 900, depth: 450 },

@@ -4,9 +4,14 @@ import { estimate } from '../../shared/calc';
 import { DEMO_CATALOG } from '../fixtures/catalog';
 
 describe('template defaults against piano sizes', () => {
-  it('a 6 ft 3 in grand is a medium grand, 5 ft 6 in to 6 ft 6 in (Piano Buyer "Piano Parts and Sizes")', () => {
-    expect(1905).toBeGreaterThanOrEqual((5 * 12 + 6) * 25.4);
-    expect(1905).toBeLessThanOrEqual((6 * 12 + 6) * 25.4);
+  it('the default grand is a medium grand, 5 ft 6 in to 6 ft 6 in (Piano Buyer "Piano Parts and Sizes")', () => {
+    expect(TEMPLATE_DEFAULTS.grand.length).toBeGreaterThanOrEqual((5 * 12 + 6) * 25.4);
+    expect(TEMPLATE_DEFAULTS.grand.length).toBeLessThanOrEqual((6 * 12 + 6) * 25.4);
+  });
+
+  it('a concert grand of about 9 ft (274 cm) is over 7 ft 6 in (Piano Buyer; Wikipedia "Grand piano")', () => {
+    expect((9 * 12) * 25.4).toBeGreaterThan((7 * 12 + 6) * 25.4);
+    expect(Math.abs(9 * 12 * 25.4 - 2740)).toBeLessThan(10);
   });
 
   it('grand width about 5 ft (Blue Book of Pianos) and rim 30–36 cm (from memory)', () => {
@@ -15,11 +20,15 @@ describe('template defaults against piano sizes', () => {
     expect(TEMPLATE_DEFAULTS.grand.rimHeight).toBeLessThanOrEqual(360);
   });
 
-  it('upright: width about 5 ft, depth 2–2.5 ft, a full upright over 50 in high (Blue Book of Pianos)', () => {
+  it('upright: width about 5 ft, depth 2–2.5 ft (Blue Book of Pianos)', () => {
     expect(Math.abs(TEMPLATE_DEFAULTS.upright.width as number - 60 * 25.4) / (60 * 25.4)).toBeLessThan(0.05);
     expect(TEMPLATE_DEFAULTS.upright.depth).toBeGreaterThanOrEqual(24 * 25.4);
     expect(TEMPLATE_DEFAULTS.upright.depth).toBeLessThanOrEqual(30 * 25.4);
-    expect(TEMPLATE_DEFAULTS.upright.height).toBeGreaterThan(45 * 25.4);
+  });
+
+  it('the default upright is a full upright, over 50 in high (Blue Book of Pianos); a studio is 44–45 in', () => {
+    expect(TEMPLATE_DEFAULTS.upright.height).toBeGreaterThan(50 * 25.4);
+    expect(TEMPLATE_DEFAULTS.upright.height).toBeLessThan(60 * 25.4);
   });
 });
 

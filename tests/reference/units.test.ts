@@ -1,6 +1,6 @@
 import { describe, expect, it } from 'vitest';
 import { unit } from 'mathjs';
-import { parseLength, toMillimetres } from '../../shared/units';
+import { formatVolume, parseLength, toMillimetres } from '../../shared/units';
 import { cutToGramsPerLitre, GRAMS_PER_LB, LITRES_PER_UK_GALLON, LITRES_PER_US_GALLON } from '../../shared/calc/shellac';
 
 describe('unit definitions', () => {
@@ -24,8 +24,19 @@ describe('unit definitions', () => {
     expect(LITRES_PER_US_GALLON).toBeCloseTo((231 * 2.54 ** 3) / 1000, 12);
   });
 
-  it('1 UK gallon = 4.54609 L exactly (UK Weights and Measures Act 1985, Schedule 1)', () => {
-    expect(LITRES_PER_UK_GALLON).toBe(4.54609);
+  it('1 UK gallon = 4.54609 L (UK Weights and Measures Act 1985, Schedule 1): about 1.20095 US gallons', () => {
+    // Independently: 4.54609 L over the US gallon from the inch (231 × 2.54³ cm³).
+    expect(LITRES_PER_UK_GALLON / ((231 * 2.54 ** 3) / 1000)).toBeCloseTo(1.20095, 5);
+  });
+
+  it('an imperial pint is an eighth of the UK gallon, 568.26 mL, and 20 imperial fl oz (Weights and Measures Act 1985)', () => {
+    expect(formatVolume(0.56826125, 'imperial', 'uk')).toBe('1.00 imperial pints');
+    expect(formatVolume(0.56826125 / 20, 'imperial', 'uk')).toBe('1.00 imperial fl oz');
+  });
+
+  it('a US pint is 473.18 mL, 16 US fl oz (NIST Handbook 44, Appendix C)', () => {
+    expect(formatVolume(0.4732, 'imperial', 'us')).toBe('1.00 US pints');
+    expect(formatVolume(0.473176473 / 16, 'imperial')).toBe('1.00 US fl oz');
   });
 });
 
@@ -37,6 +48,19 @@ describe('6 ft 3 in = 1905 mm, every spelling (arithmetic from the inch definiti
       expect(parseLength(text)).toBe(expected);
     },
   );
+
+  it.each(['6 ft 3½ in', '6 ft 3 1/2 in', '75 1/2 in', '6\' 3-1/2"', '75.5 in', '6′ 3½″'])(
+    'reads %s as 75.5 in = 1917.7 mm (arithmetic from the inch definition: 75.5 × 25.4)',
+    (text) => {
+      expect(parseLength(text)).toBeCloseTo(75.5 * 25.4, 9);
+    },
+  );
+
+  it('refuses "6 ft, 3 in" with a message about the comma between feet and inches, not about decimals', () => {
+    expect(() => parseLength('6 ft, 3 in')).toThrow(/without a comma between them/);
+    expect(() => parseLength('6 ft, 3 in')).not.toThrow(/decimals/);
+    expect(() => parseLength('75,5 in')).toThrow(/a point, not a comma, for decimals/);
+  });
 
   it('reads the other spellings of the brief', () => {
     expect(parseLength('190 cm')).toBe(1900);
