@@ -55,6 +55,9 @@ describe('POST /api/calc/preview', () => {
     ['an unknown template', { piece: { template: 'harpsichord', dimensions: {} } }, 'piece.template'],
     ['gibberish units', { piece: { template: 'grand', dimensions: { length: 'six furlongs' } } }, 'piece.dimensions.length'],
     ['a body that is not an object', [1, 2, 3], '(body)'],
+    ['a template grown past the part limits (a lid edge over 100 m)', { piece: { template: 'grand', dimensions: { length: '90 m', width: '40 m' } } }, 'piece.dimensions.length'],
+    ['parts too large for the calendar to place', { parts: [{ name: 'Floor', shape: { kind: 'rectangle', length: '100 m', width: '100 m' }, count: 1000 }] }, 'parts'],
+    ['a comma between feet and inches', { piece: { template: 'grand', dimensions: { length: '6 ft, 3 in' } } }, 'piece.dimensions.length'],
   ];
   for (const [what, body, field] of bad) {
     it(`answers 400 naming the field for ${what}`, async () => {
@@ -65,6 +68,22 @@ describe('POST /api/calc/preview', () => {
       expect(problem.detail).toContain(field);
     });
   }
+
+  it('reads imperial lengths with fractions as workshops write them: 6\' 3-1/2" is 75.5 in', async () => {
+    const a = await preview({ piece: { template: 'grand', dimensions: { length: '6\' 3-1/2"' } }, system: 'full-repolish' });
+    const b = await preview({ piece: { template: 'grand', dimensions: { length: '1917.7 mm' } }, system: 'full-repolish' });
+    expect(a.status).toBe(200);
+    expect(a.body.totals.areaM2).toBe(b.body.totals.areaM2);
+    expect(JSON.parse(a.text).detail ?? '').not.toMatch(/decimals/);
+    const comma = await preview({ piece: { template: 'grand', dimensions: { length: '6 ft, 3 in' } } });
+    expect(JSON.parse(comma.text).detail).toMatch(/without a comma/);
+  });
+
+  it('flags implausible input instead of pricing it silently: a grand 5 mm long', async () => {
+    const res = await preview({ piece: { template: 'grand', dimensions: { length: '5 mm' } }, system: 'full-repolish' });
+    expect(res.status).toBe(200);
+    expect(res.body.warnings.map((w: { code: string }) => w.code)).toContain('implausible-size');
+  });
 
   it('answers 400 for 10 000 parts, never a 500', async () => {
     const parts = Array.from({ length: 10_000 }, (_, i) => ({ name: `p${i}`, shape: { kind: 'rectangle', length: 100, width: 100 } }));

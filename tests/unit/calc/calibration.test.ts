@@ -1,5 +1,5 @@
 /**
- * Calibration of the preset systems against common practice (DESIGN.md; REFERENCES.md "common practice"):
+ * Calibration of the preset systems against common practice (docs/references.md, [PRACTICE]):
  * a full repolish of a grand about 190 cm (6 ft 3 in) long is about 30 coats and about 70 hours of work.
  */
 import { describe, expect, it } from 'vitest';
