@@ -243,7 +243,8 @@ describe('booking', () => {
       const next = job.sessions[1]!;
       expect(next.start! > second.start!).toBe(true);
       expect(next.start! >= job.sessions[0]!.restUntil!).toBe(true);
-      expect(job.roomEnd! > waiting.roomEnd!).toBe(true);
+      // A slip never ends the job sooner; a later rest or a weekend may absorb it (the calendar is monotonic).
+      expect(job.roomEnd! >= waiting.roomEnd!).toBe(true);
       // The plan as first booked is kept for planned against actual.
       expect(next.baselineStart).toBe(second.start);
       const stage = job.stages.find((s) => s.stage === first.stage)!;
