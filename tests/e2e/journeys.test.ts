@@ -95,10 +95,10 @@ describe('one job through the whole workshop, in a real browser', () => {
     await page.getByRole('link', { name: 'Full repolish', exact: false }).first().click();
     await page.getByRole('heading', { level: 2, name: 'Stages, in order' }).waitFor();
     const bodying = page.getByRole('listitem').filter({ has: page.getByRole('button', { name: 'Bodying with the rubber', exact: true }) });
-    await expect.poll(() => bodying.textContent()).toMatch(/7 sessions × 3 coats · 1\.5 lb cut · rest 24 h/);
+    await expect.poll(() => bodying.textContent()).toMatch(/7 sessions × 3 coats · 1\.5 lb cut · rest 12 h/);
     await bodying.getByRole('button', { name: 'Bodying with the rubber', exact: true }).click();
     const rest = bodying.getByLabel('Rest after each session (h at 20 °C)');
-    expect(await rest.inputValue()).toBe('24');
+    expect(await rest.inputValue()).toBe('12');
     await rest.fill(NEW_BODY_REST);
     await expect.poll(() => bodying.textContent()).toMatch(new RegExp(`rest ${NEW_BODY_REST} h`));
     await page.getByRole('button', { name: 'Save system' }).click();
