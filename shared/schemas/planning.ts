@@ -41,6 +41,9 @@ export const STAGE_KIND_LABELS: Record<StageKind, string> = {
   wax: 'Waxing',
 };
 
+/** A job's session kinds: the finishing stages, and extra work the customer took with the quote. */
+export type JobStageKind = StageKind | 'extra';
+
 /** Who may make, book, move and cancel jobs, and manage polishers. */
 export const PLANNERS = ['owner', 'workshop'] as const;
 /** Who may mark sessions done with their actual hours. */
@@ -164,7 +167,7 @@ export interface JobSessionDto {
   id: number;
   index: number;
   stage: string;
-  stageKind: StageKind;
+  stageKind: JobStageKind;
   stageName: string;
   /** Session number within its stage, and how many the stage has. */
   session: number;
@@ -218,7 +221,7 @@ export interface OverbookingDto {
 
 export interface StagePlanVsActual {
   stage: string;
-  stageKind: StageKind;
+  stageKind: JobStageKind;
   name: string;
   sessions: number;
   sessionsDone: number;
@@ -297,7 +300,7 @@ export interface BoardSession {
   index: number;
   label: string;
   stageName: string;
-  stageKind: StageKind;
+  stageKind: JobStageKind;
   start: string;
   end: string;
   restUntil: string;
