@@ -25,8 +25,11 @@ export function escapeHtml(s: string): string {
   return s.replace(/[&<>"']/g, (c) => ({ '&': '&amp;', '<': '&lt;', '>': '&gt;', '"': '&quot;', "'": '&#39;' })[c]!);
 }
 
-const GREETING = /^\s*(dear|hello|hi|hey|good (morning|afternoon|evening)|greetings)\b[^\n]{0,80}[,:!]?\s*$/i;
-const SIGN_OFF = /^\s*(kind(est)? regards|best regards|warm regards|regards|best wishes|with best wishes|many thanks|thanks|thank you|yours (sincerely|faithfully|truly)|sincerely|all the best|cheers)\b[^\n]{0,40}[,.!]?\s*$/i;
+/** A greeting line: the word and a name of a few words, nothing after ("Dear Mrs Quill,", "Hello!"). */
+const GREETING = /^\s*(dear|hello|hi|hey|good (morning|afternoon|evening)|greetings)(\s+[\w.'’-]+){0,4}\s*[,:!]?\s*$/i;
+const PHRASE = '(kind(est)? regards|best regards|warm regards|regards|best wishes|with best wishes|many thanks|with thanks|thanks|thank you|yours (sincerely|faithfully|truly)|sincerely|all the best|cheers)';
+/** A sign-off line: the phrase alone ("Kind regards,"), or with a few words and a comma ("With thanks from us all,"). */
+const SIGN_OFF = new RegExp(`^\\s*(${PHRASE}\\s*[,.!]?|${PHRASE}(\\s+[\\w'’]+){1,4},)\\s*$`, 'i');
 
 /**
  * The covering message without a greeting on its first line or a sign-off (and the name lines under it) at its end.
@@ -37,9 +40,10 @@ export function coveringMessage(message: string): string {
   const lines = message.replace(/\r\n?/g, '\n').split('\n');
   while (lines.length && lines[0]!.trim() === '') lines.shift();
   if (lines.length && GREETING.test(lines[0]!)) lines.shift();
-  // A sign-off within the last four lines ends the message: it and the name lines after it go.
-  for (let i = Math.max(0, lines.length - 4); i < lines.length; i++) {
-    if (SIGN_OFF.test(lines[i]!)) {
+  // The last sign-off within the last four lines ends the message: it and the name lines under it go. A line with
+  // nothing written before it is the message itself, not a sign-off.
+  for (let i = lines.length - 1; i >= Math.max(0, lines.length - 4); i--) {
+    if (SIGN_OFF.test(lines[i]!) && lines.slice(0, i).some((l) => l.trim() !== '')) {
       lines.splice(i);
       break;
     }
