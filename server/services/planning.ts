@@ -193,6 +193,10 @@ export async function getJob(id: number, transaction?: Transaction): Promise<Job
     startMode: job.startMode,
     stages: stagesDto(sessions),
     sessions: sessions.map((s) => sessionDto(s, polishers, users)),
+    agreed: await Quote.findByPk(job.quoteId, { transaction }).then((q) => {
+      const agreed = q ? agreedOf(q) : null;
+      return agreed && q ? { ...agreed, currency: q.currency } : null;
+    }),
   };
 }
 

@@ -5,6 +5,7 @@
  * Times on the board are local and carry no time zone ("2026-12-07T08:00"), as in the coat calendar.
  */
 import { z } from 'zod';
+import type { AgreedFigures } from './quotes';
 import type { DayOccupancy, PolisherOverbooking, RoomOverbooking, WhyNot } from '../calc/planning/types';
 import type { PackCount } from '../calc/packs';
 import type { StageKind } from './catalog';
@@ -247,6 +248,8 @@ export interface JobDetail extends JobSummary {
   startMode: 'earliest' | 'date' | null;
   stages: StagePlanVsActual[];
   sessions: JobSessionDto[];
+  /** What the customer agreed to in the quote: the total with the extras taken, the deposit and the balance due. */
+  agreed: (AgreedFigures & { currency: string }) | null;
 }
 
 export interface PlannedSessionDto {
