@@ -456,5 +456,8 @@ describe('private figures stay private; promises the workshop can keep; the e-ma
     expect(after.body.schedule).toMatchObject({ booked: true, start: booked.body.roomStart.slice(0, 10), ready: booked.body.roomEnd.slice(0, 10) });
     const pdfAfter = pdfText((await binary(request(app).get(pub(q.token, '/pdf'))).expect(200)).body as Buffer);
     expect(pdfAfter).toMatch(/The work is booked: we start on/);
+    // Leave the shared board as it was for the other test files: the booking is cancelled.
+    await post(workshop, `/api/jobs/${job.body.id}/cancel`, {}).expect(200);
+    expect((await request(app).get(pub(q.token)).expect(200)).body.schedule.booked).toBe(false);
   });
 });
