@@ -1,7 +1,8 @@
 /**
  * A local stand-in for the payment provider, for `npm start` and the tests. It answers the provider's official SDK
  * (checkout sessions, form-encoded POSTs under /v1), shows a checkout page of its own where the customer can pay or
- * cancel, and sends webhooks signed with the SDK's own signing helper back to the app.
+ * go back without paying, expires checkouts (on request or when their time runs out), refunds payments, and sends
+ * webhooks signed with the SDK's own signing helper back to the app.
  */
 import { randomBytes } from 'node:crypto';
 import http from 'node:http';
@@ -25,14 +26,33 @@ export interface FakeSession {
   description: string;
   url: string;
   created: number;
+  expires_at: number;
+  payment_intent: string | null;
+}
+
+export interface FakeRefund {
+  id: string;
+  object: 'refund';
+  amount: number;
+  currency: string;
+  payment_intent: string;
+  status: 'succeeded';
+  metadata: Record<string, string>;
+  created: number;
 }
 
 export interface PaymentProvider {
   url: string;
   port: number;
   sessions: Map<string, FakeSession>;
-  /** Pays a session as the customer would (used by tests that skip the browser). */
-  pay(id: string): Promise<void>;
+  refunds: Map<string, FakeRefund>;
+  /**
+   * Pays a session as the customer would (used by tests that skip the browser). `amount` makes the provider report
+   * another amount taken; `force` pays a session that is no longer open (a late capture).
+   */
+  pay(id: string, opts?: { amount?: number; force?: boolean }): Promise<void>;
+  /** Expires an open session as the provider does when its time runs out, with the webhook. */
+  expire(id: string): Promise<void>;
   stop(): Promise<void>;
 }
 
@@ -54,6 +74,7 @@ const escape = (s: string) => s.replace(/[&<>"']/g, (c) => `&#${c.charCodeAt(0)}
 
 export async function startPaymentProvider(opts: { port?: number; webhookUrl: string; webhookSecret: string; apiKey: string }): Promise<PaymentProvider> {
   const sessions = new Map<string, FakeSession>();
+  const refunds = new Map<string, FakeRefund>();
   const signer = new Stripe(opts.apiKey);
   const app = express();
   app.use(express.urlencoded({ extended: false }));
@@ -76,6 +97,12 @@ export async function startPaymentProvider(opts: { port?: number; webhookUrl: st
       res.status(400).json({ error: { type: 'invalid_request_error', message: 'line_items[0][price_data][unit_amount] must be a positive integer' } });
       return;
     }
+    const now = Math.floor(Date.now() / 1000);
+    const expiresAt = body.expires_at === undefined ? now + 24 * 3600 : Number(body.expires_at);
+    if (!Number.isInteger(expiresAt) || expiresAt < now + 30 * 60 - 60 || expiresAt > now + 24 * 3600 + 60) {
+      res.status(400).json({ error: { type: 'invalid_request_error', message: 'expires_at must be between 30 minutes and 24 hours from now', param: 'expires_at' } });
+      return;
+    }
     const id = `cs_test_${randomBytes(12).toString('hex')}`;
     const session: FakeSession = {
       id,
@@ -92,15 +119,66 @@ export async function startPaymentProvider(opts: { port?: number; webhookUrl: st
       customer_email: (body.customer_email as string) ?? null,
       description: String(((priceData.product_data as Record<string, unknown>) ?? {}).name ?? 'Payment'),
       url: `${base}/checkout/${id}`,
-      created: Math.floor(Date.now() / 1000),
+      created: now,
+      expires_at: expiresAt,
+      payment_intent: null,
     };
     sessions.set(id, session);
     res.json(session);
   });
+  /** A session whose time has run out is expired when next looked at, as the provider does on its own clock. */
+  function current(id: string): FakeSession | undefined {
+    const s = sessions.get(id);
+    if (s && s.status === 'open' && s.expires_at * 1000 <= Date.now()) {
+      s.status = 'expired';
+      void sendWebhook('checkout.session.expired', s).catch(() => undefined);
+    }
+    return s;
+  }
+
   app.get('/v1/checkout/sessions/:id', authorised, (req, res) => {
-    const session = sessions.get(String(req.params.id));
+    const session = current(String(req.params.id));
     if (!session) return void res.status(404).json({ error: { type: 'invalid_request_error', message: 'No such checkout.session' } });
     res.json(session);
+  });
+  app.post('/v1/checkout/sessions/:id/expire', authorised, (req, res) => {
+    const session = current(String(req.params.id));
+    if (!session) return void res.status(404).json({ error: { type: 'invalid_request_error', message: 'No such checkout.session' } });
+    if (session.status !== 'open') {
+      res.status(400).json({ error: { type: 'invalid_request_error', message: `Only Checkout Sessions with a status in ["open"] can be expired; this one is ${session.status}.` } });
+      return;
+    }
+    session.status = 'expired';
+    res.json(session);
+    // The provider's event follows the answer, as a real one arrives on its own.
+    void sendWebhook('checkout.session.expired', session).catch(() => undefined);
+  });
+  app.post('/v1/refunds', authorised, (req, res) => {
+    const body = nested(req.body as Record<string, string>);
+    const intent = String(body.payment_intent ?? '');
+    const session = [...sessions.values()].find((s) => s.payment_intent === intent && s.payment_status === 'paid');
+    if (!session) return void res.status(404).json({ error: { type: 'invalid_request_error', message: `No such payment_intent: '${intent}'`, param: 'payment_intent' } });
+    const already = [...refunds.values()].filter((r) => r.payment_intent === intent).reduce((t, r) => t + r.amount, 0);
+    const amount = body.amount === undefined ? session.amount_total - already : Number(body.amount);
+    if (!Number.isInteger(amount) || amount <= 0 || amount + already > session.amount_total) {
+      res.status(400).json({ error: { type: 'invalid_request_error', message: 'Refund amount is greater than the unrefunded amount of the charge', param: 'amount' } });
+      return;
+    }
+    const idempotency = String(req.headers['idempotency-key'] ?? '');
+    const repeat = idempotency ? [...refunds.values()].find((r) => r.metadata.__idempotency === idempotency) : undefined;
+    if (repeat) return void res.json(repeat);
+    const refund: FakeRefund = {
+      id: `re_test_${randomBytes(12).toString('hex')}`,
+      object: 'refund',
+      amount,
+      currency: session.currency,
+      payment_intent: intent,
+      status: 'succeeded',
+      metadata: { ...((body.metadata as Record<string, string>) ?? {}), ...(idempotency ? { __idempotency: idempotency } : {}) },
+      created: Math.floor(Date.now() / 1000),
+    };
+    refunds.set(refund.id, refund);
+    res.json(refund);
   });
 
   async function sendWebhook(type: string, session: FakeSession): Promise<void> {
@@ -117,16 +195,27 @@ export async function startPaymentProvider(opts: { port?: number; webhookUrl: st
     if (!res.ok) throw new Error(`webhook ${type} answered ${res.status}`);
   }
 
-  async function pay(id: string): Promise<void> {
-    const session = sessions.get(id);
+  async function pay(id: string, o: { amount?: number; force?: boolean } = {}): Promise<void> {
+    const session = current(id);
     if (!session) throw new Error(`no session ${id}`);
+    if (session.status !== 'open' && !o.force) throw new Error(`session ${id} is ${session.status}`);
     session.status = 'complete';
     session.payment_status = 'paid';
+    session.payment_intent = `pi_test_${randomBytes(12).toString('hex')}`;
+    if (o.amount !== undefined) session.amount_total = o.amount;
     await sendWebhook('checkout.session.completed', session);
   }
 
+  async function expire(id: string): Promise<void> {
+    const session = sessions.get(id);
+    if (!session) throw new Error(`no session ${id}`);
+    if (session.status !== 'open') throw new Error(`session ${id} is ${session.status}`);
+    session.status = 'expired';
+    await sendWebhook('checkout.session.expired', session);
+  }
+
   app.get('/checkout/:id', (req, res) => {
-    const s = sessions.get(String(req.params.id));
+    const s = current(String(req.params.id));
     if (!s) return void res.status(404).send('No such payment');
     const amount = new Intl.NumberFormat('en-GB', { style: 'currency', currency: s.currency.toUpperCase() }).format(s.amount_total / 100);
     res.type('html').send(`<!doctype html><html lang="en"><head><meta charset="utf-8"><title>Card payment</title><link rel="icon" href="data:,">
@@ -141,7 +230,7 @@ ${s.status === 'open' ? `<form method="post" action="/checkout/${s.id}/pay" styl
 <p class="note">A stand-in for the payment provider on this machine: no card is charged.</p></main></body></html>`);
   });
   app.post('/checkout/:id/pay', async (req, res) => {
-    const s = sessions.get(String(req.params.id));
+    const s = current(String(req.params.id));
     if (!s || s.status !== 'open') return void res.status(409).send('This payment is no longer open');
     try {
       await pay(s.id);
@@ -151,10 +240,10 @@ ${s.status === 'open' ? `<form method="post" action="/checkout/${s.id}/pay" styl
     }
     res.redirect(303, s.success_url.replace('{CHECKOUT_SESSION_ID}', s.id));
   });
+  // Going back without paying leaves the session open, as the provider does: the shop closes it (expire) if it wants.
   app.post('/checkout/:id/cancel', (req, res) => {
     const s = sessions.get(String(req.params.id));
     if (!s) return void res.status(404).send('No such payment');
-    if (s.status === 'open') s.status = 'expired';
     res.redirect(303, s.cancel_url);
   });
 
@@ -169,7 +258,9 @@ ${s.status === 'open' ? `<form method="post" action="/checkout/${s.id}/pay" styl
     url: base,
     port,
     sessions,
+    refunds,
     pay,
+    expire,
     stop: async () => {
       server.closeAllConnections();
       await new Promise<void>((resolve) => server.close(() => resolve()));

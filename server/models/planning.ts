@@ -8,8 +8,7 @@ import {
   type Sequelize,
 } from 'sequelize';
 import type { WhyNot } from '@shared/calc/planning';
-import type { StageKind } from '@shared/schemas/catalog';
-import type { JobState, OverbookingDto } from '@shared/schemas/planning';
+import type { JobStageKind, JobState, OverbookingDto } from '@shared/schemas/planning';
 
 const stamps = { createdAt: DataTypes.DATE, updatedAt: DataTypes.DATE };
 
@@ -42,7 +41,7 @@ export class Polisher extends Model<InferAttributes<Polisher>, InferCreationAttr
 /** A stage as quoted: hours and materials (flakes and spirit folded in under their material keys). */
 export interface JobStage {
   key: string;
-  kind: StageKind;
+  kind: JobStageKind;
   name: string;
   sessions: number;
   labourHours: number;
@@ -116,7 +115,7 @@ export class JobSession extends Model<InferAttributes<JobSession>, InferCreation
   declare jobId: number;
   declare idx: number;
   declare stage: string;
-  declare stageKind: StageKind;
+  declare stageKind: JobStageKind;
   declare stageName: string;
   declare session: number;
   declare ofSessions: number;

@@ -8,7 +8,7 @@ import {
   type NonAttribute,
   type Sequelize,
 } from 'sequelize';
-import type { QuoteExtra, QuotePricing, QuoteState } from '@shared/schemas/quotes';
+import type { PaymentFlag, PaymentStatus, QuoteExtra, QuotePricing, QuoteState } from '@shared/schemas/quotes';
 import type { Estimate } from './estimates';
 
 export class Quote extends Model<InferAttributes<Quote>, InferCreationAttributes<Quote>> {
@@ -93,7 +93,7 @@ export class OutboxMessage extends Model<InferAttributes<OutboxMessage>, InferCr
   declare htmlBody: string;
   declare attachmentName: string | null;
   declare attachment: Buffer | null;
-  declare status: CreationOptional<'queued' | 'sent' | 'failed'>;
+  declare status: CreationOptional<'queued' | 'sending' | 'sent' | 'failed'>;
   declare attempts: CreationOptional<number>;
   declare lastError: string | null;
   declare messageId: string | null;
@@ -131,9 +131,18 @@ export class Payment extends Model<InferAttributes<Payment>, InferCreationAttrib
   declare providerSessionId: string;
   declare amountMinor: number | string;
   declare currency: string;
-  declare status: CreationOptional<'pending' | 'paid' | 'cancelled'>;
+  declare status: CreationOptional<PaymentStatus>;
   declare createdAt: CreationOptional<Date>;
   declare paidAt: Date | null;
+  declare checkoutUrl: string | null;
+  declare expiresAt: Date | null;
+  declare paymentIntent: CreationOptional<string | null>;
+  declare amountReceivedMinor: CreationOptional<number | string | null>;
+  declare flag: CreationOptional<PaymentFlag | null>;
+  declare note: CreationOptional<string | null>;
+  declare refundId: CreationOptional<string | null>;
+  declare refundedAt: CreationOptional<Date | null>;
+  declare closedAt: CreationOptional<Date | null>;
 
   static initModel(sequelize: Sequelize): void {
     Payment.init(
@@ -145,6 +154,15 @@ export class Payment extends Model<InferAttributes<Payment>, InferCreationAttrib
         status: { type: DataTypes.STRING(12), allowNull: false, defaultValue: 'pending' },
         createdAt: DataTypes.DATE,
         paidAt: { type: DataTypes.DATE, allowNull: true },
+        checkoutUrl: { type: DataTypes.TEXT, allowNull: true },
+        expiresAt: { type: DataTypes.DATE, allowNull: true },
+        paymentIntent: { type: DataTypes.STRING(120), allowNull: true },
+        amountReceivedMinor: { type: DataTypes.BIGINT, allowNull: true },
+        flag: { type: DataTypes.STRING(24), allowNull: true },
+        note: { type: DataTypes.TEXT, allowNull: true },
+        refundId: { type: DataTypes.STRING(120), allowNull: true },
+        refundedAt: { type: DataTypes.DATE, allowNull: true },
+        closedAt: { type: DataTypes.DATE, allowNull: true },
       },
       { sequelize, tableName: 'payments', underscored: true, updatedAt: false },
     );

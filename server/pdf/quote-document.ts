@@ -38,18 +38,22 @@ export interface QuoteDocument {
     totalCoats: number;
     labourHours: number;
     calendarDays: number;
-    /** First session and the day the piece is ready, when known. */
+    /** First session and the day the piece is ready: only once the job is booked (datesBooked), never promised before. */
     startDate: string | null;
     readyDate: string | null;
-    stages: { name: string; sessions: number; coats: number; hours: number; restText: string }[];
+    datesBooked: boolean;
+    /** Coats is null for a stage that lays no coat; hours are rounded for reading. */
+    stages: { name: string; sessions: number; coats: number | null; hours: number; restText: string }[];
   };
   price: {
-    /** The customer-readable breakdown (materials, labour, overhead, margin, discount, tax, rounding). */
+    /** The customer's breakdown (materials, the work, discount, tax, rounding): never the rate, overhead or margin. */
     lines: { label: string; amount: string }[];
     total: string;
     depositPct: number;
     deposit: string;
     balance: string;
+    /** Once accepted: the extras taken and the agreed total (deposit and balance above are then on it). */
+    agreed: { extras: { label: string; price: string }[]; total: string } | null;
   };
   /** Optional extra work the customer may accept or not, priced separately (not in the total above). */
   extras: { label: string; description: string; hours: number; price: string }[];

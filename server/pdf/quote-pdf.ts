@@ -253,7 +253,7 @@ function drawWork(flow: Flow, q: QuoteDocument): void {
       { text: `${i + 1}.`, style: { ...STYLE.cell, color: INK.muted } },
       { text: s.name, style: STYLE.cellStrong },
       formatNumber(s.sessions),
-      formatNumber(s.coats),
+      s.coats === null ? { text: '—', style: { ...STYLE.cell, color: INK.muted } } : formatNumber(s.coats),
       formatHours(s.hours),
       { text: s.restText, style: { ...STYLE.cell, color: INK.walnutSoft } },
     ]);
@@ -267,7 +267,7 @@ function drawWork(flow: Flow, q: QuoteDocument): void {
         { header: 'Rest afterwards', width: 118 },
       ],
       rows,
-      footer: [['', 'Total', formatNumber(sum((s) => s.sessions)), formatNumber(sum((s) => s.coats)), formatHours(stageHours), '']],
+      footer: [['', 'Total', formatNumber(sum((s) => s.sessions)), formatNumber(sum((s) => s.coats ?? 0)), formatHours(stageHours), '']],
       continuedLabel: 'The work, continued',
     });
     if (Math.abs(stageHours - w.labourHours) > 0.05) {
@@ -281,9 +281,8 @@ function drawWork(flow: Flow, q: QuoteDocument): void {
   }
 
   let timing = `Your piece stays with the workshop for about ${formatDays(w.calendarDays)}, counted in calendar days, to leave the finish the rest it needs.`;
-  if (w.startDate && w.readyDate) timing += ` We plan to start on ${formatDate(w.startDate)} and to have it ready on ${formatDate(w.readyDate)}.`;
-  else if (w.startDate) timing += ` We plan to start on ${formatDate(w.startDate)}.`;
-  else if (w.readyDate) timing += ` We expect it to be ready on ${formatDate(w.readyDate)}.`;
+  if (w.datesBooked && w.startDate && w.readyDate) timing += ` The work is booked: we start on ${formatDate(w.startDate)} and expect it to be ready on ${formatDate(w.readyDate)}.`;
+  else timing += ' That is an estimate: the dates are fixed when we book the work into the drying room, after the deposit is paid, and we confirm them to you then.';
   flow.paragraph(timing, STYLE.body, { width: Math.min(flow.width, 460) });
   flow.gap(26);
 }
@@ -335,6 +334,9 @@ function drawPrice(flow: Flow, q: QuoteDocument): void {
 
   // Payment: deposit, balance and how long the quote stands.
   const rows: [string, string][] = [
+    ...(p.agreed
+      ? p.agreed.extras.map((x): [string, string] => [`Extra you chose: ${x.label}`, money(q, x.price)]).concat([[`Agreed total${p.agreed.extras.length ? ' with the extras you chose' : ''}`, money(q, p.agreed.total)]])
+      : []),
     [`Deposit on acceptance (${formatPercent(p.depositPct)})`, money(q, p.deposit)],
     ['Balance when the piece is ready', money(q, p.balance)],
   ];

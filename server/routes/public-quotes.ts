@@ -8,7 +8,8 @@ import { secureRouter, type RouteInfo } from '../http/guard';
 import { HttpProblem, parseOr400, sendProblem } from '../http/problem';
 import { renderQuotePdf } from '../pdf/quote-pdf';
 import { handleWebhook } from '../services/payments';
-import { acceptQuote, declineQuote, depositCheckout, publicPdf, viewQuote } from '../services/public-quotes';
+import { renderAcceptancePdf } from '../pdf/acceptance-pdf';
+import { acceptQuote, acceptanceRecord, declineQuote, depositCancelled, depositCheckout, publicPdf, viewQuote } from '../services/public-quotes';
 
 const TokenParam = z.object({ token: z.string().min(10).max(200) });
 
@@ -42,7 +43,19 @@ export function publicQuoteRoutes(config: Config, sequelize: Sequelize, table: R
     res.json(await declineQuote(sequelize, config, token, parseOr400(DeclineQuoteSchema, req.body).reason, req.ip ?? ''));
   });
   r.post('/:token/deposit', 'public', limiter, async (req, res) => {
-    res.json(await depositCheckout(config, parseOr400(TokenParam, req.params).token));
+    res.json(await depositCheckout(sequelize, config, parseOr400(TokenParam, req.params).token));
+  });
+  /** Back from the payment page without paying: the open checkout is closed. */
+  r.post('/:token/deposit/cancel', 'public', limiter, async (req, res) => {
+    res.json(await depositCancelled(config, parseOr400(TokenParam, req.params).token));
+  });
+  /** What was agreed, by whom, when and from which address. */
+  r.get('/:token/acceptance.pdf', 'public', limiter, async (req, res) => {
+    const record = await acceptanceRecord(config, parseOr400(TokenParam, req.params).token);
+    res.setHeader('Content-Type', 'application/pdf');
+    res.setHeader('Content-Disposition', `inline; filename="${record.quoteNumber}-acceptance.pdf"`);
+    res.setHeader('Cache-Control', 'no-store');
+    res.send(await renderAcceptancePdf(record));
   });
 
   const w = secureRouter('/api/webhooks', table);

@@ -7,8 +7,10 @@ import type { Config } from '../config';
 import { secureRouter, type RouteInfo } from '../http/guard';
 import { parseOr400, problems } from '../http/problem';
 import { renderQuotePdf } from '../pdf/quote-pdf';
-import { deliver, outboxDetail, outboxSummary } from '../services/mail';
-import { buildDocument, createQuote, estimateDocument, getQuote, listQuotes, markSent, pipeline, sendQuote, withdrawQuote } from '../services/quotes';
+import { renderAcceptancePdf } from '../pdf/acceptance-pdf';
+import { outboxDetail, outboxSummary, retryMessage } from '../services/mail';
+import { flaggedPayments, refundPayment } from '../services/payments';
+import { acceptanceRecordOf, buildDocument, createQuote, estimateDocument, getQuote, listQuotes, markSent, pipeline, sendQuote, withdrawQuote } from '../services/quotes';
 import { OutboxMessage, Quote } from '../models';
 
 const IdParam = z.object({ id: IdSchema });
@@ -56,6 +58,10 @@ export function quoteRoutes(config: Config, sequelize: Sequelize, table: RouteIn
     if (!quote) throw problems.notFound('Quote');
     pdfResponse(res, quote.number, await renderQuotePdf(await buildDocument(id, config.uploadsDir)));
   });
+  q.get('/:id/acceptance.pdf', ALL, async (req, res) => {
+    const record = await acceptanceRecordOf(parseOr400(IdParam, req.params).id);
+    pdfResponse(res, `${record.quoteNumber}-acceptance`, await renderAcceptancePdf(record));
+  });
   q.post('/:id/send', SELL, async (req, res) => {
     const { id } = parseOr400(IdParam, req.params);
     res.json(await sendQuote(sequelize, config, req.user!.id, id, parseOr400(SendSchema, req.body).recipient));
@@ -86,12 +92,25 @@ export function quoteRoutes(config: Config, sequelize: Sequelize, table: RouteIn
     if (!m || !m.attachment) throw problems.notFound('Attachment');
     pdfResponse(res, (m.attachmentName ?? 'attachment').replace(/\.pdf$/, ''), m.attachment);
   });
-  /** Tries a failed message again; a quote counts as sent only once its message is. */
+  /**
+   * Tries a failed message again (only a failed one: 409 otherwise). A quote not yet sent becomes sent once its
+   * message goes; nothing else about the quote or its estimate changes.
+   */
   o.post('/:id/retry', SELL, async (req, res) => {
-    const m = await deliver(config, parseOr400(IdParam, req.params).id);
+    const m = await retryMessage(config, parseOr400(IdParam, req.params).id);
     if (m.status === 'sent' && m.quoteId) await markSent(sequelize, m.quoteId);
     const fresh = await OutboxMessage.findByPk(m.id, { attributes: { exclude: ['attachment'] } });
     res.json(outboxDetail(fresh!));
   });
-  return [e.router, q.router, o.router];
+
+  const p = secureRouter('/api/payments', table);
+  /** Payments the owner should look at: paid twice, or a different amount from the deposit. */
+  p.get('/flagged', SELL, async (_req, res) => {
+    res.json(await flaggedPayments());
+  });
+  /** Refunds a flagged payment whose automatic refund did not go through. */
+  p.post('/:id/refund', ['owner'], async (req, res) => {
+    res.json(await refundPayment(config, parseOr400(IdParam, req.params).id, req.user!.id));
+  });
+  return [e.router, q.router, o.router, p.router];
 }

@@ -8,7 +8,7 @@
 import type { Sequelize } from 'sequelize';
 import { fromMinutes, toMinutes } from '@shared/calc';
 import type { EstimateInput } from '@shared/schemas/calc';
-import type { StageKind } from '@shared/schemas/catalog';
+import type { JobStageKind } from '@shared/schemas/planning';
 import type { PieceKind } from '@shared/schemas/customers';
 import { CreateQuoteSchema } from '@shared/schemas/quotes';
 import { Customer, Estimate, Material, MaterialStock, Piece, Polisher, Quote, User } from '../models';
@@ -70,7 +70,7 @@ const JOBS: DemoPlanned[] = [
 ];
 
 /** How the demo's actual hours ran against the estimate, by stage kind (bodying ran long, cutting back longer). */
-const ACTUAL_FACTOR: Partial<Record<StageKind, number>> = { strip: 0.9, prepare: 1.05, 'grain-fill': 1.1, body: 1.18, stiffen: 1.1, 'cut-back': 1.25, burnish: 1.05 };
+const ACTUAL_FACTOR: Partial<Record<JobStageKind, number>> = { strip: 0.9, prepare: 1.05, 'grain-fill': 1.1, body: 1.18, stiffen: 1.1, 'cut-back': 1.25, burnish: 1.05 };
 
 /** A small, repeatable wobble so the demo's hours do not all look alike. */
 function wobble(i: number): number {
@@ -84,7 +84,7 @@ const CLIMATE = [
   { temperatureC: 21, humidityPct: 45 },
 ];
 
-const NOTES: Partial<Record<StageKind, string>> = {
+const NOTES: Partial<Record<JobStageKind, string>> = {
   strip: 'Old finish came away cleanly; a little stubborn in the mouldings.',
   prepare: 'Sanded through the grits; dust off with a tack rag.',
   'grain-fill': 'Pores well filled; oil kept light.',

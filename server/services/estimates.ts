@@ -18,6 +18,7 @@ import {
 } from '@shared/schemas/estimates';
 import { HttpProblem, problems } from '../http/problem';
 import { Customer, Estimate, EstimateRevision, Piece, User } from '../models';
+import { withAgreements } from './agreements';
 import { audit } from './audit';
 import { loadCatalog, type LoadedCatalog } from './catalog';
 import { runEngine, withWorkshopDefaults } from './estimator';
@@ -145,7 +146,8 @@ export async function getEstimate(id: number, transaction?: Transaction): Promis
   });
   const current = await EstimateRevision.findByPk(e.currentRevisionId!, { include: [{ model: User, as: 'author', attributes: ['id', 'name'] }], transaction });
   if (!current) throw new HttpProblem(500, 'estimate_without_revision', 'Estimate has no revision');
-  return { ...summaryDto(e), revisions: revisions.map(revisionSummary), current: revisionDto(current) };
+  const [summary] = await withAgreements([summaryDto(e)]);
+  return { ...summary!, revisions: revisions.map(revisionSummary), current: revisionDto(current) };
 }
 
 export async function getRevision(estimateId: number, number: number): Promise<Revision> {
@@ -332,5 +334,5 @@ export async function listEstimates(q: ListQuery): Promise<Page<EstimateSummary>
   const sort = SORTS[q.sort];
   const order = [[...sort.slice(0, -1), direction(q.dir)], ['id', 'DESC']] as Order;
   const { rows, count } = await Estimate.findAndCountAll({ where, include: summaryIncludes, order, limit: q.pageSize, offset: offset(q.page, q.pageSize) });
-  return { rows: rows.map(summaryDto), total: count, page: q.page, pageSize: q.pageSize };
+  return { rows: await withAgreements(rows.map(summaryDto)), total: count, page: q.page, pageSize: q.pageSize };
 }

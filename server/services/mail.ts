@@ -1,11 +1,12 @@
 /**
  * Sends what is in the outbox through SMTP (nodemailer). A message is marked sent only when the server accepted
- * it; a failure is kept with its reason and can be retried.
+ * it; a failure is kept with its reason and can be retried. A message is claimed before it goes (queued or failed
+ * becomes "sending" in one conditional update), so two requests never send it twice.
  */
 import nodemailer, { type Transporter } from 'nodemailer';
 import type { Config } from '../config';
 import { problems } from '../http/problem';
-import { OutboxMessage } from '../models';
+import { OutboxMessage, Quote } from '../models';
 import type { OutboxDetail, OutboxSummary } from '@shared/schemas/quotes';
 
 const transports = new Map<string, Transporter>();
@@ -41,11 +42,43 @@ export function outboxDetail(m: OutboxMessage): OutboxDetail {
   return { ...outboxSummary(m), text: m.textBody, html: m.htmlBody };
 }
 
-/** Tries to deliver one outbox message now; returns it with its new status. */
+/** Takes a message for sending if it is in one of the given states; false when another request has it or it went. */
+async function claim(id: number, from: readonly string[]): Promise<boolean> {
+  const [n] = await OutboxMessage.update({ status: 'sending' }, { where: { id, status: from as string[] } });
+  return n > 0;
+}
+
+/** Tries to deliver one outbox message now (a queued one, as it is made); returns it with its new status. */
 export async function deliver(config: Config, id: number): Promise<OutboxMessage> {
   const m = await OutboxMessage.findByPk(id);
   if (!m) throw problems.notFound('Message');
-  if (m.status === 'sent') return m;
+  if (!(await claim(id, ['queued']))) return m;
+  return send(config, m);
+}
+
+/**
+ * Sends a failed message again. Only a failed message can be retried (409 for one sent, queued or being sent), and
+ * only the newest message of a quote that is still open: an older one carries a link that no longer works.
+ */
+export async function retryMessage(config: Config, id: number): Promise<OutboxMessage> {
+  const m = await OutboxMessage.findByPk(id);
+  if (!m) throw problems.notFound('Message');
+  if (m.status !== 'failed') throw problems.conflict('not_failed', `Message ${m.id} is ${m.status}: only a message that failed can be retried.`);
+  if (m.quoteId) {
+    const quote = await Quote.findByPk(m.quoteId, { attributes: ['id', 'number', 'state'] });
+    const newest = await OutboxMessage.max<number, OutboxMessage>('id', { where: { quoteId: m.quoteId } });
+    if (quote && !['draft', 'quoted', 'viewed'].includes(quote.state)) {
+      throw problems.conflict('quote_closed', `Quote ${quote.number} is ${quote.state}: its message is not sent again.`);
+    }
+    if (newest !== null && newest !== m.id) {
+      throw problems.conflict('message_superseded', `A newer message for quote ${quote?.number ?? m.quoteId} was made after this one: its link is the one that works.`);
+    }
+  }
+  if (!(await claim(id, ['failed']))) throw problems.conflict('not_failed', `Message ${m.id} is already being sent or was sent.`);
+  return send(config, m);
+}
+
+async function send(config: Config, m: OutboxMessage): Promise<OutboxMessage> {
   try {
     const info = await transport(config).sendMail({
       from: config.mail.from,

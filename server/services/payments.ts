@@ -1,19 +1,34 @@
 /**
- * Deposits through the payment provider's official SDK: a checkout session for the accepted quote's deposit, and
- * the signed webhook that says it was paid. Webhooks are verified and handled once per event id.
+ * Deposits through the payment provider's official SDK: one open checkout per accepted quote for the deposit on the
+ * accepted total, and the signed webhooks that say a checkout was paid or expired. Webhooks are verified and handled
+ * once per event id. A payment that cannot count as the deposit (the deposit is already paid, or the amount is not
+ * the deposit) is recorded and flagged, never counted; one that arrives for an already paid deposit is refunded
+ * through the SDK. The database keeps the rules too: one pending checkout per quote, one counted deposit per quote.
  */
 import Stripe from 'stripe';
-import { UniqueConstraintError, type Sequelize } from 'sequelize';
+import { Op, UniqueConstraintError, type Sequelize, type Transaction } from 'sequelize';
 import { money } from '@shared/money';
+import type { FlaggedPayment, PaymentDto, PaymentFlag } from '@shared/schemas/quotes';
 import type { Config } from '../config';
-import { HttpProblem } from '../http/problem';
-import { Estimate, Payment, PaymentEvent, Quote } from '../models';
+import { HttpProblem, problems } from '../http/problem';
+import { Customer, Estimate, Payment, PaymentEvent, Quote } from '../models';
 import { audit } from './audit';
+
+/** How long a checkout stays open at the provider (the provider accepts 30 minutes to 24 hours). */
+export const CHECKOUT_MINUTES = 60;
+
+function digitsOf(currency: string): number {
+  return new Intl.NumberFormat('en', { style: 'currency', currency }).resolvedOptions().maximumFractionDigits ?? 2;
+}
 
 /** An amount in the currency's minor unit (pence for GBP, yen for JPY), as the provider counts it. */
 export function minorUnits(amount: string, currency: string): number {
-  const digits = new Intl.NumberFormat('en', { style: 'currency', currency }).resolvedOptions().maximumFractionDigits ?? 2;
-  return money(amount).times(10 ** digits).toDecimalPlaces(0).toNumber();
+  return money(amount).times(10 ** digitsOf(currency)).toDecimalPlaces(0).toNumber();
+}
+
+export function fromMinor(minor: number | string, currency: string): string {
+  const digits = digitsOf(currency);
+  return money(String(minor)).dividedBy(10 ** digits).toFixed(2);
 }
 
 function client(config: Config): Stripe {
@@ -30,34 +45,168 @@ function client(config: Config): Stripe {
   });
 }
 
-/** Opens a checkout for a deposit and records it as pending; returns where to send the customer. */
-export async function startCheckout(config: Config, quote: Quote, returnUrl: string, description: string, email: string | null): Promise<string> {
-  const amount = minorUnits(String(quote.acceptedDeposit ?? quote.deposit), quote.currency);
-  if (amount <= 0) throw new HttpProblem(409, 'no_deposit', 'No deposit due', 'This quote asks for no deposit.');
-  let session: Stripe.Checkout.Session;
+const unreachable = (err: unknown) =>
+  new HttpProblem(502, 'payments_unreachable', 'Payment service unavailable', `The payment service did not answer: ${err instanceof Error ? err.message : String(err)}. Try again in a moment.`);
+
+export function paymentDto(p: Payment): PaymentDto {
+  const received = p.amountReceivedMinor === null || p.amountReceivedMinor === undefined ? null : fromMinor(p.amountReceivedMinor, p.currency);
+  return {
+    id: p.id,
+    amount: fromMinor(p.amountMinor, p.currency),
+    currency: p.currency,
+    status: p.status,
+    createdAt: p.createdAt.toISOString(),
+    paidAt: p.paidAt ? p.paidAt.toISOString() : null,
+    expiresAt: p.expiresAt ? p.expiresAt.toISOString() : null,
+    amountReceived: received !== null && received !== fromMinor(p.amountMinor, p.currency) ? received : null,
+    flag: p.flag ?? null,
+    note: p.note ?? null,
+    refundedAt: p.refundedAt ? p.refundedAt.toISOString() : null,
+  };
+}
+
+/** Checkouts whose time at the provider has run out are expired here too, so none shows "pending" for ever. */
+export async function lapseCheckouts(quoteId?: number, transaction?: Transaction): Promise<void> {
+  await Payment.update(
+    { status: 'expired', closedAt: new Date() },
+    { where: { status: 'pending', expiresAt: { [Op.lt]: new Date() }, ...(quoteId ? { quoteId } : {}) }, transaction },
+  );
+}
+
+/**
+ * The deposit checkout of an accepted quote: the open one when there is one, else a new one at the provider for the
+ * deposit on the accepted total. Runs under the quote's row lock, so parallel requests get the same checkout; the
+ * database refuses a second pending checkout for a quote whatever happens.
+ */
+export async function openCheckout(
+  sequelize: Sequelize,
+  config: Config,
+  quoteId: number,
+  a: { returnUrl: string; description: string; email: string | null },
+): Promise<{ url: string; reused: boolean }> {
+  return sequelize.transaction(async (transaction) => {
+    const quote = await Quote.findByPk(quoteId, { transaction, lock: transaction.LOCK.UPDATE });
+    if (!quote) throw problems.notFound('Quote');
+    if (quote.state === 'deposit-paid') throw new HttpProblem(409, 'quote_deposit_paid', 'Deposit paid', 'The deposit for this quote has already been paid.');
+    if (quote.state !== 'accepted' || quote.acceptedDeposit === null) throw new HttpProblem(409, 'not_accepted', 'Accept first', 'Accept the quote before paying the deposit.');
+    const amount = minorUnits(String(quote.acceptedDeposit), quote.currency);
+    if (amount <= 0) throw new HttpProblem(409, 'no_deposit', 'No deposit due', 'This quote asks for no deposit.');
+    await lapseCheckouts(quote.id, transaction);
+    const open = await Payment.findOne({ where: { quoteId: quote.id, status: 'pending' }, transaction });
+    if (open && Number(open.amountMinor) === amount && open.checkoutUrl) return { url: open.checkoutUrl, reused: true };
+    if (open) {
+      // A checkout for another amount cannot stand: close it at the provider before opening the right one.
+      await client(config).checkout.sessions.expire(open.providerSessionId).catch(() => undefined);
+      await open.update({ status: 'cancelled', closedAt: new Date() }, { transaction });
+    }
+    let session: Stripe.Checkout.Session;
+    try {
+      session = await client(config).checkout.sessions.create({
+        mode: 'payment',
+        line_items: [{ quantity: 1, price_data: { currency: quote.currency.toLowerCase(), unit_amount: amount, product_data: { name: a.description } } }],
+        success_url: `${a.returnUrl}?deposit=paid`,
+        cancel_url: `${a.returnUrl}?deposit=cancelled`,
+        client_reference_id: quote.number,
+        expires_at: Math.floor(Date.now() / 1000) + CHECKOUT_MINUTES * 60,
+        ...(a.email ? { customer_email: a.email } : {}),
+        metadata: { quote_id: String(quote.id), quote_number: quote.number },
+      });
+    } catch (err) {
+      throw unreachable(err);
+    }
+    if (!session.url) throw new HttpProblem(502, 'payments_unreachable', 'Payment service unavailable', 'The payment service gave no checkout address.');
+    await Payment.create(
+      {
+        quoteId: quote.id,
+        providerSessionId: session.id,
+        amountMinor: amount,
+        currency: quote.currency,
+        paidAt: null,
+        checkoutUrl: session.url,
+        expiresAt: session.expires_at ? new Date(session.expires_at * 1000) : new Date(Date.now() + CHECKOUT_MINUTES * 60_000),
+      },
+      { transaction },
+    );
+    return { url: session.url, reused: false };
+  });
+}
+
+/**
+ * The customer came back from the payment page without paying: the open checkout is closed at the provider (so it
+ * cannot be paid later) and shown as cancelled. A checkout the provider says was paid meanwhile is left to its webhook.
+ */
+export async function cancelCheckout(config: Config, quoteId: number): Promise<{ cancelled: boolean }> {
+  const open = await Payment.findOne({ where: { quoteId, status: 'pending' } });
+  if (!open) return { cancelled: false };
   try {
-    session = await client(config).checkout.sessions.create({
-      mode: 'payment',
-      line_items: [{ quantity: 1, price_data: { currency: quote.currency.toLowerCase(), unit_amount: amount, product_data: { name: description } } }],
-      success_url: `${returnUrl}?deposit=paid`,
-      cancel_url: `${returnUrl}?deposit=cancelled`,
-      client_reference_id: quote.number,
-      ...(email ? { customer_email: email } : {}),
-      metadata: { quote_id: String(quote.id), quote_number: quote.number },
-    });
+    const session = await client(config).checkout.sessions.retrieve(open.providerSessionId);
+    if (session.status === 'complete') return { cancelled: false };
+    if (session.status === 'open') await client(config).checkout.sessions.expire(open.providerSessionId);
   } catch (err) {
-    throw new HttpProblem(502, 'payments_unreachable', 'Payment service unavailable', `The payment service did not answer: ${err instanceof Error ? err.message : String(err)}. Try again in a moment.`);
+    throw unreachable(err);
   }
-  if (!session.url) throw new HttpProblem(502, 'payments_unreachable', 'Payment service unavailable', 'The payment service gave no checkout address.');
-  await Payment.create({ quoteId: quote.id, providerSessionId: session.id, amountMinor: amount, currency: quote.currency, paidAt: null });
-  return session.url;
+  const [n] = await Payment.update({ status: 'cancelled', closedAt: new Date() }, { where: { id: open.id, status: 'pending' } });
+  if (n > 0) await audit({ userId: null, action: 'payment.cancel', entityType: 'quote', entityId: quoteId, after: { session: open.providerSessionId } });
+  return { cancelled: n > 0 };
+}
+
+interface Outcome {
+  handled: boolean;
+  duplicate?: boolean;
+  flag?: PaymentFlag;
+  refund?: number;
+}
+
+/** What a completed checkout does: counts as the deposit, or is recorded and flagged (and refunded when paid twice). */
+async function completed(session: Stripe.Checkout.Session, transaction: Transaction): Promise<Outcome> {
+  if (session.payment_status !== 'paid') return { handled: false };
+  let payment = await Payment.findOne({ where: { providerSessionId: session.id }, transaction, lock: transaction.LOCK.UPDATE });
+  const quoteId = payment?.quoteId ?? Number(session.metadata?.quote_id);
+  const quote = Number.isInteger(quoteId) && quoteId > 0 ? await Quote.findByPk(quoteId, { transaction, lock: transaction.LOCK.UPDATE }) : null;
+  if (!quote) return { handled: false };
+  const received = session.amount_total ?? 0;
+  const currencyOk = String(session.currency ?? '').toLowerCase() === quote.currency.toLowerCase();
+  const paymentIntent = typeof session.payment_intent === 'string' ? session.payment_intent : (session.payment_intent?.id ?? null);
+  if (!payment) {
+    payment = await Payment.create(
+      { quoteId: quote.id, providerSessionId: session.id, amountMinor: received, currency: quote.currency, paidAt: null, checkoutUrl: null, expiresAt: null },
+      { transaction },
+    );
+  }
+  if (payment.status === 'paid' || payment.status === 'refunded') return { handled: true };
+  const due = quote.acceptedDeposit === null ? null : minorUnits(String(quote.acceptedDeposit), quote.currency);
+  const counted = await Payment.findOne({ where: { quoteId: quote.id, status: 'paid', flag: null, id: { [Op.ne]: payment.id } }, transaction });
+  const base = { status: 'paid' as const, paidAt: new Date(), paymentIntent, amountReceivedMinor: received };
+
+  let flag: PaymentFlag | null = null;
+  let note: string | null = null;
+  if (quote.state === 'deposit-paid' || counted) {
+    flag = 'duplicate';
+    note = `Paid after the deposit for quote ${quote.number} was already paid: refunded.`;
+  } else if (quote.state !== 'accepted') {
+    flag = 'unknown-checkout';
+    note = `Paid while quote ${quote.number} is ${quote.state}: refunded.`;
+  } else if (!currencyOk || due === null || received !== due || Number(payment.amountMinor) !== due) {
+    flag = 'amount-mismatch';
+    note = `The provider took ${fromMinor(received, quote.currency)} ${String(session.currency ?? '').toUpperCase()}; the deposit due is ${due === null ? 'not set' : fromMinor(due, quote.currency)} ${quote.currency}. Not counted as the deposit.`;
+  }
+  if (flag) {
+    await payment.update({ ...base, flag, note }, { transaction });
+    await audit({ userId: null, action: 'payment.flag', entityType: 'quote', entityId: quote.id, after: { flag, session: session.id, amountMinor: received } }, transaction);
+    return { handled: true, flag, ...(flag === 'amount-mismatch' ? {} : { refund: payment.id }) };
+  }
+  await payment.update({ ...base, flag: null, note: null }, { transaction });
+  await quote.update({ state: 'deposit-paid', depositPaidAt: new Date() }, { transaction });
+  await Estimate.update({ state: 'deposit-paid' }, { where: { id: quote.estimateId }, transaction });
+  await audit({ userId: null, action: 'quote.deposit_paid', entityType: 'quote', entityId: quote.id, after: { amountMinor: received, session: session.id } }, transaction);
+  return { handled: true };
 }
 
 /**
  * Handles a webhook: verifies its signature (400 when forged), records the event id (a repeated delivery changes
- * nothing), and marks the deposit paid when the amount and currency match what was asked.
+ * nothing), and acts on a completed or expired checkout. A payment to give back is refunded once the record is safe.
  */
-export async function handleWebhook(sequelize: Sequelize, config: Config, raw: Buffer, signature: string | undefined): Promise<{ handled: boolean; duplicate?: boolean }> {
+export async function handleWebhook(sequelize: Sequelize, config: Config, raw: Buffer, signature: string | undefined): Promise<Outcome> {
   if (!config.payments.webhookSecret || !config.payments.secretKey) throw new HttpProblem(503, 'payments_unconfigured', 'Payments unavailable');
   let event: Stripe.Event;
   try {
@@ -65,26 +214,61 @@ export async function handleWebhook(sequelize: Sequelize, config: Config, raw: B
   } catch {
     throw new HttpProblem(400, 'bad_signature', 'Webhook refused', 'The webhook signature does not verify.');
   }
+  let outcome: Outcome;
   try {
-    return await sequelize.transaction(async (transaction) => {
+    outcome = await sequelize.transaction(async (transaction) => {
       await PaymentEvent.create({ eventId: event.id, type: event.type, receivedAt: new Date() }, { transaction });
-      if (event.type !== 'checkout.session.completed') return { handled: false };
       const session = event.data.object as Stripe.Checkout.Session;
-      const payment = await Payment.findOne({ where: { providerSessionId: session.id }, transaction, lock: transaction.LOCK.UPDATE });
-      if (!payment) return { handled: false };
-      const amountOk = Number(payment.amountMinor) === session.amount_total && payment.currency.toLowerCase() === String(session.currency).toLowerCase();
-      if (!amountOk || session.payment_status !== 'paid') return { handled: false };
-      if (payment.status !== 'paid') await payment.update({ status: 'paid', paidAt: new Date() }, { transaction });
-      const quote = await Quote.findByPk(payment.quoteId, { transaction, lock: transaction.LOCK.UPDATE });
-      if (quote && quote.state === 'accepted') {
-        await quote.update({ state: 'deposit-paid', depositPaidAt: new Date() }, { transaction });
-        await Estimate.update({ state: 'deposit-paid' }, { where: { id: quote.estimateId }, transaction });
-        await audit({ userId: null, action: 'quote.deposit_paid', entityType: 'quote', entityId: quote.id, after: { amountMinor: session.amount_total, session: session.id } }, transaction);
+      if (event.type === 'checkout.session.completed') return completed(session, transaction);
+      if (event.type === 'checkout.session.expired') {
+        const [n] = await Payment.update({ status: 'expired', closedAt: new Date() }, { where: { providerSessionId: session.id, status: 'pending' }, transaction });
+        return { handled: n > 0 };
       }
-      return { handled: true };
+      return { handled: false };
     });
   } catch (err) {
     if (err instanceof UniqueConstraintError) return { handled: false, duplicate: true };
     throw err;
   }
+  if (outcome.refund) await refundPayment(config, outcome.refund, null).catch(() => undefined);
+  return outcome;
+}
+
+/**
+ * Gives a flagged payment back through the provider's refund call. A refund that fails stays flagged with the
+ * provider's reason, for the owner to try again.
+ */
+export async function refundPayment(config: Config, paymentId: number, actorId: number | null): Promise<PaymentDto> {
+  const payment = await Payment.findByPk(paymentId);
+  if (!payment) throw problems.notFound('Payment');
+  if (payment.status === 'refunded') return paymentDto(payment);
+  if (payment.status !== 'paid' || !payment.flag) {
+    throw problems.conflict('not_refundable', 'Only a flagged payment (paid twice, or for another amount) is refunded from here; a counted deposit is not.');
+  }
+  if (!payment.paymentIntent) throw problems.conflict('not_refundable', 'The provider gave no payment reference for this payment: refund it from the provider\u2019s dashboard.');
+  try {
+    const refund = await client(config).refunds.create(
+      { payment_intent: payment.paymentIntent, metadata: { payment_id: String(payment.id), quote_id: String(payment.quoteId) } },
+      { idempotencyKey: `refund-payment-${payment.id}` },
+    );
+    await payment.update({ status: 'refunded', refundId: refund.id, refundedAt: new Date() });
+    await audit({ userId: actorId, action: 'payment.refund', entityType: 'quote', entityId: payment.quoteId, after: { payment: payment.id, refund: refund.id, amountMinor: refund.amount } });
+  } catch (err) {
+    await payment.update({ note: `${payment.note ?? ''} The refund did not go through: ${err instanceof Error ? err.message : String(err)}`.trim() });
+    throw unreachable(err);
+  }
+  return paymentDto(payment);
+}
+
+/** Payments the owner should look at: flagged ones, newest first. */
+export async function flaggedPayments(): Promise<FlaggedPayment[]> {
+  const rows = await Payment.findAll({ where: { flag: { [Op.ne]: null } }, order: [['id', 'DESC']], limit: 200 });
+  const quotes = await Quote.findAll({ where: { id: rows.map((r) => r.quoteId) }, attributes: ['id', 'number', 'state', 'estimateId'] });
+  const estimates = await Estimate.findAll({ where: { id: quotes.map((q) => q.estimateId) }, attributes: ['id', 'customerId'] });
+  const customers = await Customer.findAll({ where: { id: estimates.map((e) => e.customerId) }, attributes: ['id', 'name'] });
+  return rows.map((p) => {
+    const q = quotes.find((x) => x.id === p.quoteId)!;
+    const e = estimates.find((x) => x.id === q.estimateId);
+    return { ...paymentDto(p), quote: { id: q.id, number: q.number, state: q.state }, customer: customers.find((c) => c.id === e?.customerId)?.name ?? '' };
+  });
 }

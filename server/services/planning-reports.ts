@@ -74,7 +74,8 @@ async function computeActuals(transaction?: Transaction): Promise<ActualsReport>
   const sessions = jobs.length ? await JobSession.findAll({ where: { jobId: jobs.map((j) => j.id), done: true }, transaction }) : [];
   const byKind = new Map<StageKind, { est: number; act: number; jobs: Set<number>; sessions: number }>();
   for (const s of sessions) {
-    if (s.actualHours === null) continue;
+    // Extra work the customer took is not a finishing stage: it calibrates nothing.
+    if (s.actualHours === null || s.stageKind === 'extra') continue;
     const row = byKind.get(s.stageKind) ?? { est: 0, act: 0, jobs: new Set<number>(), sessions: 0 };
     row.est += Number(s.estimatedHours);
     row.act += Number(s.actualHours);

@@ -32,6 +32,7 @@ import { HttpProblem, problems } from '../http/problem';
 import { Customer, Estimate, EstimateRevision, Job, JobSession, Polisher, Quote, User } from '../models';
 import type { JobStage } from '../models/planning';
 import { audit } from './audit';
+import { agreedOf } from './quotes';
 import {
   addDays,
   describeOverbooking,
@@ -192,6 +193,10 @@ export async function getJob(id: number, transaction?: Transaction): Promise<Job
     startMode: job.startMode,
     stages: stagesDto(sessions),
     sessions: sessions.map((s) => sessionDto(s, polishers, users)),
+    agreed: await Quote.findByPk(job.quoteId, { transaction }).then((q) => {
+      const agreed = q ? agreedOf(q) : null;
+      return agreed && q ? { ...agreed, currency: q.currency } : null;
+    }),
   };
 }
 
@@ -230,6 +235,23 @@ export function jobStages(result: EstimateResult, catalog: Pick<Catalog, 'shella
     }));
 }
 
+/** Longest session of extra work: longer extras are split into sessions of equal length up to this. */
+export const EXTRA_SESSION_MAX_HOURS = 4;
+
+/** The extra work the customer took at acceptance, as job stages and their sessions (no rest after them). */
+export function extraStages(extras: readonly { id: string; label: string; hours: number }[]): { stage: JobStage; sessions: { handsOnHours: number }[] }[] {
+  return extras
+    .filter((x) => x.hours > 0)
+    .map((x) => {
+      const n = Math.ceil(x.hours / EXTRA_SESSION_MAX_HOURS - 1e-9);
+      const each = Math.round((x.hours / n) * 1000) / 1000;
+      return {
+        stage: { key: `extra-${x.id}`, kind: 'extra' as const, name: `Extra: ${x.label}`.slice(0, 80), sessions: n, labourHours: x.hours, materials: [] },
+        sessions: Array.from({ length: n }, () => ({ handsOnHours: each })),
+      };
+    });
+}
+
 /** Rack area a piece takes: its largest face, m². */
 export function footprintM2(result: EstimateResult): number {
   const largest = Math.max(0, ...result.parts.map((p) => p.faceAreaM2));
@@ -245,11 +267,16 @@ export async function createJob(sequelize: Sequelize, actorId: number, input: Cr
     }
     const live = await Job.findOne({ where: { quoteId: quote.id, state: { [Op.ne]: 'cancelled' } }, transaction });
     if (live) throw problems.conflict('job_exists', `Quote ${quote.number} is already job ${live.number}.`);
+    // One estimate, one job: the database's jobs_live_estimate index holds it too.
+    const sameWork = await Job.findOne({ where: { estimateId: quote.estimateId, state: { [Op.ne]: 'cancelled' } }, transaction });
+    if (sameWork) throw problems.conflict('job_exists', `The work of quote ${quote.number} is already job ${sameWork.number}.`);
     const estimate = await Estimate.findByPk(quote.estimateId, { transaction });
     const revision = await EstimateRevision.findByPk(quote.revisionId, { transaction });
     if (!estimate || !revision) throw new HttpProblem(500, 'quote_without_revision', 'Quote has no revision');
     const result = revision.result;
-    const stages = jobStages(result, revision.catalog);
+    // The extras the customer took come first (repairs before the finish goes on), then the quoted stages.
+    const extras = extraStages(agreedOf(quote)?.extras ?? []);
+    const stages = [...extras.map((x) => x.stage), ...jobStages(result, revision.catalog)];
     const job = await Job.create(
       {
         number: await nextNumber(sequelize, transaction),
@@ -275,8 +302,14 @@ export async function createJob(sequelize: Sequelize, actorId: number, input: Cr
       { transaction },
     );
     const names = new Map(stages.map((s) => [s.key, s]));
+    const planned = [
+      ...extras.flatMap((x) =>
+        x.sessions.map((e, i) => ({ stage: x.stage.key, stageKind: x.stage.kind, session: i + 1, handsOnHours: e.handsOnHours, restHours: 0 })),
+      ),
+      ...result.calendar.sessions.map((c) => ({ stage: c.stage, stageKind: c.stageKind as JobStage['kind'], session: c.session, handsOnHours: c.handsOnHours, restHours: c.restHours })),
+    ];
     await JobSession.bulkCreate(
-      result.calendar.sessions.map((c, i) => ({
+      planned.map((c, i) => ({
         jobId: job.id,
         idx: i,
         stage: c.stage,
@@ -303,7 +336,7 @@ export async function createJob(sequelize: Sequelize, actorId: number, input: Cr
       })),
       { transaction },
     );
-    await audit({ userId: actorId, action: 'job.create', entityType: 'job', entityId: job.id, after: { number: job.number, quote: quote.number, sessions: result.calendar.sessions.length, bays: job.bays, areaM2: job.areaM2 } }, transaction);
+    await audit({ userId: actorId, action: 'job.create', entityType: 'job', entityId: job.id, after: { number: job.number, quote: quote.number, sessions: planned.length, extras: extras.map((x) => x.stage.name), bays: job.bays, areaM2: job.areaM2 } }, transaction);
     return job.id;
   });
   return getJob(id);
@@ -655,6 +688,7 @@ export async function readyToBook(): Promise<ReadyToBook> {
     quotes: quotes.map((q) => {
       const e = estimates.find((x) => x.id === q.estimateId)!;
       const r = revisions.find((x) => x.id === q.revisionId)!.result;
+      const extras = extraStages(agreedOf(q)?.extras ?? []);
       return {
         quoteId: q.id,
         quoteNumber: q.number,
@@ -663,8 +697,8 @@ export async function readyToBook(): Promise<ReadyToBook> {
         title: e.title,
         customer: { id: e.customerId, name: customers.find((c) => c.id === e.customerId)?.name ?? '' },
         acceptedAt: q.acceptedAt?.toISOString() ?? null,
-        labourHours: r.totals.labourHours,
-        sessions: r.calendar.sessions.length,
+        labourHours: round(r.totals.labourHours + extras.reduce((t, x) => t + x.stage.labourHours, 0)),
+        sessions: r.calendar.sessions.length + extras.reduce((t, x) => t + x.sessions.length, 0),
         calendarDays: r.totals.calendarDays,
       };
     }),

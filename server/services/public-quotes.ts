@@ -2,18 +2,32 @@
  * What the customer can do through their signed link, without an account: read the quote, download the PDF,
  * accept (typed name, terms ticked; time and address kept) or decline, and pay the deposit.
  */
-import type { Sequelize, Transaction } from 'sequelize';
+import { Op, UniqueConstraintError, type Sequelize, type Transaction } from 'sequelize';
 import type { z } from 'zod';
 import { customerCautions } from '@shared/calc';
-import { QUOTE_TERMS, type AcceptQuoteSchema, type PublicQuote } from '@shared/schemas/quotes';
+import { QUOTE_TERMS, customerPriceLines, roundHoursForCustomer, type AcceptQuoteSchema, type PublicQuote } from '@shared/schemas/quotes';
 import { formatArea } from '@shared/units';
 import type { Config } from '../config';
 import { HttpProblem } from '../http/problem';
-import { Customer, Estimate, EstimateRevision, Piece, Quote, Workshop } from '../models';
+import type { AcceptanceRecord } from '../pdf/acceptance-pdf';
+import { Customer, Estimate, EstimateRevision, Payment, Piece, Quote, Workshop } from '../models';
 import { audit } from './audit';
 import { loadSettings } from './catalog';
-import { startCheckout } from './payments';
-import { acceptedAmounts, buildDocument, expireQuotes, hashToken, quoteLink, tokenSigned } from './quotes';
+import { cancelCheckout, lapseCheckouts, openCheckout } from './payments';
+import {
+  acceptanceRecordOf,
+  acceptedAmounts,
+  agreedOf,
+  agreementOf,
+  alreadyAgreed,
+  bookedSchedule,
+  buildDocument,
+  expireQuotes,
+  hashToken,
+  lockQuote,
+  quoteLink,
+  tokenSigned,
+} from './quotes';
 
 type AcceptInput = z.output<typeof AcceptQuoteSchema>;
 
@@ -23,9 +37,17 @@ const linkInvalid = () => new HttpProblem(404, 'link_invalid', 'Link not valid',
 async function byToken(config: Config, token: string, transaction?: Transaction): Promise<Quote> {
   if (!tokenSigned(token, config.linkSecret)) throw linkInvalid();
   await expireQuotes(transaction);
-  const quote = await Quote.findOne({ where: { tokenHash: hashToken(token) }, transaction, lock: transaction ? transaction.LOCK.UPDATE : undefined });
+  const quote = await Quote.findOne({ where: { tokenHash: hashToken(token) }, transaction });
   if (!quote || quote.state === 'draft') throw linkInvalid();
   return quote;
+}
+
+/** The link's quote locked for an answer, its estimate locked first (see lockQuote). */
+async function lockByToken(config: Config, token: string, transaction: Transaction): Promise<{ quote: Quote; estimate: Estimate }> {
+  const found = await byToken(config, token, transaction);
+  const locked = await lockQuote(found.id, transaction);
+  if (locked.quote.tokenHash !== hashToken(token)) throw linkInvalid();
+  return locked;
 }
 
 function closedReason(q: Quote): PublicQuote['closed'] {
@@ -48,11 +70,14 @@ function closedProblem(q: Quote): HttpProblem {
 }
 
 export async function viewQuote(config: Config, token: string): Promise<PublicQuote> {
-  const quote = await byToken(config, token);
-  if (quote.state === 'quoted' && !quote.revoked) {
-    await quote.update({ state: 'viewed', viewedAt: new Date() });
-    await Estimate.update({ state: 'viewed' }, { where: { id: quote.estimateId, state: 'quoted' } });
+  const found = await byToken(config, token);
+  await lapseCheckouts(found.id);
+  if (found.state === 'quoted' && !found.revoked) {
+    // Conditional, so that an answer given meanwhile is never overwritten by "viewed".
+    const [n] = await Quote.update({ state: 'viewed', viewedAt: new Date() }, { where: { id: found.id, state: 'quoted', revoked: false } });
+    if (n > 0) await Estimate.update({ state: 'viewed' }, { where: { id: found.estimateId, state: 'quoted' } });
   }
+  const quote = (await Quote.findByPk(found.id))!;
   const estimate = (await Estimate.findByPk(quote.estimateId))!;
   const [customer, piece, revision, workshop, { settings }] = await Promise.all([
     Customer.findByPk(estimate.customerId),
@@ -62,6 +87,11 @@ export async function viewQuote(config: Config, token: string): Promise<PublicQu
     loadSettings(),
   ]);
   const r = revision!.result;
+  const [schedule, lastPayment, openPayment] = await Promise.all([
+    bookedSchedule(quote.id),
+    Payment.findOne({ where: { quoteId: quote.id, flag: null }, order: [['id', 'DESC']] }),
+    Payment.findOne({ where: { quoteId: quote.id, status: 'pending' } }),
+  ]);
   return {
     number: quote.number,
     state: quote.state,
@@ -74,12 +104,18 @@ export async function viewQuote(config: Config, token: string): Promise<PublicQu
     work: {
       systemName: revision!.catalog.systems.find((s) => s.key === r.system)?.name ?? r.system,
       coats: r.totals.coats,
-      labourHours: r.totals.labourHours,
+      labourHours: roundHoursForCustomer(r.totals.labourHours),
       calendarDays: r.totals.calendarDays,
       areaText: formatArea(r.totals.areaM2, settings.units),
-      stages: r.stages.filter((s) => s.sessions > 0).map((s) => ({ name: s.name, sessions: s.sessions, coats: s.coats })),
+      stages: r.stages
+        .filter((s) => s.sessions > 0)
+        .map((s) => ({ name: s.name, sessions: s.sessions, coats: s.coats > 0 ? s.coats : null, hours: roundHoursForCustomer(s.labourHours) })),
     },
-    pricing: quote.pricing,
+    // The customer's lines only: the labour rate, overhead and margin stay on staff screens.
+    pricing: { ...quote.pricing, lines: customerPriceLines(quote.pricing, r.totals.labourHours) },
+    schedule: { booked: schedule !== null, start: schedule?.start ?? null, ready: schedule?.ready ?? null, calendarDays: r.totals.calendarDays },
+    agreed: agreedOf(quote),
+    checkout: { open: openPayment !== null, lastStatus: lastPayment?.status ?? null },
     extras: quote.extras,
     terms: QUOTE_TERMS,
     cautions: customerCautions(r.cautions),
@@ -99,41 +135,90 @@ export async function publicPdf(config: Config, token: string): Promise<{ number
   return { number: quote.number, doc: await buildDocument(quote.id, config.uploadsDir) };
 }
 
+/**
+ * The customer accepts, with the extras they ticked. Under the estimate's row lock: no other quote for the estimate
+ * may be accepted already (409 naming it), the other open quotes are withdrawn, and the database's one-agreement
+ * index refuses a second acceptance whatever the interleaving.
+ */
 export async function acceptQuote(sequelize: Sequelize, config: Config, token: string, input: AcceptInput, ip: string): Promise<PublicQuote> {
-  await sequelize.transaction(async (transaction) => {
-    const quote = await byToken(config, token, transaction);
-    if (closedReason(quote)) throw closedProblem(quote);
-    const unknown = input.extras.filter((id) => !quote.extras.some((x) => x.id === id));
-    if (unknown.length) throw new HttpProblem(400, 'unknown_extra', 'Unknown extra', `extras: ${unknown.join(', ')} is not offered on this quote`, { field: 'extras' });
-    const amounts = acceptedAmounts(quote, input.extras);
-    await quote.update(
-      { state: 'accepted', acceptedAt: new Date(), acceptedName: input.name, acceptedIp: ip, acceptedExtras: input.extras, acceptedTotal: amounts.total, acceptedDeposit: amounts.deposit },
-      { transaction },
-    );
-    await Estimate.update({ state: 'accepted' }, { where: { id: quote.estimateId }, transaction });
-    await audit({ userId: null, action: 'quote.accept', entityType: 'quote', entityId: quote.id, after: { name: input.name, ip, extras: input.extras, total: amounts.total } }, transaction);
-  });
+  try {
+    await sequelize.transaction(async (transaction) => {
+      const { quote, estimate } = await lockByToken(config, token, transaction);
+      if (closedReason(quote)) throw closedProblem(quote);
+      const agreed = await agreementOf(estimate.id, transaction);
+      if (agreed && agreed.id !== quote.id) throw alreadyAgreed(estimate.number, agreed);
+      const unknown = input.extras.filter((id) => !quote.extras.some((x) => x.id === id));
+      if (unknown.length) throw new HttpProblem(400, 'unknown_extra', 'Unknown extra', `extras: ${unknown.join(', ')} is not offered on this quote`, { field: 'extras' });
+      const extras = quote.extras.filter((x) => input.extras.includes(x.id)).map((x) => x.id);
+      const amounts = acceptedAmounts(quote, extras);
+      await quote.update(
+        { state: 'accepted', acceptedAt: new Date(), acceptedName: input.name, acceptedIp: ip, acceptedExtras: extras, acceptedTotal: amounts.total, acceptedDeposit: amounts.deposit },
+        { transaction },
+      );
+      const [, withdrawn] = await Quote.update(
+        { state: 'withdrawn', revoked: true },
+        { where: { estimateId: estimate.id, id: { [Op.ne]: quote.id }, state: { [Op.in]: ['draft', 'quoted', 'viewed'] } }, transaction, returning: ['id', 'number'] },
+      );
+      await estimate.update({ state: 'accepted' }, { transaction });
+      await audit(
+        {
+          userId: null,
+          action: 'quote.accept',
+          entityType: 'quote',
+          entityId: quote.id,
+          after: { name: input.name, ip, extras, total: amounts.total, deposit: amounts.deposit, withdrawn: (withdrawn as unknown as Quote[]).map((q) => q.number) },
+        },
+        transaction,
+      );
+    });
+  } catch (err) {
+    if (err instanceof UniqueConstraintError) {
+      const quote = await byToken(config, token);
+      const agreed = await agreementOf(quote.estimateId);
+      const estimate = await Estimate.findByPk(quote.estimateId);
+      if (agreed && estimate) throw alreadyAgreed(estimate.number, agreed);
+    }
+    throw err;
+  }
   return viewQuote(config, token);
 }
 
 export async function declineQuote(sequelize: Sequelize, config: Config, token: string, reason: string, ip: string): Promise<PublicQuote> {
   await sequelize.transaction(async (transaction) => {
-    const quote = await byToken(config, token, transaction);
+    const { quote, estimate } = await lockByToken(config, token, transaction);
     if (closedReason(quote)) throw closedProblem(quote);
     await quote.update({ state: 'declined', declinedAt: new Date(), declineReason: reason || null }, { transaction });
-    await Estimate.update({ state: 'declined' }, { where: { id: quote.estimateId }, transaction });
+    // The estimate is declined only when no other quote for it is still open.
+    const open = await Quote.count({ where: { estimateId: estimate.id, id: { [Op.ne]: quote.id }, state: { [Op.in]: ['quoted', 'viewed'] } }, transaction });
+    if (open === 0) await estimate.update({ state: 'declined' }, { transaction });
     await audit({ userId: null, action: 'quote.decline', entityType: 'quote', entityId: quote.id, after: { reason, ip } }, transaction);
   });
   return viewQuote(config, token);
 }
 
-/** Opens the provider's checkout for the deposit of an accepted quote. */
-export async function depositCheckout(config: Config, token: string): Promise<{ url: string }> {
+/** Opens the provider's checkout for the deposit of an accepted quote, or returns the one still open. */
+export async function depositCheckout(sequelize: Sequelize, config: Config, token: string): Promise<{ url: string; reused: boolean }> {
   const quote = await byToken(config, token);
   if (quote.state === 'deposit-paid') throw closedProblem(quote);
   if (quote.state !== 'accepted') throw new HttpProblem(409, 'not_accepted', 'Accept first', 'Accept the quote before paying the deposit.');
   const estimate = (await Estimate.findByPk(quote.estimateId))!;
   const customer = await Customer.findByPk(estimate.customerId);
-  const url = await startCheckout(config, quote, quoteLink(config, token), `Deposit for quote ${quote.number}: ${estimate.title}`, quote.recipient ?? customer?.email ?? null);
-  return { url };
+  return openCheckout(sequelize, config, quote.id, {
+    returnUrl: quoteLink(config, token),
+    description: `Deposit for quote ${quote.number}: ${estimate.title}`,
+    email: quote.recipient ?? customer?.email ?? null,
+  });
+}
+
+/** The customer came back from the payment page without paying: the open checkout is closed and shown as cancelled. */
+export async function depositCancelled(config: Config, token: string): Promise<PublicQuote> {
+  const quote = await byToken(config, token);
+  await cancelCheckout(config, quote.id);
+  return viewQuote(config, token);
+}
+
+/** The acceptance record through the customer's link (a 409 before acceptance). */
+export async function acceptanceRecord(config: Config, token: string): Promise<AcceptanceRecord> {
+  const quote = await byToken(config, token);
+  return acceptanceRecordOf(quote.id);
 }

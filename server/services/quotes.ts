@@ -8,12 +8,16 @@ import fs from 'node:fs/promises';
 import { Op, QueryTypes, type Sequelize, type Transaction, type WhereOptions } from 'sequelize';
 import type { z } from 'zod';
 import { CUSTOMER_VENTILATION_TEXT, customerCautions, estimate as runEstimate } from '@shared/calc';
-import { money, percentOf, sumMoney } from '@shared/money';
+import { money, percentOf } from '@shared/money';
 import type { Page, Role } from '@shared/schemas/auth';
 import type { EstimateState } from '@shared/schemas/estimates';
 import { formatArea } from '@shared/units';
 import {
   QUOTE_TERMS,
+  agreedFigures,
+  customerPriceLines,
+  roundHoursForCustomer,
+  type AgreedFigures,
   type CreateQuoteSchema,
   type PipelineRow,
   type QuoteDetail,
@@ -25,12 +29,15 @@ import {
 } from '@shared/schemas/quotes';
 import type { Config } from '../config';
 import { HttpProblem, problems } from '../http/problem';
-import { Customer, Estimate, EstimateRevision, OutboxMessage, Payment, Piece, PiecePhoto, Quote, User, Workshop } from '../models';
+import { Customer, Estimate, EstimateRevision, Job, OutboxMessage, Payment, Piece, PiecePhoto, Quote, User, Workshop } from '../models';
+import type { AcceptanceRecord } from '../pdf/acceptance-pdf';
 import type { QuoteDocument } from '../pdf/quote-document';
 import { renderQuotePdf } from '../pdf/quote-pdf';
 import { audit } from './audit';
 import { loadSettings } from './catalog';
 import { deliver } from './mail';
+import { composeMail } from './mail-compose';
+import { lapseCheckouts, paymentDto } from './payments';
 import { containsPattern, direction, offset } from './paging';
 import { storedPath } from './photos';
 
@@ -92,11 +99,46 @@ function withTax(price: string, taxPct: number): string {
   return money(price).plus(percentOf(price, taxPct)).toFixed(2);
 }
 
-/** The total and deposit once the customer has chosen which extras they take. */
-export function acceptedAmounts(q: Pick<Quote, 'total' | 'extras' | 'depositPct'>, extraIds: readonly string[]): { total: string; deposit: string } {
-  const chosen = q.extras.filter((x) => extraIds.includes(x.id));
-  const total = sumMoney([q.total, ...chosen.map((x) => x.priceWithTax)]);
-  return { total: total.toFixed(2), deposit: percentOf(total, Number(q.depositPct)).toFixed(2) };
+/** The total, deposit and balance once the customer has chosen which extras they take. */
+export function acceptedAmounts(q: Pick<Quote, 'total' | 'extras' | 'depositPct'>, extraIds: readonly string[]): AgreedFigures {
+  return agreedFigures({ total: Number(q.total).toFixed(2), depositPct: Number(q.depositPct), extras: q.extras }, extraIds);
+}
+
+/** What the customer agreed to, from an accepted quote's record (null before acceptance). */
+export function agreedOf(q: Quote): AgreedFigures | null {
+  if (q.acceptedTotal === null || q.acceptedDeposit === null) return null;
+  const figures = acceptedAmounts(q, q.acceptedExtras ?? []);
+  // The stored figures are what was agreed; the recomputation only supplies the extras and their hours.
+  const total = Number(q.acceptedTotal).toFixed(2);
+  const deposit = Number(q.acceptedDeposit).toFixed(2);
+  return { ...figures, total, deposit, balance: money(total).minus(money(deposit)).toFixed(2) };
+}
+
+/** The estimate's accepted quote, if one is: the one agreement a piece of work has. */
+export async function agreementOf(estimateId: number, transaction?: Transaction): Promise<Quote | null> {
+  return Quote.findOne({ where: { estimateId, state: { [Op.in]: ['accepted', 'deposit-paid'] } }, transaction });
+}
+
+export function alreadyAgreed(estimateNumber: string, agreed: Quote): HttpProblem {
+  return new HttpProblem(
+    409,
+    'estimate_already_agreed',
+    'Already agreed',
+    `Quote ${agreed.number} for estimate ${estimateNumber} was accepted${agreed.acceptedAt ? ` on ${agreed.acceptedAt.toISOString().slice(0, 10)}` : ''}: no other quote for it can be sent or accepted.`,
+  );
+}
+
+/**
+ * Locks a quote for a change of state, its estimate first: every transaction that moves a quote takes the estimate's
+ * row, then the quote's, so two of them never wait on each other in opposite order.
+ */
+export async function lockQuote(quoteId: number, transaction: Transaction): Promise<{ quote: Quote; estimate: Estimate }> {
+  const peek = await Quote.findByPk(quoteId, { attributes: ['id', 'estimateId'], transaction });
+  if (!peek) throw problems.notFound('Quote');
+  const estimate = await Estimate.findByPk(peek.estimateId, { transaction, lock: transaction.LOCK.UPDATE });
+  const quote = await Quote.findByPk(quoteId, { transaction, lock: transaction.LOCK.UPDATE });
+  if (!estimate || !quote) throw problems.notFound('Quote');
+  return { quote, estimate };
 }
 
 // ------------------------------------------------------------------------------------------------- DTOs
@@ -146,6 +188,7 @@ function summary(q: Quote, e: Estimate, c: Customer, revision: number): QuoteSum
 
 export async function getQuote(id: number, transaction?: Transaction): Promise<QuoteDetail> {
   await expireQuotes();
+  await lapseCheckouts(id, transaction);
   const { quote: q, estimate, customer } = await load(id, transaction);
   const payments = await Payment.findAll({ where: { quoteId: id }, order: [['id', 'ASC']], transaction });
   return {
@@ -160,14 +203,9 @@ export async function getQuote(id: number, transaction?: Transaction): Promise<Q
     acceptedExtras: q.acceptedExtras,
     acceptedDeposit: q.acceptedDeposit === null ? null : Number(q.acceptedDeposit).toFixed(2),
     declineReason: q.declineReason,
-    payments: payments.map((p) => ({
-      id: p.id,
-      amount: (Number(p.amountMinor) / 10 ** (new Intl.NumberFormat('en', { style: 'currency', currency: p.currency }).resolvedOptions().maximumFractionDigits ?? 2)).toFixed(2),
-      currency: p.currency,
-      status: p.status,
-      createdAt: p.createdAt.toISOString(),
-      paidAt: iso(p.paidAt),
-    })),
+    agreed: agreedOf(q),
+    flagged: payments.filter((p) => p.flag).length,
+    payments: payments.map(paymentDto),
   };
 }
 
@@ -197,6 +235,8 @@ export async function createQuote(sequelize: Sequelize, actor: { id: number; rol
     const estimate = await Estimate.findByPk(estimateId, { transaction, lock: transaction.LOCK.UPDATE });
     if (!estimate) throw problems.notFound('Estimate');
     if (estimate.archived) throw problems.conflict('estimate_archived', `Estimate ${estimate.number} is archived.`);
+    const agreed = await agreementOf(estimate.id, transaction);
+    if (agreed) throw alreadyAgreed(estimate.number, agreed);
     if (!QUOTABLE.includes(estimate.state)) {
       const why = estimate.state === 'draft' ? 'is still a draft: the estimator marks it priced first' : `is ${estimate.state}`;
       throw problems.conflict('estimate_not_quotable', `Estimate ${estimate.number} ${why}.`);
@@ -206,9 +246,11 @@ export async function createQuote(sequelize: Sequelize, actor: { id: number; rol
       : await EstimateRevision.findByPk(estimate.currentRevisionId!, { transaction });
     if (!revision) throw problems.badRequest('unknown_revision', `revision: estimate ${estimate.number} has no revision ${input.revision}`, 'revision');
     const { settings } = await loadSettings(transaction);
-    const discountPct = input.discountPct ?? revision.input.discountPct ?? 0;
+    // The estimator's discount carries into the quote; sales may change it, within the owner's cap.
+    const estimatorDiscount = revision.input.discountPct ?? 0;
+    const discountPct = input.discountPct ?? estimatorDiscount;
     const cap = settings.pricing.maxDiscountPct;
-    if (actor.role !== 'owner' && discountPct > cap) {
+    if (actor.role !== 'owner' && discountPct !== estimatorDiscount && discountPct > cap) {
       throw problems.badRequest('discount_over_cap', `discountPct: at most ${cap} % (the owner's limit for sales)`, 'discountPct');
     }
     const validUntil = input.validUntil ?? new Date(Date.now() + settings.quoteValidityDays * 86_400_000).toISOString().slice(0, 10);
@@ -261,10 +303,6 @@ export async function createQuote(sequelize: Sequelize, actor: { id: number; rol
   return getQuote(id);
 }
 
-function escapeHtml(s: string): string {
-  return s.replace(/[&<>"']/g, (c) => ({ '&': '&amp;', '<': '&lt;', '>': '&gt;', '"': '&quot;', "'": '&#39;' })[c]!);
-}
-
 function formatMoney(amount: string, currency: string): string {
   return new Intl.NumberFormat('en-GB', { style: 'currency', currency }).format(Number(amount));
 }
@@ -275,10 +313,14 @@ function formatMoney(amount: string, currency: string): string {
  */
 export async function sendQuote(sequelize: Sequelize, config: Config, actorId: number, id: number, recipient?: string): Promise<QuoteDetail> {
   const { token, outboxId } = await sequelize.transaction(async (transaction) => {
-    const { quote, estimate, customer } = await load(id, transaction);
+    const { quote, estimate } = await lockQuote(id, transaction);
+    const customer = await Customer.findByPk(estimate.customerId, { transaction });
+    if (!customer) throw problems.notFound('Quote');
     if (!['draft', 'quoted', 'viewed'].includes(quote.state)) {
       throw problems.conflict('quote_closed', `Quote ${quote.number} is ${quote.state}: it cannot be sent again.`);
     }
+    const agreed = await agreementOf(estimate.id, transaction);
+    if (agreed) throw alreadyAgreed(estimate.number, agreed);
     if (quote.validUntil < today()) throw problems.conflict('quote_expired', `Quote ${quote.number} expired on ${quote.validUntil}. Make a new quote.`);
     const to = recipient ?? quote.recipient;
     if (!to) throw problems.badRequest('no_recipient', `recipient: ${customer.name} has no e-mail address; give one`, 'recipient');
@@ -290,20 +332,17 @@ export async function sendQuote(sequelize: Sequelize, config: Config, actorId: n
     const validUntil = new Date(`${quote.validUntil}T12:00:00Z`).toLocaleDateString('en-GB', { day: 'numeric', month: 'long', year: 'numeric', timeZone: 'UTC' });
     const total = formatMoney(quote.total, quote.currency);
     const deposit = formatMoney(quote.deposit, quote.currency);
-    const intro = quote.message ? `${quote.message}\n\n` : '';
-    const text =
-      `Dear ${customer.name},\n\n${intro}Please find attached our quote ${quote.number} for ${estimate.title}: ${total}, ` +
-      `with a deposit of ${deposit} to book the work. It is valid until ${validUntil}.\n\n` +
-      `You can read it, accept or decline it, and pay the deposit here:\n${url}\n\n` +
-      `French polishing uses flammable spirit and shellac; the work is done under our ventilation and fire precautions.\n\n` +
-      `${workshop.name}\n${workshop.phone ?? ''}\n${workshop.email ?? ''}\n`;
-    const html =
-      `<p>Dear ${escapeHtml(customer.name)},</p>${quote.message ? quote.message.split(/\n{2,}/).map((p) => `<p>${escapeHtml(p)}</p>`).join('') : ''}` +
-      `<p>Please find attached our quote <strong>${escapeHtml(quote.number)}</strong> for ${escapeHtml(estimate.title)}: <strong>${escapeHtml(total)}</strong>, ` +
-      `with a deposit of ${escapeHtml(deposit)} to book the work. It is valid until ${escapeHtml(validUntil)}.</p>` +
-      `<p><a href="${escapeHtml(url)}">Read, accept or decline the quote, and pay the deposit</a></p>` +
-      `<p style="font-size:12px;color:#66412c">French polishing uses flammable spirit and shellac; the work is done under our ventilation and fire precautions.</p>` +
-      `<p>${escapeHtml(workshop.name)}<br>${escapeHtml(workshop.phone ?? '')}<br>${escapeHtml(workshop.email ?? '')}</p>`;
+    const author = quote.createdBy ? await User.findByPk(quote.createdBy, { transaction }) : null;
+    const { text, html } = composeMail({
+      name: customer.name,
+      message: quote.message,
+      paragraphs: [
+        { text: `Please find attached our quote ${quote.number} for ${estimate.title}: ${total}, with a deposit of ${deposit} to book the work. It is valid until ${validUntil}.` },
+        { text: 'You can read it, accept or decline it, and pay the deposit here:', link: { url, label: 'Read, accept or decline the quote, and pay the deposit' } },
+        { text: 'French polishing uses flammable spirit and shellac; the work is done under our ventilation and fire precautions.', small: true },
+      ],
+      signOff: { from: author?.name ?? null, workshop: workshop.name, phone: workshop.phone ?? null, email: workshop.email ?? null },
+    });
     const outbox = await OutboxMessage.create(
       {
         quoteId: quote.id,
@@ -333,27 +372,28 @@ export async function sendQuote(sequelize: Sequelize, config: Config, actorId: n
   };
 }
 
-/** After the mail server took a quote's message: the quote is sent and its estimate quoted. */
+/**
+ * After the mail server took a quote's message: a quote not sent before becomes sent, and its estimate quoted. Other
+ * quotes of the estimate are left as they are (the customer may be reading one): they are withdrawn when one of
+ * them is accepted, or by sales. A quote closed meanwhile (accepted, withdrawn, expired) is not touched.
+ */
 export async function markSent(sequelize: Sequelize, id: number): Promise<void> {
   await sequelize.transaction(async (transaction) => {
-    const { quote, estimate } = await load(id, transaction);
+    const { quote, estimate } = await lockQuote(id, transaction);
+    if (!['draft', 'quoted', 'viewed'].includes(quote.state)) return;
     if (quote.state === 'draft') await quote.update({ state: 'quoted', sentAt: new Date() }, { transaction });
     else await quote.update({ sentAt: new Date() }, { transaction });
-    // Only the newest quote speaks for the estimate: older open ones are withdrawn.
-    await Quote.update(
-      { state: 'withdrawn', revoked: true },
-      { where: { estimateId: estimate.id, id: { [Op.ne]: quote.id }, state: { [Op.in]: ['draft', 'quoted', 'viewed'] } }, transaction },
-    );
-    if (['priced', 'quoted', 'viewed', 'expired', 'declined'].includes(estimate.state)) await estimate.update({ state: quote.state === 'viewed' ? 'viewed' : 'quoted' }, { transaction });
+    if (['priced', 'expired', 'declined'].includes(estimate.state)) await estimate.update({ state: 'quoted' }, { transaction });
   });
 }
 
 export async function withdrawQuote(sequelize: Sequelize, actorId: number, id: number): Promise<QuoteDetail> {
   await sequelize.transaction(async (transaction) => {
-    const { quote, estimate } = await load(id, transaction);
+    const { quote, estimate } = await lockQuote(id, transaction);
     if (!['draft', 'quoted', 'viewed'].includes(quote.state)) throw problems.conflict('quote_closed', `Quote ${quote.number} is ${quote.state}.`);
     await quote.update({ state: 'withdrawn', revoked: true }, { transaction });
-    if (['quoted', 'viewed'].includes(estimate.state)) await estimate.update({ state: 'priced' }, { transaction });
+    const stillOpen = await Quote.count({ where: { estimateId: estimate.id, state: { [Op.in]: ['quoted', 'viewed'] } }, transaction });
+    if (['quoted', 'viewed'].includes(estimate.state) && stillOpen === 0) await estimate.update({ state: 'priced' }, { transaction });
     await audit({ userId: actorId, action: 'quote.withdraw', entityType: 'quote', entityId: id }, transaction);
   });
   return getQuote(id);
@@ -422,7 +462,28 @@ export async function buildDocument(quoteId: number, uploadsDir: string, transac
   const { quote, estimate, customer } = await load(quoteId, transaction);
   const revision = await EstimateRevision.findByPk(quote.revisionId, { transaction });
   if (!revision) throw new HttpProblem(500, 'quote_without_revision', 'Quote has no revision');
-  return documentFor({ uploadsDir, estimate, customer, revision, pricing: quote.pricing, number: quote.number, validUntil: quote.validUntil, message: quote.message, extras: quote.extras, createdBy: quote.createdBy, transaction });
+  return documentFor({
+    uploadsDir,
+    estimate,
+    customer,
+    revision,
+    pricing: quote.pricing,
+    number: quote.number,
+    validUntil: quote.validUntil,
+    message: quote.message,
+    extras: quote.extras,
+    createdBy: quote.createdBy,
+    agreed: agreedOf(quote),
+    schedule: await bookedSchedule(quote.id, transaction),
+    transaction,
+  });
+}
+
+/** The booked dates of the quote's live job: the first day in the room and the day it leaves. Null until booked. */
+export async function bookedSchedule(quoteId: number, transaction?: Transaction): Promise<{ start: string; ready: string } | null> {
+  const job = await Job.findOne({ where: { quoteId, state: { [Op.in]: ['booked', 'in-progress', 'finished'] } }, transaction });
+  if (!job || !job.roomStart || !job.roomEnd) return null;
+  return { start: job.roomStart.slice(0, 10), ready: job.roomEnd.slice(0, 10) };
 }
 
 export async function estimateDocument(estimateId: number, uploadsDir: string): Promise<QuoteDocument> {
@@ -434,7 +495,7 @@ export async function estimateDocument(estimateId: number, uploadsDir: string): 
   const { settings } = await loadSettings();
   const depositPct = settings.pricing.depositPct;
   const pricing = quotePricing(revision, revision.input.discountPct ?? 0, depositPct);
-  return documentFor({ uploadsDir, estimate, customer, revision, pricing, number: `Draft of ${estimate.number}`, validUntil: estimate.validUntil, message: '', extras: [], createdBy: estimate.ownerId });
+  return documentFor({ uploadsDir, estimate, customer, revision, pricing, number: `Draft of ${estimate.number}`, validUntil: estimate.validUntil, message: '', extras: [], createdBy: estimate.ownerId, agreed: null, schedule: null });
 }
 
 async function documentFor(a: {
@@ -448,6 +509,8 @@ async function documentFor(a: {
   message: string;
   extras: QuoteExtra[];
   createdBy: number | null;
+  agreed: AgreedFigures | null;
+  schedule: { start: string; ready: string } | null;
   transaction?: Transaction;
 }): Promise<QuoteDocument> {
   const { transaction, revision, pricing } = a;
@@ -489,17 +552,65 @@ async function documentFor(a: {
       areaM2: r.totals.areaM2,
       areaText: formatArea(r.totals.areaM2, settings.units),
       totalCoats: r.totals.coats,
-      labourHours: r.totals.labourHours,
+      labourHours: roundHoursForCustomer(r.totals.labourHours),
       calendarDays: r.totals.calendarDays,
-      startDate: r.calendar.start ? r.calendar.start.slice(0, 10) : null,
-      readyDate: r.calendar.end ? r.calendar.end.slice(0, 10) : null,
-      stages: r.stages.filter((s) => s.sessions > 0).map((s) => ({ name: s.name, sessions: s.sessions, coats: s.coats, hours: s.labourHours, restText: restText(s.restHours) })),
+      // Dates are promised only once the job is booked; the estimate's own calendar is a planning guess.
+      startDate: a.schedule?.start ?? null,
+      readyDate: a.schedule?.ready ?? null,
+      datesBooked: a.schedule !== null,
+      stages: r.stages
+        .filter((s) => s.sessions > 0)
+        .map((s) => ({ name: s.name, sessions: s.sessions, coats: s.coats > 0 ? s.coats : null, hours: roundHoursForCustomer(s.labourHours), restText: restText(s.restHours) })),
     },
-    price: { lines: pricing.lines.map((l) => ({ label: l.label, amount: l.amount })), total: pricing.total, depositPct: pricing.depositPct, deposit: pricing.deposit, balance: pricing.balance },
+    price: {
+      lines: customerPriceLines(pricing, r.totals.labourHours).map((l) => ({ label: l.label, amount: l.amount })),
+      total: pricing.total,
+      depositPct: pricing.depositPct,
+      deposit: a.agreed?.deposit ?? pricing.deposit,
+      balance: a.agreed?.balance ?? pricing.balance,
+      agreed: a.agreed ? { extras: a.agreed.extras.map((x) => ({ label: x.label, price: x.priceWithTax })), total: a.agreed.total } : null,
+    },
     extras: a.extras.map((x) => ({ label: x.label, description: x.description, hours: x.hours, price: x.priceWithTax })),
     terms: QUOTE_TERMS,
     // The customer reads plain cautions: the workshop's air-change arithmetic stays on staff screens.
     cautions: customerCautions(r.cautions),
     ventilationText: CUSTOMER_VENTILATION_TEXT,
+  };
+}
+
+/** The acceptance record of an accepted quote: what was agreed, by whom, when, from which address. */
+export async function acceptanceRecordOf(quoteId: number): Promise<AcceptanceRecord> {
+  const { quote, estimate, customer } = await load(quoteId);
+  const agreed = agreedOf(quote);
+  if (!agreed || !quote.acceptedAt) throw problems.conflict('not_accepted', `Quote ${quote.number} has not been accepted: there is no acceptance record yet.`);
+  const [revision, workshop, { settings }, piece] = await Promise.all([
+    EstimateRevision.findByPk(quote.revisionId),
+    Workshop.findOne({ order: [['id', 'ASC']] }),
+    loadSettings(),
+    Piece.findByPk(estimate.pieceId),
+  ]);
+  const r = revision!.result;
+  return {
+    paperSize: settings.paperSize,
+    workshop: { name: workshop?.name ?? 'Workshop', address: workshop?.address ?? null, email: workshop?.email ?? null, phone: workshop?.phone ?? null },
+    quoteNumber: quote.number,
+    estimateNumber: `${estimate.number} rev. ${revision!.number}`,
+    customerName: customer.name,
+    piece: piece?.description ?? estimate.title,
+    systemName: revision!.catalog.systems.find((s) => s.key === r.system)?.name ?? r.system,
+    currency: quote.currency,
+    taxLabel: quote.pricing.taxLabel,
+    quotedTotal: Number(quote.total).toFixed(2),
+    extrasTaken: agreed.extras.map((x) => ({ label: x.label, hours: x.hours, price: x.priceWithTax })),
+    extrasDeclined: quote.extras.filter((x) => !agreed.extras.some((y) => y.id === x.id)).map((x) => x.label),
+    agreedTotal: agreed.total,
+    depositPct: Number(quote.depositPct),
+    deposit: agreed.deposit,
+    balance: agreed.balance,
+    acceptedName: quote.acceptedName ?? '',
+    acceptedAt: quote.acceptedAt.toISOString(),
+    acceptedIp: quote.acceptedIp ?? '',
+    depositPaidAt: iso(quote.depositPaidAt),
+    terms: QUOTE_TERMS,
   };
 }

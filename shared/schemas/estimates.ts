@@ -57,6 +57,17 @@ export interface PersonRef {
   name: string;
 }
 
+/** What the customer agreed to for an estimate: its accepted quote's total with the extras taken, deposit and balance. */
+export interface EstimateAgreement {
+  quoteId: number;
+  quoteNumber: string;
+  total: string;
+  deposit: string;
+  balance: string;
+  extras: string[];
+  depositPaid: boolean;
+}
+
 export interface EstimateSummary {
   id: number;
   number: string;
@@ -73,6 +84,8 @@ export interface EstimateSummary {
   archived: boolean;
   createdAt: string;
   updatedAt: string;
+  /** The accepted quote's figures, once a quote of it is accepted (lists and the estimate page fill it). */
+  agreed?: EstimateAgreement | null;
 }
 
 export interface RevisionSummary {

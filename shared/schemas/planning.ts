@@ -5,6 +5,7 @@
  * Times on the board are local and carry no time zone ("2026-12-07T08:00"), as in the coat calendar.
  */
 import { z } from 'zod';
+import type { AgreedFigures } from './quotes';
 import type { DayOccupancy, PolisherOverbooking, RoomOverbooking, WhyNot } from '../calc/planning/types';
 import type { PackCount } from '../calc/packs';
 import type { StageKind } from './catalog';
@@ -40,6 +41,9 @@ export const STAGE_KIND_LABELS: Record<StageKind, string> = {
   burnish: 'Burnishing',
   wax: 'Waxing',
 };
+
+/** A job's session kinds: the finishing stages, and extra work the customer took with the quote. */
+export type JobStageKind = StageKind | 'extra';
 
 /** Who may make, book, move and cancel jobs, and manage polishers. */
 export const PLANNERS = ['owner', 'workshop'] as const;
@@ -164,7 +168,7 @@ export interface JobSessionDto {
   id: number;
   index: number;
   stage: string;
-  stageKind: StageKind;
+  stageKind: JobStageKind;
   stageName: string;
   /** Session number within its stage, and how many the stage has. */
   session: number;
@@ -218,7 +222,7 @@ export interface OverbookingDto {
 
 export interface StagePlanVsActual {
   stage: string;
-  stageKind: StageKind;
+  stageKind: JobStageKind;
   name: string;
   sessions: number;
   sessionsDone: number;
@@ -244,6 +248,8 @@ export interface JobDetail extends JobSummary {
   startMode: 'earliest' | 'date' | null;
   stages: StagePlanVsActual[];
   sessions: JobSessionDto[];
+  /** What the customer agreed to in the quote: the total with the extras taken, the deposit and the balance due. */
+  agreed: (AgreedFigures & { currency: string }) | null;
 }
 
 export interface PlannedSessionDto {
@@ -297,7 +303,7 @@ export interface BoardSession {
   index: number;
   label: string;
   stageName: string;
-  stageKind: StageKind;
+  stageKind: JobStageKind;
   start: string;
   end: string;
   restUntil: string;

@@ -44,7 +44,8 @@ export const CreateQuoteSchema = z
     revision: z.number().int().min(1).optional(),
     message: z.string().trim().max(4000).default(''),
     extras: z.array(QuoteExtraInputSchema).max(12).default([]),
-    discountPct: z.number({ message: 'must be a percentage' }).min(0).max(100).default(0),
+    /** The estimate's own discount when left out. */
+    discountPct: z.number({ message: 'must be a percentage' }).min(0).max(100).optional(),
     depositPct: z.number({ message: 'must be a percentage' }).min(0).max(100).optional(),
     validUntil: isoDate.optional(),
     /** Where to send it; the customer's e-mail when left out. */
@@ -62,6 +63,94 @@ export interface QuotePricing {
   taxLabel: string;
   taxPct: number;
   currency: string;
+}
+
+/** What the customer agreed to: the quote's total with the extras they ticked, and the deposit and balance on it. */
+export interface AgreedFigures {
+  total: string;
+  deposit: string;
+  balance: string;
+  /** The extras the customer took, in the quote's order. */
+  extras: QuoteExtra[];
+  /** Hands-on hours the extras add to the job. */
+  extraHours: number;
+}
+
+/** The total, deposit and balance on the accepted total with the extras the customer took (decimal, to the cent). */
+export function agreedFigures(q: { total: string; depositPct: number; extras: QuoteExtra[] }, extraIds: readonly string[]): AgreedFigures {
+  const chosen = q.extras.filter((x) => extraIds.includes(x.id));
+  const cents = (s: string) => Math.round(Number(s) * 100);
+  const totalC = cents(q.total) + chosen.reduce((t, x) => t + cents(x.priceWithTax), 0);
+  // Integer cents and a whole-number percentage basis: the half-cent case is exact, and rounds up as the database does.
+  const depositC = Math.round((totalC * Math.round(q.depositPct * 100)) / 10_000);
+  const fmt = (c: number) => (c / 100).toFixed(2);
+  return {
+    total: fmt(totalC),
+    deposit: fmt(depositC),
+    balance: fmt(totalC - depositC),
+    extras: chosen,
+    extraHours: Math.round(chosen.reduce((t, x) => t + x.hours, 0) * 100) / 100,
+  };
+}
+
+/** Hours as the customer reads them: quarters under an hour, halves under ten, whole hours above. */
+export function roundHoursForCustomer(hours: number): number {
+  if (hours <= 0) return 0;
+  if (hours < 1) return Math.max(0.25, Math.round(hours * 4) / 4);
+  if (hours < 10) return Math.round(hours * 2) / 2;
+  return Math.round(hours);
+}
+
+/**
+ * The price as the customer reads it: materials, the work (labour with the workshop's overhead and margin folded
+ * in, with its hours), discount, tax and rounding. The labour rate, overhead and margin are never named; the lines
+ * still add up to the total exactly.
+ */
+export function customerPriceLines(pricing: Pick<QuotePricing, 'lines'>, labourHours: number): QuotePricing['lines'] {
+  const PRIVATE = new Set(['labour', 'overhead', 'margin']);
+  const cents = (s: string) => Math.round(Number(s) * 100);
+  const workC = pricing.lines.filter((l) => PRIVATE.has(l.code)).reduce((t, l) => t + cents(l.amount), 0);
+  const hours = roundHoursForCustomer(labourHours);
+  const work = { code: 'work', label: `The work: about ${hours.toLocaleString('en-GB')} h of hands-on polishing`, amount: (workC / 100).toFixed(2) };
+  const out: QuotePricing['lines'] = [];
+  for (const l of pricing.lines) {
+    if (l.code === 'labour') out.push(work);
+    else if (PRIVATE.has(l.code)) continue;
+    else if (l.code === 'rounding') out.push({ code: 'rounding', label: 'Rounding', amount: l.amount });
+    else out.push(l);
+  }
+  return out;
+}
+
+export const PAYMENT_STATUSES = ['pending', 'paid', 'cancelled', 'expired', 'refunded'] as const;
+export type PaymentStatus = (typeof PAYMENT_STATUSES)[number];
+/** Why a payment needs the owner's attention: paid after the deposit was paid, a different amount, or a checkout we never opened. */
+export type PaymentFlag = 'duplicate' | 'amount-mismatch' | 'unknown-checkout';
+export const PAYMENT_FLAG_LABELS: Record<PaymentFlag, string> = {
+  duplicate: 'Paid twice',
+  'amount-mismatch': 'Amount differs from the deposit',
+  'unknown-checkout': 'Payment for a checkout we did not open',
+};
+
+export interface PaymentDto {
+  id: number;
+  amount: string;
+  currency: string;
+  status: PaymentStatus;
+  createdAt: string;
+  paidAt: string | null;
+  expiresAt: string | null;
+  /** What the provider says it took, when it differs from what was asked. */
+  amountReceived: string | null;
+  flag: PaymentFlag | null;
+  note: string | null;
+  refundedAt: string | null;
+}
+
+/** A payment the owner should look at, with its quote. */
+export interface FlaggedPayment extends PaymentDto {
+  quote: { id: number; number: string; state: QuoteState };
+  customer: string;
 }
 
 export interface QuoteSummary {
@@ -97,7 +186,11 @@ export interface QuoteDetail extends QuoteSummary {
   acceptedExtras: string[] | null;
   acceptedDeposit: string | null;
   declineReason: string | null;
-  payments: { id: number; amount: string; currency: string; status: string; createdAt: string; paidAt: string | null }[];
+  /** What the customer agreed to, once accepted. */
+  agreed: AgreedFigures | null;
+  /** Payments that need the owner's attention (paid twice, wrong amount). */
+  flagged: number;
+  payments: PaymentDto[];
   /** Set only in the answer to "send": the customer's link, shown once. */
   link?: string;
   /** Set only in the answer to "send": whether the mail server took the message, and its error if not. */
@@ -115,8 +208,23 @@ export interface PublicQuote {
   piece: string;
   message: string;
   validUntil: string;
-  work: { systemName: string; coats: number; labourHours: number; calendarDays: number; areaText: string; stages: { name: string; sessions: number; coats: number }[] };
+  work: {
+    systemName: string;
+    coats: number;
+    /** Rounded for reading (see roundHoursForCustomer). */
+    labourHours: number;
+    calendarDays: number;
+    areaText: string;
+    /** Coats is null for a stage that lays no coat (stripping, filling, cutting back, waxing). */
+    stages: { name: string; sessions: number; coats: number | null; hours: number }[];
+  };
+  /** The price in the customer's lines (see customerPriceLines): no rate, overhead or margin. */
   pricing: QuotePricing;
+  /** When the work happens: booked dates once the job is booked; until then an estimate of how long it takes. */
+  schedule: { booked: boolean; start: string | null; ready: string | null; calendarDays: number };
+  agreed: AgreedFigures | null;
+  /** The deposit checkout still open, if any, and what became of the last one. */
+  checkout: { open: boolean; lastStatus: PaymentStatus | null };
   extras: QuoteExtra[];
   terms: string[];
   cautions: { code: string; severity: string; text: string }[];
@@ -164,7 +272,7 @@ export interface OutboxSummary {
   quoteId: number | null;
   to: string;
   subject: string;
-  status: 'queued' | 'sent' | 'failed';
+  status: 'queued' | 'sending' | 'sent' | 'failed';
   attempts: number;
   lastError: string | null;
   attachmentName: string | null;
@@ -179,7 +287,7 @@ export interface OutboxDetail extends OutboxSummary {
 /** The workshop's standard terms on every quote. */
 export const QUOTE_TERMS = [
   'The price covers the finishing work described; other repairs are quoted separately (see the optional work).',
-  'A deposit secures the booking in the drying room; the balance is due when the piece is collected or delivered.',
+  'Once the deposit is paid we book the work into the drying room and confirm the dates; the balance is due when the piece is collected or delivered.',
   'Dates depend on the drying of each coat: cold or damp weather can lengthen the rests between sessions.',
   'Old finishes sometimes hide damage that shows only once stripped; if so we will tell you before going further.',
   'The quote is valid until the date shown; prices after that follow the price list of the day.',

@@ -50,6 +50,8 @@ export const QUOTE: QuoteDetail = {
   acceptedTotal: null,
   acceptedDeposit: null,
   declineReason: null,
+  agreed: null,
+  flagged: 0,
   payments: [],
 };
 
@@ -62,7 +64,7 @@ export const PUBLIC_QUOTE: PublicQuote = {
   piece: 'Rosewood grand, about 1895',
   message: 'Thank you for bringing the grand to us.',
   validUntil: '2099-01-31',
-  work: { systemName: 'Full French polish', coats: 24, labourHours: 70, calendarDays: 21, areaText: '8.83 m²', stages: [{ name: 'Bodying up', sessions: 4, coats: 12 }] },
+  work: { systemName: 'Full French polish', coats: 24, labourHours: 70, calendarDays: 21, areaText: '8.83 m²', stages: [{ name: 'Strip and clean', sessions: 2, coats: null, hours: 9 }, { name: 'Bodying up', sessions: 4, coats: 12, hours: 18 }] },
   pricing: PRICING,
   extras: [EXTRA],
   terms: ['The quote is valid until the date shown.'],
@@ -75,4 +77,7 @@ export const PUBLIC_QUOTE: PublicQuote = {
   declinedAt: null,
   depositPaidAt: null,
   pricesIncludeTax: true,
+  schedule: { booked: false, start: null, ready: null, calendarDays: 21 },
+  agreed: null,
+  checkout: { open: false, lastStatus: null },
 };

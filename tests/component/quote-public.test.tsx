@@ -2,7 +2,7 @@ import { fireEvent, screen, within } from '@testing-library/react';
 import { Route, Routes } from 'react-router-dom';
 import { afterEach, describe, expect, it, vi } from 'vitest';
 import { PublicQuotePage } from '../../src/features/public-quote/routes/public-quote';
-import { PUBLIC_QUOTE } from './quote-fixtures';
+import { EXTRA, PUBLIC_QUOTE } from './quote-fixtures';
 import { fakeFetch, json, renderWithApp } from './render';
 
 afterEach(() => vi.unstubAllGlobals());
@@ -41,7 +41,7 @@ describe('the customer’s quote page', () => {
 
   it('needs the full name and the terms before accepting, and shows the total and deposit with the chosen extras', async () => {
     const net = renderPublic({
-      [`/api/public/quotes/${TOKEN}/accept`]: () => json({ ...PUBLIC_QUOTE, state: 'accepted', closed: 'accepted', acceptedName: 'Hester Quillfeather', acceptedAt: '2027-01-03T09:00:00Z', acceptedExtras: ['x1'], acceptedTotal: '4906.08', acceptedDeposit: '1471.82' }),
+      [`/api/public/quotes/${TOKEN}/accept`]: () => json({ ...PUBLIC_QUOTE, state: 'accepted', closed: 'accepted', acceptedName: 'Hester Quillfeather', acceptedAt: '2027-01-03T09:00:00Z', acceptedExtras: ['x1'], acceptedTotal: '4906.08', acceptedDeposit: '1471.82', agreed: { total: '4906.08', deposit: '1471.82', balance: '3434.26', extras: [EXTRA], extraHours: 6 } }),
       [`/api/public/quotes/${TOKEN}`]: () => json(PUBLIC_QUOTE),
     });
     const form = await screen.findByRole('form', { name: 'Accept the quote' });
@@ -72,7 +72,7 @@ describe('the customer’s quote page', () => {
 
   it('shows a paid deposit after coming back from the payment page', async () => {
     renderPublic(
-      { [`/api/public/quotes/${TOKEN}`]: () => json({ ...PUBLIC_QUOTE, state: 'deposit-paid', closed: 'deposit-paid', acceptedName: 'Hester Quillfeather', acceptedAt: '2027-01-03T09:00:00Z', acceptedExtras: [], acceptedTotal: '4546.08', acceptedDeposit: '1363.82', depositPaidAt: '2027-01-03T09:05:00Z' }) },
+      { [`/api/public/quotes/${TOKEN}`]: () => json({ ...PUBLIC_QUOTE, state: 'deposit-paid', closed: 'deposit-paid', acceptedName: 'Hester Quillfeather', acceptedAt: '2027-01-03T09:00:00Z', acceptedExtras: [], acceptedTotal: '4546.08', acceptedDeposit: '1363.82', agreed: { total: '4546.08', deposit: '1363.82', balance: '3182.26', extras: [], extraHours: 0 }, depositPaidAt: '2027-01-03T09:05:00Z' }) },
       '?deposit=paid',
     );
     expect((await screen.findByTestId('deposit-paid')).textContent).toMatch(/Deposit paid: £1,363.82 on 3 Jan 2027/);

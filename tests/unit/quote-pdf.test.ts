@@ -90,8 +90,9 @@ async function baseQuote(): Promise<QuoteDocument> {
       calendarDays: 21,
       startDate: '2027-03-15',
       readyDate: '2027-04-05',
+      datesBooked: true,
       stages: [
-        { name: 'Strip and clean', sessions: 2, coats: 0, hours: 9, restText: '1 day to dry out' },
+        { name: 'Strip and clean', sessions: 2, coats: null, hours: 9, restText: '1 day to dry out' },
         { name: 'Fill the grain', sessions: 1, coats: 2, hours: 5.5, restText: '2 days' },
         { name: 'Bodying up', sessions: 4, coats: 12, hours: 18, restText: '1 day between sessions' },
         { name: 'Spiriting off', sessions: 2, coats: 8, hours: 9, restText: '7 days to harden' },
@@ -101,16 +102,15 @@ async function baseQuote(): Promise<QuoteDocument> {
     price: {
       lines: [
         { label: 'Materials', amount: '312.40' },
-        { label: 'Labour, 46.50 h at 58.00 per hour', amount: '2697.00' },
-        { label: 'Workshop overhead (12 %)', amount: '361.13' },
-        { label: 'Margin (15 %)', amount: '505.58' },
+        { label: 'The work: about 46.5 h of hands-on polishing', amount: '3563.71' },
         { label: 'VAT (20 %)', amount: '775.22' },
-        { label: 'Rounding to 1', amount: '0.67' },
+        { label: 'Rounding', amount: '0.67' },
       ],
       total: '4994.00',
       depositPct: 30,
       deposit: '1498.20',
       balance: '3495.80',
+      agreed: null,
     },
     extras: [
       { label: 'Regild the lid lettering', description: 'Gold leaf over the original name board lettering, sealed under the polish.', hours: 3.5, price: '285.00' },
@@ -279,6 +279,7 @@ describe('renderQuotePdf', () => {
     q.piece = { ...q.piece, maker: null, year: null, serial: null, photo: null, photoCaption: null };
     q.work.startDate = null;
     q.work.readyDate = null;
+    q.work.datesBooked = false;
     q.extras = [];
     q.cautions = CAUTIONS.filter((c) => c.code !== 'local-rules');
     q.quote.currency = 'USD';
@@ -288,6 +289,9 @@ describe('renderQuotePdf', () => {
     const flat = squash(r.text);
     expect(flat).toContain('US$4,994.00');
     expect(flat).not.toContain('Optional extras');
+    // No dates are promised before the job is booked.
+    expect(flat).toContain('the dates are fixed when we book the work');
+    expect(flat).not.toMatch(/we start on|reserved/i);
     expect(flat).toContain('Local fire codes, the workplace-safety regulator and licensed practice come first');
     expect(flat).toContain(`Page 1 of ${r.pages}`);
     expectInsideMargins(r);

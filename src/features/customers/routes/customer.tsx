@@ -68,6 +68,19 @@ export function CustomerPage() {
     { key: 'state', header: 'State', sortKey: 'state', render: (e) => <StateBadge state={e.state} /> },
     { key: 'labourHours', header: 'Hours', sortKey: 'labourHours', align: 'right', render: (e) => formatHours(e.labourHours) },
     { key: 'total', header: 'Total', sortKey: 'total', align: 'right', render: (e) => formatMoney(e.total, e.currency) },
+    {
+      key: 'agreed',
+      header: 'Agreed',
+      align: 'right',
+      render: (e) =>
+        e.agreed ? (
+          <span className="num" data-testid={`agreed-${e.id}`} title={`Deposit ${formatMoney(e.agreed.deposit, e.currency)}, balance ${formatMoney(e.agreed.balance, e.currency)}`}>
+            {formatMoney(e.agreed.total, e.currency)}
+          </span>
+        ) : (
+          <span className="text-walnut-300">—</span>
+        ),
+    },
     { key: 'updatedAt', header: 'Updated', sortKey: 'updatedAt', render: (e) => <span className="num text-walnut-600">{formatWhen(e.updatedAt)}</span> },
   ];
   const toggle = <S extends string>(view: { sort: S; dir: 'asc' | 'desc'; page: number }, key: S) => ({ sort: key, dir: view.sort === key && view.dir === 'asc' ? ('desc' as const) : ('asc' as const), page: 1 });

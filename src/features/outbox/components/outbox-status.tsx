@@ -5,6 +5,7 @@ const STYLE: Record<OutboxSummary['status'], { label: string; Icon: LucideIcon; 
   sent: { label: 'Sent', Icon: MailCheck, box: 'border-moss-600/50 bg-moss-100 text-moss-700' },
   failed: { label: 'Failed', Icon: CircleAlert, box: 'border-dotted border-brick-600/60 bg-brick-100 text-brick-700' },
   queued: { label: 'Queued', Icon: Clock, box: 'border-dashed border-walnut-300 bg-parchment-100 text-walnut-700' },
+  sending: { label: 'Sending', Icon: Clock, box: 'border-dashed border-amber-400 bg-amber-50 text-amber-800' },
 };
 
 export const OUTBOX_STATUS_LABELS = { sent: 'Sent', failed: 'Failed', queued: 'Queued' } as const;

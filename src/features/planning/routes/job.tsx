@@ -13,6 +13,7 @@ import { TextField } from '@/components/field';
 import { Spinner } from '@/components/spinner';
 import { paths, pathTo } from '@/config/paths';
 import { useMe } from '@/features/auth/api/get-me';
+import { formatMoney } from '@/lib/format';
 import { useBoard } from '../api/board';
 import { useCancelJob, useJob, useUpdateJob } from '../api/jobs';
 import { BookingForm } from '../components/booking-form';
@@ -258,8 +259,15 @@ export function JobPage() {
           ['Takes', j.roomUnit === 'bays' ? `${j.bays} bay${j.bays === 1 ? '' : 's'}` : `${j.areaM2} m² of rack`],
           ['Sessions done', `${j.sessionsDone} of ${j.sessionsTotal}`],
           ['Hands-on hours', `${hoursText(j.estimatedHours)} estimated · ${j.sessionsDone ? hoursText(j.actualHours) : '—'} actual`],
+          ...(j.agreed
+            ? [
+                ['Agreed total', formatMoney(j.agreed.total, j.agreed.currency)],
+                ['Deposit', formatMoney(j.agreed.deposit, j.agreed.currency)],
+                ['Balance due on collection', formatMoney(j.agreed.balance, j.agreed.currency)],
+              ]
+            : []),
         ].map(([label, value]) => (
-          <div key={label} className="rounded-xl border border-parchment-200 bg-white px-4 py-3 shadow-card">
+          <div key={label} className="rounded-xl border border-parchment-200 bg-white px-4 py-3 shadow-card" data-fact={label}>
             <dt className="text-xs font-semibold tracking-wide text-walnut-500 uppercase">{label}</dt>
             <dd className="num mt-0.5 font-semibold text-walnut-900">{value}</dd>
           </div>

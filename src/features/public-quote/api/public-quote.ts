@@ -48,4 +48,14 @@ export function useDepositCheckout(token: string) {
   });
 }
 
+/** Back from the payment page without paying: closes the open checkout so it shows as cancelled. */
+export function useDepositCancelled(token: string) {
+  const keep = useKeep(token);
+  return useMutation({
+    mutationFn: () => api<PublicQuote>(`${base(token)}/deposit/cancel`, { method: 'POST', body: {} }),
+    onSuccess: keep,
+  });
+}
+
 export const publicPdfUrl = (token: string) => `${base(token)}/pdf`;
+export const publicAcceptancePdfUrl = (token: string) => `${base(token)}/acceptance.pdf`;

@@ -51,7 +51,7 @@ export function Answer({ token, quote }: { token: string; quote: PublicQuote }) 
   return (
     <section aria-labelledby="answer-heading" className={box} data-testid="answer">
       <h2 id="answer-heading" className="font-serif text-2xl font-semibold text-walnut-900">Your answer</h2>
-      <p className="mt-1 text-sm text-walnut-600">Nothing is booked until you accept. After accepting you can pay the deposit by card to reserve a place in the drying room.</p>
+      <p className="mt-1 text-sm text-walnut-600">Nothing is booked until you accept. After accepting you can pay the deposit by card; we then book the work into the drying room and confirm the dates with you.</p>
 
       {quote.extras.length > 0 && (
         <fieldset className="mt-5">

@@ -9,7 +9,7 @@ import { Spinner } from '@/components/spinner';
 import { PriceBreakdown } from '@/features/quotes/components/price-breakdown';
 import { ApiError } from '@/lib/api';
 import { formatDate, formatMoney } from '@/lib/format';
-import { publicPdfUrl, useDepositCheckout, usePublicQuote } from '../api/public-quote';
+import { publicAcceptancePdfUrl, publicPdfUrl, useDepositCancelled, useDepositCheckout, usePublicQuote } from '../api/public-quote';
 import { Answer } from '../components/answer';
 import { Contact, Letterhead, Safety, Section } from '../components/parts';
 
@@ -46,9 +46,10 @@ function Notice({ icon, title, children, workshop }: { icon: ReactNode; title: s
 function Outcome({ token, q, returned }: { token: string; q: PublicQuote; returned: string | null }) {
   const checkout = useDepositCheckout(token);
   const c = q.pricing.currency;
-  const total = q.acceptedTotal ?? q.pricing.total;
-  const deposit = q.acceptedDeposit ?? q.pricing.deposit;
-  const chosen = q.extras.filter((x) => q.acceptedExtras?.includes(x.id));
+  const total = q.agreed?.total ?? q.pricing.total;
+  const deposit = q.agreed?.deposit ?? q.pricing.deposit;
+  const balance = q.agreed?.balance ?? q.pricing.balance;
+  const chosen = q.agreed?.extras ?? [];
   if (q.state === 'declined') {
     return (
       <Section id="outcome-heading" title="You declined this quote">
@@ -69,12 +70,26 @@ function Outcome({ token, q, returned }: { token: string; q: PublicQuote; return
       <p className="mt-2 text-walnut-800">
         Accepted by <strong>{q.acceptedName}</strong>
         {q.acceptedAt && <> on <span className="whitespace-nowrap">{formatDate(q.acceptedAt)}</span></>}, for a total of <strong className="num">{formatMoney(total, c)}</strong>
-        {chosen.length > 0 && <> including {chosen.map((x) => x.label).join(', ')}</>}.
+        {chosen.length > 0 && <> including {chosen.map((x) => x.label).join(', ')}</>}. The balance of{' '}
+        <strong className="num" data-testid="outcome-balance">{formatMoney(balance, c)}</strong> is due when the piece is ready.
+      </p>
+      <p className="mt-2 text-sm">
+        <a href={publicAcceptancePdfUrl(token)} target="_blank" rel="noopener" className="font-semibold text-amber-800 underline decoration-amber-400 underline-offset-2">
+          Download the record of your acceptance (PDF)
+        </a>
       </p>
       {paid ? (
         <p className="mt-2 text-walnut-800" data-testid="deposit-paid">
           <strong>Deposit paid</strong>: <span className="num">{formatMoney(deposit, c)}</span>
-          {q.depositPaidAt && <> on <span className="whitespace-nowrap">{formatDate(q.depositPaidAt)}</span></>}. Your place in the drying room is reserved; we will be in touch to arrange collection.
+          {q.depositPaidAt && <> on <span className="whitespace-nowrap">{formatDate(q.depositPaidAt)}</span></>}.{' '}
+          {q.schedule.booked && q.schedule.start && q.schedule.ready ? (
+            <span data-testid="booked-dates">
+              Your work is booked: we start on <strong className="whitespace-nowrap">{formatDate(q.schedule.start)}</strong> and expect it to be ready on{' '}
+              <strong className="whitespace-nowrap">{formatDate(q.schedule.ready)}</strong>.
+            </span>
+          ) : (
+            <span data-testid="not-booked">We will now book the work into the drying room and confirm the dates with you.</span>
+          )}
         </p>
       ) : (
         <>
@@ -114,7 +129,7 @@ function Work({ q }: { q: PublicQuote }) {
   const w = q.work;
   const facts: [string, string][] = [
     ['Surface', w.areaText],
-    ['Coats of shellac', `${w.coats} coats`],
+    ['Coats of shellac', `${w.coats} ${w.coats === 1 ? 'coat' : 'coats'}`],
     ['Hands-on work', `${w.labourHours.toLocaleString('en-GB', { maximumFractionDigits: 1 })} h`],
     ['With the workshop', `${w.calendarDays} ${w.calendarDays === 1 ? 'day' : 'days'}`],
   ];
@@ -141,6 +156,7 @@ function Work({ q }: { q: PublicQuote }) {
             <th scope="col" className="py-1.5">Stage</th>
             <th scope="col" className="py-1.5 text-right">Sessions</th>
             <th scope="col" className="py-1.5 text-right">Coats</th>
+            <th scope="col" className="py-1.5 text-right">Hands-on</th>
           </tr>
         </thead>
         <tbody className="divide-y divide-parchment-200">
@@ -148,11 +164,17 @@ function Work({ q }: { q: PublicQuote }) {
             <tr key={`${s.name}-${i}`}>
               <td className="py-1.5"><span className="num mr-2 text-walnut-400">{i + 1}.</span>{s.name}</td>
               <td className="num py-1.5 text-right">{s.sessions}</td>
-              <td className="num py-1.5 text-right">{s.coats}</td>
+              <td className="num py-1.5 text-right">{s.coats === null ? <span aria-label="no coats at this stage">—</span> : s.coats}</td>
+              <td className="num py-1.5 text-right">{s.hours.toLocaleString('en-GB')} h</td>
             </tr>
           ))}
         </tbody>
       </table>
+      <p className="mt-3 text-sm text-walnut-700" data-testid="schedule">
+        {q.schedule.booked && q.schedule.start && q.schedule.ready
+          ? `Booked: we start on ${formatDate(q.schedule.start)} and expect your piece to be ready on ${formatDate(q.schedule.ready)}.`
+          : `About ${w.calendarDays} ${w.calendarDays === 1 ? 'day' : 'days'} with us once the work starts. That is an estimate: the dates are fixed when we book the work into the drying room, after the deposit is paid.`}
+      </p>
     </Section>
   );
 }
@@ -169,6 +191,14 @@ export function PublicQuotePage() {
   const q = quote.data;
   const awaitingPayment = returned === 'paid' && q?.state === 'accepted';
   const { refetch } = quote;
+  const cancelled = useDepositCancelled(token);
+  const cancelOpen = returned === 'cancelled' && q?.state === 'accepted' && q.checkout.open;
+  const { mutate: closeCheckout, isIdle: closeIdle } = cancelled;
+
+  // Back from the payment page without paying: the checkout left open there is closed, and shows as cancelled.
+  useEffect(() => {
+    if (cancelOpen && closeIdle) closeCheckout();
+  }, [cancelOpen, closeIdle, closeCheckout]);
 
   // Back from the payment page: the confirmation may trail the customer by a moment, so look again a few times.
   useEffect(() => {
@@ -228,7 +258,7 @@ export function PublicQuotePage() {
   }
 
   const answerable = q.closed === null;
-  const withChosen = q.acceptedTotal !== null && q.acceptedTotal !== q.pricing.total;
+  const withChosen = q.agreed !== null && q.agreed.extras.length > 0;
   return (
     <Shell workshop={q.workshop}>
       <section className="rounded-xl border border-parchment-200 bg-white p-5 shadow-card sm:p-6">
@@ -252,13 +282,13 @@ export function PublicQuotePage() {
             <p className="text-xs uppercase tracking-wide text-parchment-200">
               {withChosen ? 'Total accepted, with your extras' : `Total, ${q.pricing.taxLabel} included`}
             </p>
-            <p className="num font-serif text-3xl font-semibold text-amber-300" data-testid="public-total">{formatMoney(q.acceptedTotal ?? q.pricing.total, q.pricing.currency)}</p>
+            <p className="num font-serif text-3xl font-semibold text-amber-300" data-testid="public-total">{formatMoney(q.agreed?.total ?? q.pricing.total, q.pricing.currency)}</p>
           </div>
           <div className="bg-walnut-900 px-4 py-3">
             <p className="text-xs uppercase tracking-wide text-parchment-200">
               {q.state === 'deposit-paid' ? 'Deposit paid' : 'Deposit to book the work'} ({q.pricing.depositPct} %)
             </p>
-            <p className="num font-serif text-3xl font-semibold text-parchment-50">{formatMoney(q.acceptedDeposit ?? q.pricing.deposit, q.pricing.currency)}</p>
+            <p className="num font-serif text-3xl font-semibold text-parchment-50" data-testid="public-deposit">{formatMoney(q.agreed?.deposit ?? q.pricing.deposit, q.pricing.currency)}</p>
           </div>
         </div>
         {answerable && (
@@ -276,7 +306,7 @@ export function PublicQuotePage() {
       {!answerable && <Outcome token={token} q={q} returned={returned} />}
       <Work q={q} />
       <Section id="price-heading" title="The price">
-        <PriceBreakdown pricing={q.pricing} pricesIncludeTax={q.pricesIncludeTax} />
+        <PriceBreakdown pricing={q.pricing} pricesIncludeTax={q.pricesIncludeTax} agreed={q.agreed} />
         <p className="mt-3 text-sm italic text-walnut-600">This quote is valid until {formatDate(q.validUntil)}.</p>
       </Section>
       <Section id="terms-heading" title="Terms">

@@ -1,7 +1,7 @@
 import type { z } from 'zod';
 import { keepPreviousData, queryOptions, useMutation, useQuery, useQueryClient } from '@tanstack/react-query';
 import type { Page } from '@shared/schemas/auth';
-import type { CreateQuoteInput, PipelineRow, QuoteDetail, QuoteListQuerySchema, QuoteSummary } from '@shared/schemas/quotes';
+import type { CreateQuoteInput, FlaggedPayment, PipelineRow, QuoteDetail, QuoteListQuerySchema, QuoteSummary } from '@shared/schemas/quotes';
 import { api, toQuery } from '@/lib/api';
 
 /** Customers change quotes from their own link, so whatever shows a quote's state asks the server each time. */
@@ -124,3 +124,15 @@ export function useWithdrawQuote() {
 
 export const quotePdfUrl = (id: number) => `/api/quotes/${id}/pdf`;
 export const estimatePdfUrl = (estimateId: number) => `/api/estimates/${estimateId}/quote.pdf`;
+
+export const acceptancePdfUrl = (id: number) => `/api/quotes/${id}/acceptance.pdf`;
+
+/** Payments the owner should look at: paid twice (refunded) or another amount than the deposit. */
+export function useFlaggedPayments(enabled: boolean) {
+  return useQuery({
+    queryKey: ['payments', 'flagged'] as const,
+    queryFn: ({ signal }) => api<FlaggedPayment[]>('/api/payments/flagged', { signal }),
+    enabled,
+    ...FRESH,
+  });
+}

@@ -92,6 +92,23 @@ export function EstimateQuotes({ estimate }: { estimate: EstimateDetail }) {
         )}
       </header>
       <div className="space-y-4 px-4 py-3">
+        {estimate.agreed && (
+          <div className="rounded-lg border border-moss-600/40 bg-moss-100 px-3 py-2 text-sm text-walnut-800" data-testid="estimate-agreed">
+            <p className="font-semibold text-walnut-900">
+              Agreed in quote{' '}
+              <Link to={pathTo.quote(estimate.agreed.quoteId)} className="num underline decoration-amber-400 underline-offset-2">
+                {estimate.agreed.quoteNumber}
+              </Link>
+              {estimate.agreed.depositPaid ? ', deposit paid' : ''}
+            </p>
+            <p>
+              Total <span className="num font-semibold" data-testid="estimate-agreed-total">{formatMoney(estimate.agreed.total, estimate.currency)}</span>, deposit{' '}
+              <span className="num">{formatMoney(estimate.agreed.deposit, estimate.currency)}</span>, balance{' '}
+              <span className="num">{formatMoney(estimate.agreed.balance, estimate.currency)}</span>
+              {estimate.agreed.extras.length > 0 && <> (with {estimate.agreed.extras.join(', ')})</>}.
+            </p>
+          </div>
+        )}
         {seller && !quotable && estimate.state === 'draft' && (
           <p className="text-sm text-walnut-600">A quote can be prepared once the estimator marks this estimate as priced.</p>
         )}

@@ -2,14 +2,14 @@ import { Ban, FileText } from 'lucide-react';
 import { useQueryClient } from '@tanstack/react-query';
 import { useEffect, type ReactNode } from 'react';
 import { Link, useParams } from 'react-router-dom';
-import type { QuoteDetail } from '@shared/schemas/quotes';
+import { PAYMENT_FLAG_LABELS, type QuoteDetail } from '@shared/schemas/quotes';
 import { Alert } from '@/components/alert';
 import { Button } from '@/components/button';
 import { Spinner } from '@/components/spinner';
 import { pathTo } from '@/config/paths';
 import { useMe } from '@/features/auth/api/get-me';
 import { formatDate, formatDateTime, formatMoney, todayIso } from '@/lib/format';
-import { quotePdfUrl, useQuote, useWithdrawQuote } from '../api/quotes';
+import { acceptancePdfUrl, quotePdfUrl, useQuote, useWithdrawQuote } from '../api/quotes';
 import { PriceBreakdown } from '../components/price-breakdown';
 import { QuoteStateBadge } from '../components/quote-state-badge';
 import { MILESTONE_ICONS } from '../components/quote-timeline';
@@ -36,7 +36,7 @@ function Step({ icon, title, at, children, testId }: { icon: keyof typeof MILEST
 /** What happened to the quote, in order: made, sent, opened, answered, deposit paid. */
 function Timeline({ q }: { q: QuoteDetail }) {
   const c = q.currency;
-  const chosen = q.extras.filter((x) => q.acceptedExtras?.includes(x.id));
+  const chosen = q.agreed?.extras ?? [];
   return (
     <ol className="relative before:absolute before:bottom-2 before:left-3 before:top-2 before:w-px before:bg-parchment-300" aria-label="Timeline">
       <Step icon="created" title="Prepared" at={q.createdAt} testId="step-created">
@@ -56,12 +56,18 @@ function Timeline({ q }: { q: QuoteDetail }) {
           </p>
           <p>
             {chosen.length > 0 ? <>Extras taken: {chosen.map((x) => x.label).join(', ')}. </> : 'No extras taken. '}
-            {q.acceptedTotal && (
+            {q.agreed && (
               <>
-                Total <span className="num font-semibold">{formatMoney(q.acceptedTotal, c)}</span>, deposit{' '}
-                <span className="num font-semibold">{formatMoney(q.acceptedDeposit ?? q.deposit, c)}</span>.
+                Total <span className="num font-semibold" data-testid="timeline-agreed-total">{formatMoney(q.agreed.total, c)}</span>, deposit{' '}
+                <span className="num font-semibold">{formatMoney(q.agreed.deposit, c)}</span>, balance{' '}
+                <span className="num font-semibold">{formatMoney(q.agreed.balance, c)}</span>.
               </>
             )}
+          </p>
+          <p>
+            <a href={acceptancePdfUrl(q.id)} target="_blank" rel="noopener" className="font-medium underline decoration-amber-400 underline-offset-2">
+              Acceptance record (PDF)
+            </a>
           </p>
         </Step>
       )}
@@ -94,11 +100,22 @@ function Payments({ q }: { q: QuoteDetail }) {
       </thead>
       <tbody className="divide-y divide-parchment-200">
         {q.payments.map((p) => (
-          <tr key={p.id}>
+          <tr key={p.id} data-payment-status={p.status} data-flag={p.flag ?? undefined}>
             <td className="num py-1">{formatDateTime(p.createdAt)}</td>
-            <td className="py-1 capitalize">{p.status}</td>
+            <td className="py-1">
+              <span className="capitalize">{p.status === 'pending' ? 'open' : p.status}</span>
+              {p.flag && (
+                <span className="mt-0.5 block text-xs font-semibold text-brick-700">
+                  {PAYMENT_FLAG_LABELS[p.flag]}
+                  {p.note && <span className="block font-normal">{p.note}</span>}
+                </span>
+              )}
+            </td>
             <td className="num py-1">{p.paidAt ? formatDateTime(p.paidAt) : '—'}</td>
-            <td className="num py-1 text-right">{formatMoney(p.amount, p.currency)}</td>
+            <td className="num py-1 text-right">
+              {formatMoney(p.amountReceived ?? p.amount, p.currency)}
+              {p.amountReceived && <span className="block text-xs text-walnut-500">asked {formatMoney(p.amount, p.currency)}</span>}
+            </td>
           </tr>
         ))}
       </tbody>
@@ -165,11 +182,18 @@ export function QuotePage() {
         </dl>
       </div>
       {withdraw.error && <div className="mb-4"><Alert tone="error" title="Not withdrawn">{withdraw.error.message}</Alert></div>}
+      {q.flagged > 0 && (
+        <div className="mb-4">
+          <Alert tone="warning" title={`${q.flagged} payment${q.flagged === 1 ? '' : 's'} to look at`}>
+            A payment was taken that does not count as the deposit (paid twice, or another amount). See the card payments below.
+          </Alert>
+        </div>
+      )}
       <div className="grid items-start gap-6 xl:grid-cols-[minmax(0,3fr)_minmax(0,2fr)]">
         <div className="space-y-6">
           <section aria-labelledby="price-heading" className="rounded-xl border border-parchment-200 bg-white px-5 py-4 shadow-card">
             <h2 id="price-heading" className="mb-3 text-lg font-semibold text-walnut-800">The price</h2>
-            <PriceBreakdown pricing={q.pricing} extras={q.extras} />
+            <PriceBreakdown pricing={q.pricing} extras={q.extras} agreed={q.agreed} />
           </section>
           {q.message && (
             <section aria-labelledby="message-heading" className="rounded-xl border border-parchment-200 bg-white px-5 py-4 shadow-card">

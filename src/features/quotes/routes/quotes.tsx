@@ -1,6 +1,6 @@
 
 import { Link } from 'react-router-dom';
-import { QUOTE_STATES, QUOTE_STATE_LABELS, type QuoteState, type QuoteSummary } from '@shared/schemas/quotes';
+import { PAYMENT_FLAG_LABELS, QUOTE_STATES, QUOTE_STATE_LABELS, type QuoteState, type QuoteSummary } from '@shared/schemas/quotes';
 import { PageHeader } from '@/components/card';
 import type { Column } from '@/components/data-table';
 import { SearchBox } from '@/components/search-box';
@@ -10,7 +10,7 @@ import { useMe } from '@/features/auth/api/get-me';
 import { useCalcCatalog } from '@/features/estimates/api/catalog';
 import { formatDate, formatMoney } from '@/lib/format';
 import { useTableState } from '@/lib/use-table-state';
-import { useQuotes, type QuoteListQuery } from '../api/quotes';
+import { useFlaggedPayments, useQuotes, type QuoteListQuery } from '../api/quotes';
 import { Pipeline } from '../components/pipeline';
 import { QuoteStateBadge } from '../components/quote-state-badge';
 import { canSell } from '../lib/permissions';
@@ -21,6 +21,31 @@ const link = 'hover:text-amber-700 hover:underline';
 function DateCell({ at }: { at: string | null }) {
   if (!at) return <span className="text-walnut-300">—</span>;
   return <span className="num whitespace-nowrap text-walnut-700">{formatDate(at)}</span>;
+}
+
+/** Payments that did not count as a deposit, for the owner: what happened and whether it was refunded. */
+function FlaggedPayments({ enabled }: { enabled: boolean }) {
+  const flagged = useFlaggedPayments(enabled);
+  if (!flagged.data || flagged.data.length === 0) return null;
+  return (
+    <section aria-labelledby="flagged-heading" className="mb-6 rounded-xl border border-brick-600/40 bg-brick-100/40 px-4 py-3" data-testid="flagged-payments">
+      <h2 id="flagged-heading" className="text-base font-semibold text-brick-700">Payments to look at</h2>
+      <ul className="mt-1 divide-y divide-brick-600/20 text-sm">
+        {flagged.data.map((p) => (
+          <li key={p.id} className="flex flex-wrap items-baseline justify-between gap-2 py-1.5">
+            <span>
+              <Link className="num font-medium text-walnut-900 underline decoration-amber-400" to={pathTo.quote(p.quote.id)}>{p.quote.number}</Link>{' '}
+              {p.customer}: <strong>{PAYMENT_FLAG_LABELS[p.flag!]}</strong>
+              {p.note && <span className="block text-xs text-walnut-600">{p.note}</span>}
+            </span>
+            <span className="num whitespace-nowrap">
+              {formatMoney(p.amountReceived ?? p.amount, p.currency)} · {p.status === 'refunded' ? 'refunded' : 'not refunded'}
+            </span>
+          </li>
+        ))}
+      </ul>
+    </section>
+  );
 }
 
 /** Every quote: search, filter by state, sort and page on the server; the pipeline above for sales and the owner. */
@@ -93,6 +118,7 @@ export function QuotesPage() {
   return (
     <>
       <PageHeader title="Quotes" description="Priced estimates offered to customers: what was sent, opened, accepted and paid." />
+      <FlaggedPayments enabled={seller} />
       {seller && calc.data && (
         <Pipeline currency={calc.data.settings.pricing.currency} active={table.state.filters.state ?? ''} onPick={(s) => table.setFilter('state', s)} />
       )}

@@ -1,0 +1,127 @@
+/**
+ * The acceptance record: what the customer agreed to (the work, the extras they ticked, the agreed total, deposit and
+ * balance), who accepted (the typed name), when, and from which network address. One page for the customer's and
+ * the workshop's files, in the quote's Lora and walnut.
+ */
+import PDFDocument from 'pdfkit';
+import { LORA, registerLora } from './pdf-fonts';
+import { formatHours, formatMoney, formatPercent, pdfText } from './pdf-format';
+import { Flow, INK, STYLE, drawTable, type TableRow } from './pdf-layout';
+
+export interface AcceptanceRecord {
+  paperSize: 'A4' | 'Letter';
+  workshop: { name: string; address: string | null; email: string | null; phone: string | null };
+  quoteNumber: string;
+  estimateNumber: string;
+  customerName: string;
+  piece: string;
+  systemName: string;
+  currency: string;
+  taxLabel: string;
+  /** The quoted total before extras. */
+  quotedTotal: string;
+  extrasTaken: { label: string; hours: number; price: string }[];
+  extrasDeclined: string[];
+  agreedTotal: string;
+  depositPct: number;
+  deposit: string;
+  balance: string;
+  acceptedName: string;
+  /** ISO date-time. */
+  acceptedAt: string;
+  acceptedIp: string;
+  depositPaidAt: string | null;
+  terms: string[];
+}
+
+const MARGIN = { top: 60, bottom: 60, left: 56, right: 56 };
+const when = new Intl.DateTimeFormat('en-GB', { day: 'numeric', month: 'long', year: 'numeric', hour: '2-digit', minute: '2-digit', second: '2-digit', timeZone: 'UTC', timeZoneName: 'short' });
+
+export async function renderAcceptancePdf(r: AcceptanceRecord): Promise<Buffer> {
+  const doc = new PDFDocument({
+    size: r.paperSize === 'Letter' ? 'LETTER' : 'A4',
+    margins: { ...MARGIN },
+    bufferPages: true,
+    info: {
+      Title: pdfText(`Acceptance of quote ${r.quoteNumber}`),
+      Author: pdfText(r.workshop.name),
+      Subject: pdfText(`What ${r.acceptedName} agreed to for ${r.piece}`),
+      Creator: 'Shellwright',
+    },
+  });
+  const chunks: Buffer[] = [];
+  const done = new Promise<Buffer>((resolve, reject) => {
+    doc.on('data', (c: Buffer) => chunks.push(c));
+    doc.on('end', () => resolve(Buffer.concat(chunks)));
+    doc.on('error', reject);
+  });
+  registerLora(doc);
+  doc.font(LORA.regular);
+  const flow = new Flow(doc);
+  flow.y = flow.top;
+  const money = (a: string) => formatMoney(a, r.currency);
+
+  flow.label(pdfText(r.workshop.name).toUpperCase(), flow.left, flow.y, flow.width);
+  flow.y += 14;
+  flow.paragraph(`Acceptance of quote ${r.quoteNumber}`, { font: LORA.semibold, size: 20, color: INK.walnut }, { after: 4 });
+  flow.paragraph(`${r.piece} · estimate ${r.estimateNumber} · ${r.systemName}`, STYLE.smallMuted, { after: 18 });
+
+  flow.heading('Who accepted, and when', 80);
+  drawTable(flow, {
+    columns: [
+      { header: '', width: 170 },
+      { header: '', width: 0 },
+    ],
+    rows: [
+      ['Quote prepared for', r.customerName],
+      ['Accepted by (typed name)', { text: r.acceptedName, style: STYLE.cellStrong }],
+      ['Accepted on', when.format(new Date(r.acceptedAt))],
+      ['From the network address', r.acceptedIp || 'not recorded'],
+      ['Deposit', r.depositPaidAt ? `Paid on ${when.format(new Date(r.depositPaidAt))}` : 'Not paid yet'],
+    ],
+  });
+  flow.gap(20);
+
+  flow.heading('What was agreed', 120);
+  const rows: TableRow[] = [[`The finishing work as quoted, ${r.taxLabel || 'tax'} included`, '', money(r.quotedTotal)]];
+  for (const x of r.extrasTaken) rows.push([{ text: `Extra: ${x.label}`, style: STYLE.cellStrong }, formatHours(x.hours), money(x.price)]);
+  drawTable(flow, {
+    columns: [
+      { header: 'Item', width: 0 },
+      { header: 'Hands-on', width: 70, align: 'right' },
+      { header: `Amount (${r.currency.toUpperCase()})`, width: 120, align: 'right' },
+    ],
+    rows,
+    footer: [
+      [{ text: 'Agreed total', style: { font: LORA.semibold, size: 11, color: INK.walnut } }, '', { text: money(r.agreedTotal), style: { font: LORA.bold, size: 11.5, color: INK.walnut } }],
+      [`Deposit (${formatPercent(r.depositPct)})`, '', money(r.deposit)],
+      ['Balance when the piece is ready', '', money(r.balance)],
+    ],
+    footerStyle: STYLE.cellStrong,
+  });
+  if (r.extrasDeclined.length > 0) {
+    flow.gap(6);
+    flow.paragraph(`Extras offered and not taken: ${r.extrasDeclined.join(', ')}.`, STYLE.smallItalic);
+  }
+  flow.gap(20);
+
+  flow.heading('Terms accepted', 60);
+  r.terms.forEach((t, i) => flow.paragraph(`${i + 1}. ${t}`, { ...STYLE.small, size: 9 }, { after: 3 }));
+  flow.gap(14);
+  flow.paragraph(
+    'The customer accepted by typing their name and ticking that they had read the quote, its terms and the safety notes, through the private link sent to them.',
+    STYLE.smallItalic,
+  );
+
+  const range = doc.bufferedPageRange();
+  for (let i = range.start; i < range.start + range.count; i++) {
+    doc.switchToPage(i);
+    const fy = doc.page.height - 40;
+    flow.hRule(MARGIN.left, doc.page.width - MARGIN.right, fy - 8, INK.rule, 0.5);
+    const contact = [r.workshop.name, r.workshop.phone, r.workshop.email].filter(Boolean).join(' · ');
+    flow.textAt(contact, MARGIN.left, fy, doc.page.width - MARGIN.left - MARGIN.right - 90, { ...STYLE.smallMuted, size: 8 }, { oneLine: true, ellipsis: true });
+    flow.textAt(`Page ${i - range.start + 1} of ${range.count}`, doc.page.width - MARGIN.right - 90, fy, 90, { ...STYLE.smallMuted, size: 8 }, { align: 'right', oneLine: true });
+  }
+  doc.end();
+  return done;
+}
