@@ -21,7 +21,7 @@ import { Customer, Estimate, EstimateRevision, Piece, User } from '../models';
 import { audit } from './audit';
 import { loadCatalog, type LoadedCatalog } from './catalog';
 import { runEngine, withWorkshopDefaults } from './estimator';
-import { containsPattern, direction, offset } from './paging';
+import { anyOf, containsPattern, direction, offset, pageTotal } from './paging';
 
 type CreateInput = z.output<typeof CreateEstimateSchema>;
 type RevisionInput = z.output<typeof CreateRevisionSchema>;
@@ -143,13 +143,18 @@ export async function getEstimate(id: number, transaction?: Transaction): Promis
     order: [['number', 'DESC']],
     transaction,
   });
-  const current = await EstimateRevision.findByPk(e.currentRevisionId!, { include: [{ model: User, as: 'author', attributes: ['id', 'name'] }], transaction });
+  // The revision's price-list snapshot is large and not part of the answer: leave it in the database.
+  const current = await EstimateRevision.findByPk(e.currentRevisionId!, {
+    attributes: { exclude: ['catalog'] },
+    include: [{ model: User, as: 'author', attributes: ['id', 'name'] }],
+    transaction,
+  });
   if (!current) throw new HttpProblem(500, 'estimate_without_revision', 'Estimate has no revision');
   return { ...summaryDto(e), revisions: revisions.map(revisionSummary), current: revisionDto(current) };
 }
 
 export async function getRevision(estimateId: number, number: number): Promise<Revision> {
-  const r = await EstimateRevision.findOne({ where: { estimateId, number }, include: [{ model: User, as: 'author', attributes: ['id', 'name'] }] });
+  const r = await EstimateRevision.findOne({ where: { estimateId, number }, attributes: { exclude: ['catalog'] }, include: [{ model: User, as: 'author', attributes: ['id', 'name'] }] });
   if (!r) throw problems.notFound('Revision');
   return revisionDto(r);
 }
@@ -324,13 +329,20 @@ export async function listEstimates(q: ListQuery): Promise<Page<EstimateSummary>
   if (q.state) Object.assign(where, { state: q.state });
   if (q.customerId) Object.assign(where, { customerId: q.customerId });
   if (q.q) {
-    const like = containsPattern(q.q);
+    // Each table's trigram index: the estimate's number and title, and the estimates of matching customers and pieces.
+    const like = Estimate.sequelize!.escape(containsPattern(q.q));
     Object.assign(where, {
-      [Op.or]: [{ number: { [Op.iLike]: like } }, { title: { [Op.iLike]: like } }, { '$customer.name$': { [Op.iLike]: like } }, { '$piece.description$': { [Op.iLike]: like } }],
+      [Op.or]: [
+        { number: { [Op.iLike]: containsPattern(q.q) } },
+        { title: { [Op.iLike]: containsPattern(q.q) } },
+        anyOf('"Estimate"."customer_id"', `SELECT id FROM customers WHERE name ILIKE ${like}`),
+        anyOf('"Estimate"."piece_id"', `SELECT id FROM pieces WHERE description ILIKE ${like}`),
+      ],
     });
   }
   const sort = SORTS[q.sort];
   const order = [[...sort.slice(0, -1), direction(q.dir)], ['id', 'DESC']] as Order;
-  const { rows, count } = await Estimate.findAndCountAll({ where, include: summaryIncludes, order, limit: q.pageSize, offset: offset(q.page, q.pageSize) });
-  return { rows: rows.map(summaryDto), total: count, page: q.page, pageSize: q.pageSize };
+  const rows = await Estimate.findAll({ where, include: summaryIncludes, order, limit: q.pageSize, offset: offset(q.page, q.pageSize) });
+  const total = await pageTotal(rows.length, q, async (limit) => (await Estimate.findAll({ where, attributes: ['id'], limit, raw: true })).length);
+  return { rows: rows.map(summaryDto), ...total, page: q.page, pageSize: q.pageSize };
 }
