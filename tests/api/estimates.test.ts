@@ -199,6 +199,17 @@ describe('estimates and revisions', () => {
     expect(JSON.parse(bad.text).field).toBe('state');
   });
 
+  it("a list row says what the estimate's own page says, and each search column finds it", async () => {
+    const detail = await sales.agent.get(`/api/estimates/${id}`).expect(200);
+    const { revisions: _revisions, current: _current, ...summary } = detail.body;
+    for (const q of [detail.body.number, 'Hollingsworth', 'rosewood veneer', detail.body.title.slice(0, 12)]) {
+      const res = await sales.agent.get(`/api/estimates?q=${encodeURIComponent(q)}&pageSize=100`).expect(200);
+      expect(res.body.rows.find((r: { id: number }) => r.id === id), q).toEqual(summary);
+    }
+    const none = await sales.agent.get('/api/estimates?q=' + encodeURIComponent('100%_\\ nothing')).expect(200);
+    expect(none.body).toMatchObject({ rows: [], total: 0 });
+  });
+
   it('duplicates for a similar piece and archives', async () => {
     const dup = await post(estimator, `/api/estimates/${id}/duplicate`, {}).expect(201);
     expect(dup.body.id).not.toBe(id);
