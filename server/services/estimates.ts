@@ -21,7 +21,7 @@ import { Customer, Estimate, EstimateRevision, Piece, User } from '../models';
 import { audit } from './audit';
 import { loadCatalog, type LoadedCatalog } from './catalog';
 import { runEngine, withWorkshopDefaults } from './estimator';
-import { containsPattern, direction, offset, pageTotal } from './paging';
+import { containsPattern, countLimit, direction, offset, pageTotal } from './paging';
 
 type CreateInput = z.output<typeof CreateEstimateSchema>;
 type RevisionInput = z.output<typeof CreateRevisionSchema>;
@@ -405,18 +405,18 @@ export async function listEstimates(q: ListQuery): Promise<Page<EstimateSummary>
     replacements.like = containsPattern(q.q);
   }
   const where = conditions.join(' AND ');
-  const rows = await sequelize.query<SummaryRow>(
-    `${SUMMARY_SELECT} ${SUMMARY_FROM}
+  // The capped count rides along in the same round trip (an uncorrelated sub-select PostgreSQL runs once).
+  const countUpTo = `(SELECT count(*)::int FROM (SELECT 1 FROM estimates e WHERE ${where} LIMIT :countLimit) t)`;
+  const rows = await sequelize.query<SummaryRow & { counted: number }>(
+    `${SUMMARY_SELECT}, ${countUpTo} AS counted ${SUMMARY_FROM}
       WHERE ${where}
       ORDER BY ${SORTS[q.sort]} ${direction(q.dir)}, e.id DESC
       LIMIT :limit OFFSET :offset`,
-    { replacements, type: QueryTypes.SELECT },
+    { replacements: { ...replacements, countLimit: countLimit(q.page, q.pageSize) + 1 }, type: QueryTypes.SELECT },
   );
   const total = await pageTotal(rows.length, q, async (limit) => {
-    const [row] = await sequelize.query<{ n: number }>(`SELECT count(*)::int AS n FROM (SELECT 1 FROM estimates e WHERE ${where} LIMIT :countLimit) t`, {
-      replacements: { ...replacements, countLimit: limit },
-      type: QueryTypes.SELECT,
-    });
+    if (rows[0]) return rows[0].counted;
+    const [row] = await sequelize.query<{ n: number }>(`SELECT ${countUpTo} AS n`, { replacements: { ...replacements, countLimit: limit }, type: QueryTypes.SELECT });
     return row!.n;
   });
   return { rows: rows.map(summaryFromRow), ...total, page: q.page, pageSize: q.pageSize };
