@@ -382,7 +382,7 @@ function summaryFromRow(r: SummaryRow): EstimateSummary {
 /**
  * A page of estimates: one query for the rows (plain SQL, no model instances: the list is the busiest read) and, only
  * when the page is full, a count that stops ten pages on. A text search reads each table's trigram index: the
- * estimate's number and title, and the estimates of matching customers and pieces.
+ * estimate's number and title, and the matching customers and pieces (then their estimates by index).
  */
 export async function listEstimates(q: ListQuery): Promise<Page<EstimateSummary>> {
   const sequelize = Estimate.sequelize!;
@@ -397,12 +397,18 @@ export async function listEstimates(q: ListQuery): Promise<Page<EstimateSummary>
     replacements.customerId = q.customerId;
   }
   if (q.q) {
-    conditions.push(
-      `(e.number ILIKE :like OR e.title ILIKE :like
-        OR e.customer_id = ANY (ARRAY(SELECT id FROM customers WHERE name ILIKE :like))
-        OR e.piece_id = ANY (ARRAY(SELECT id FROM pieces WHERE description ILIKE :like)))`,
-    );
+    // The customers and pieces that match come first, as plain id lists, so that PostgreSQL can size each part of
+    // the search and combine the trigram indexes (given a sub-select instead, it guesses and reads the sort index).
     replacements.like = containsPattern(q.q);
+    const [matched] = await sequelize.query<{ customers: number[]; pieces: number[] }>(
+      `SELECT ARRAY(SELECT id FROM customers WHERE name ILIKE :like) AS customers, ARRAY(SELECT id FROM pieces WHERE description ILIKE :like) AS pieces`,
+      { replacements, type: QueryTypes.SELECT },
+    );
+    const either = ['e.number ILIKE :like', 'e.title ILIKE :like'];
+    if (matched!.customers.length > 0) either.push('e.customer_id IN (:customers)');
+    if (matched!.pieces.length > 0) either.push('e.piece_id IN (:pieces)');
+    Object.assign(replacements, matched);
+    conditions.push(`(${either.join(' OR ')})`);
   }
   const where = conditions.join(' AND ');
   // The capped count rides along in the same round trip (an uncorrelated sub-select PostgreSQL runs once).

@@ -146,6 +146,7 @@ async function main(): Promise<void> {
         rows.push(await run('POST /api/calc/preview (default grand)', { url: `${app.url}/api/calc/preview`, method: 'POST', headers, body: preview }));
         rows.push(await run('GET /api/estimates (10 000, page 1)', { url: `${app.url}/api/estimates?sort=updatedAt&dir=desc&page=1&pageSize=25`, headers }));
         rows.push(await run('GET /api/estimates?q=grand&sort=total p.3', { url: `${app.url}/api/estimates?q=grand&sort=total&dir=desc&page=3`, headers }));
+        rows.push(await run('GET /api/estimates?q=0042 (selective)', { url: `${app.url}/api/estimates?q=0042`, headers }));
         rows.push(await run(`GET /api/estimates/${id} (detail)`, { url: `${app.url}/api/estimates/${id}`, headers }));
       } finally {
         await app.stop();
@@ -167,19 +168,30 @@ async function main(): Promise<void> {
     const options = (sequelize as unknown as { options: { logging: unknown } }).options;
     const logging = options.logging;
     options.logging = (sql: string) => captured.push(sql.replace(/^Executing \([^)]*\): /, ''));
-    const plans: [string, () => Promise<unknown>][] = [
-      ['estimates list, first page', () => listEstimates({ sort: 'updatedAt', dir: 'desc', page: 1, pageSize: 25, archived: 'false' } as never)],
-      ['estimates search "grand", page 3 by total', () => listEstimates({ q: 'grand', sort: 'total', dir: 'desc', page: 3, pageSize: 25, archived: 'false' } as never)],
-      ['customers search "load customer 77"', () => listCustomers(sequelize, { q: 'load customer 77', sort: 'name', dir: 'asc', page: 1, pageSize: 25, archived: 'false' } as never)],
-      ['quotes search "EST-2026"', () => listQuotes({ q: 'EST-2026', sort: 'updatedAt', dir: 'desc', page: 1, pageSize: 25 } as never)],
+    // [what, the call, also show the plan with sequential scans off (a table small enough that reading it whole is
+    // cheaper: the plan PostgreSQL switches to as it grows)]
+    const plans: [string, () => Promise<unknown>, boolean][] = [
+      ['estimates list, first page', () => listEstimates({ sort: 'updatedAt', dir: 'desc', page: 1, pageSize: 25, archived: 'false' } as never), false],
+      ['estimates search "grand" (most rows match), page 3 by total', () => listEstimates({ q: 'grand', sort: 'total', dir: 'desc', page: 3, pageSize: 25, archived: 'false' } as never), false],
+      ['estimates search "0042" (selective)', () => listEstimates({ q: '0042', sort: 'updatedAt', dir: 'desc', page: 1, pageSize: 25, archived: 'false' } as never), false],
+      ['customers search "load customer 77"', () => listCustomers(sequelize, { q: 'load customer 77', sort: 'name', dir: 'asc', page: 1, pageSize: 25, archived: 'false' } as never), true],
+      ['quotes search "EST-2026"', () => listQuotes({ q: 'EST-2026', sort: 'updatedAt', dir: 'desc', page: 1, pageSize: 25 } as never), true],
     ];
-    for (const [what, call] of plans) {
+    for (const [what, call, alsoWithoutSeqScan] of plans) {
       captured.length = 0;
       await call();
-      const select = captured.find((q) => /^SELECT/.test(q) && /ILIKE|ORDER BY/i.test(q))!;
-      const [plan] = await sequelize.query(`EXPLAIN ${select.replace(/;\s*$/, '')}`);
+      const select = captured.find((q) => /^SELECT/.test(q) && /ORDER BY/.test(q))!.replace(/;\s*$/, '');
+      const [plan] = await sequelize.query(`EXPLAIN (ANALYZE, COSTS OFF) ${select}`);
       console.log(`\nplan of the ${what}:`);
       for (const line of plan as { 'QUERY PLAN': string }[]) console.log(`  ${line['QUERY PLAN']}`);
+      if (alsoWithoutSeqScan) {
+        await sequelize.transaction(async (transaction) => {
+          await sequelize.query('SET LOCAL enable_seqscan = off', { transaction });
+          const [forced] = await sequelize.query(`EXPLAIN (ANALYZE, COSTS OFF) ${select}`, { transaction });
+          console.log('  the same with sequential scans off:');
+          for (const line of forced as { 'QUERY PLAN': string }[]) console.log(`    ${line['QUERY PLAN']}`);
+        });
+      }
     }
     options.logging = logging;
 
