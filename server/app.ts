@@ -1,6 +1,5 @@
 import fs from 'node:fs';
 import path from 'node:path';
-import connectPgSimple from 'connect-pg-simple';
 import express, { type Express, type RequestHandler } from 'express';
 import session from 'express-session';
 import helmet from 'helmet';
@@ -8,6 +7,7 @@ import pg from 'pg';
 import type { Sequelize } from 'sequelize';
 import { rootDir, type Config } from './config';
 import { configurePassport } from './auth/passport';
+import { ThrottledPgStore } from './auth/session-store';
 import { csrf } from './http/csrf';
 import type { RouteInfo } from './http/guard';
 import { apiNotFound, errorHandler } from './http/problem';
@@ -27,6 +27,7 @@ import { priceListRoutes } from './routes/price-list';
 import { settingsRoutes } from './routes/settings';
 import { userRoutes } from './routes/users';
 import { workshopRoutes } from './routes/workshop';
+import { invalidateAfterWrites, SharedCaches } from './services/shared-caches';
 
 export interface AppDeps {
   config: Config;
@@ -41,6 +42,8 @@ export interface BuiltApp {
   app: Express;
   /** Every API route with the roles it allows; the role-matrix test walks it. */
   routes: RouteInfo[];
+  /** This app's in-memory users and catalog, dropped on every instance through LISTEN/NOTIFY. */
+  caches: SharedCaches;
   close(): Promise<void>;
 }
 
@@ -86,11 +89,13 @@ export function createApp({ config, sequelize, databaseUrl, serveClient = true }
   sessionPool.on('error', () => {
     /* a dropped idle connection: the next query opens a new one */
   });
-  const PgStore = connectPgSimple(session);
+  const caches = new SharedCaches(databaseUrl);
+  app.locals.caches = caches;
   app.use(
     session({
       name: 'sw.sid',
-      store: new PgStore({ pool: sessionPool, tableName: 'session', createTableIfMissing: false, pruneSessionInterval: 15 * 60 }),
+      // The session's expiry in the database moves at most every 5 minutes, not on every request.
+      store: new ThrottledPgStore({ pool: sessionPool, touchAfterMs: 5 * 60 * 1000, pruneSessionInterval: 15 * 60 }),
       secret: config.sessionSecret,
       resave: false,
       saveUninitialized: false,
@@ -111,6 +116,9 @@ export function createApp({ config, sequelize, databaseUrl, serveClient = true }
     csrf.csrfSynchronisedProtection(req, res, next);
   };
   app.use('/api', csrfCheck);
+  // This instance's own writes to users and the price list drop its caches before it answers; other instances
+  // hear of them through the database's notification.
+  app.use(invalidateAfterWrites(caches));
 
   app.use(authRoutes(config, sequelize, routes));
   app.use(userRoutes(sequelize, routes));
@@ -143,7 +151,9 @@ export function createApp({ config, sequelize, databaseUrl, serveClient = true }
   return {
     app,
     routes,
+    caches,
     close: async () => {
+      await caches.close();
       await sessionPool.end();
     },
   };

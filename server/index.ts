@@ -2,6 +2,7 @@
  * Starts the server: connects, applies pending migrations, loads the demo workshop where allowed, listens, and
  * shuts down cleanly on SIGINT/SIGTERM. `npm start` prepares the private database first and then calls this.
  */
+import cluster from 'node:cluster';
 import http from 'node:http';
 import { pathToFileURL } from 'node:url';
 import { createApp } from './app';
@@ -24,12 +25,27 @@ function portFromEnv(name: string): number | undefined {
   return raw ? Number(raw) : undefined;
 }
 
-export async function runServer(config: Config = loadConfig()): Promise<RunningServer> {
-  const databaseUrl = await resolveDatabaseUrl(config);
+/** Applies pending migrations and loads the defaults (and the demo workshop where allowed). */
+export async function prepareDatabase(config: Config, databaseUrl: string): Promise<void> {
   const sequelize = createSequelize(databaseUrl);
-  await createMigrator(sequelize).up();
+  try {
+    await createMigrator(sequelize).up();
+    initModels(sequelize);
+    await seed(sequelize, { demo: config.demo, uploadsDir: config.uploadsDir, log: (m) => console.log(`[demo] ${m}`) });
+  } finally {
+    await sequelize.close();
+  }
+}
+
+/**
+ * Prepares the database (unless `prepared`: one of several processes whose primary did it), starts the local
+ * stand-ins where the configuration leaves them out, and listens.
+ */
+export async function runServer(config: Config = loadConfig(), opts: { prepared?: boolean } = {}): Promise<RunningServer> {
+  const databaseUrl = await resolveDatabaseUrl(config);
+  if (!opts.prepared) await prepareDatabase(config, databaseUrl);
+  const sequelize = createSequelize(databaseUrl);
   initModels(sequelize);
-  await seed(sequelize, { demo: config.demo, uploadsDir: config.uploadsDir, log: (m) => console.log(`[demo] ${m}`) });
 
   const local = await startLocalServices(config, { smtpPort: portFromEnv('SHELLWRIGHT_SMTP_PORT'), paymentsPort: portFromEnv('SHELLWRIGHT_PAYMENTS_PORT') });
   if (local.mail) console.log(`[mail] local mail catcher on ${local.mail.url}: sent mail is kept in .data/mail and on the Outbox page`);
@@ -41,7 +57,7 @@ export async function runServer(config: Config = loadConfig()): Promise<RunningS
     server.listen(config.port, config.host, resolve);
   });
   const url = `http://${config.host}:${config.port}`;
-  console.log(`[server] Shellwright is up at ${url}`);
+  console.log(`[server] Shellwright is up at ${url}${cluster.isWorker ? ` (worker ${cluster.worker!.id}, pid ${process.pid})` : ''}`);
 
   let stopping: Promise<void> | undefined;
   const stop = () => {

@@ -1,7 +1,9 @@
+import type { Request } from 'express';
 import passport from 'passport';
 import { Strategy as LocalStrategy } from 'passport-local';
 import type { Role } from '@shared/schemas/auth';
 import { User } from '../models';
+import { cachesOf, type UserEntry } from '../services/shared-caches';
 import { verifyCredentials } from '../services/users';
 
 declare global {
@@ -18,7 +20,16 @@ declare global {
 
 let configured = false;
 
-/** Sets up passport-local once: e-mail and password, the user's id in the session, re-read on every request. */
+/** An unknown or deactivated user is signed out: their session no longer names anyone. */
+async function readUser(id: number): Promise<UserEntry> {
+  const user = await User.findByPk(id, { attributes: ['id', 'email', 'name', 'role', 'active'] });
+  return user && user.active ? { id: user.id, email: user.email, name: user.name, role: user.role } : false;
+}
+
+/**
+ * Sets up passport-local once: e-mail and password, the user's id in the session, the user read on each request
+ * from the app's shared caches (dropped on every instance when the user changes) or from the database.
+ */
 export function configurePassport(): typeof passport {
   if (configured) return passport;
   configured = true;
@@ -31,10 +42,11 @@ export function configurePassport(): typeof passport {
     }),
   );
   passport.serializeUser((user, done) => done(null, String(user.id)));
-  passport.deserializeUser((id: string, done) => {
-    User.findByPk(Number(id)).then(
-      // An unknown or deactivated user is signed out: their session no longer names anyone.
-      (user) => done(null, user && user.active ? { id: user.id, email: user.email, name: user.name, role: user.role } : false),
+  passport.deserializeUser((req: Request, id: string, done: (err: unknown, user?: Express.User | false) => void) => {
+    const caches = cachesOf(req);
+    const userId = Number(id);
+    (caches ? caches.user(userId, readUser) : readUser(userId)).then(
+      (user) => done(null, user),
       (err: unknown) => done(err),
     );
   });

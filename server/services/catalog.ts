@@ -8,6 +8,7 @@ import { CatalogSchema, type Catalog, type Material as CatalogMaterial } from '@
 import { WorkshopSettingsSchema, type WorkshopSettings } from '@shared/schemas/workshop';
 import { HttpProblem, problems } from '../http/problem';
 import { FinishingSystem, LabourRate, Material, Species, Workshop } from '../models';
+import type { SharedCaches } from './shared-caches';
 
 export interface LoadedCatalog {
   catalog: Catalog;
@@ -73,9 +74,14 @@ async function catalogStamp(sequelize: Sequelize, transaction?: Transaction): Pr
 /** Catalogs recently built, by date and stamp. Callers must not change what they get (the engine never does). */
 const recent = new Map<string, LoadedCatalog>();
 
-/** Loads the catalog in force on `onDate` (YYYY-MM-DD; today when left out). */
-export async function loadCatalog(sequelize: Sequelize, opts: { onDate?: string; transaction?: Transaction } = {}): Promise<LoadedCatalog> {
+/**
+ * Loads the catalog in force on `onDate` (YYYY-MM-DD; today when left out). With an app's `cache` and outside a
+ * transaction, the catalog comes from memory without a query (the cache is dropped on every instance when the price
+ * list changes); otherwise a fingerprint query says whether a recently built one still holds.
+ */
+export async function loadCatalog(sequelize: Sequelize, opts: { onDate?: string; transaction?: Transaction; cache?: SharedCaches } = {}): Promise<LoadedCatalog> {
   const onDate = opts.onDate ?? new Date().toISOString().slice(0, 10);
+  if (opts.cache && !opts.transaction) return opts.cache.catalog(onDate, () => loadCatalog(sequelize, { onDate }));
   const key = `${onDate}|${await catalogStamp(sequelize, opts.transaction)}`;
   const hit = recent.get(key);
   if (hit) return hit;

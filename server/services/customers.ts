@@ -5,7 +5,7 @@ import type { z } from 'zod';
 import { problems } from '../http/problem';
 import { Customer } from '../models';
 import { audit } from './audit';
-import { containsPattern, direction, offset } from './paging';
+import { containsPattern, direction, offset, pageTotal } from './paging';
 
 type ListQuery = z.output<typeof CustomerListQuerySchema>;
 type Input = z.output<typeof CustomerInputSchema>;
@@ -48,7 +48,7 @@ export async function listCustomers(sequelize: Sequelize, q: ListQuery): Promise
     const like = containsPattern(q.q);
     Object.assign(where, { [Op.or]: [{ name: { [Op.iLike]: like } }, { email: { [Op.iLike]: like } }, { phone: { [Op.iLike]: like } }] });
   }
-  const { rows, count } = await Customer.findAndCountAll({
+  const rows = await Customer.findAll({
     where,
     order: [
       [SORT[q.sort], direction(q.dir)],
@@ -57,8 +57,9 @@ export async function listCustomers(sequelize: Sequelize, q: ListQuery): Promise
     limit: q.pageSize,
     offset: offset(q.page, q.pageSize),
   });
+  const total = await pageTotal(rows.length, q, async (limit) => (await Customer.findAll({ where, attributes: ['id'], limit, raw: true })).length);
   const n = await counts(sequelize, rows.map((r) => r.id));
-  return { rows: rows.map((r) => toDto(r, n.get(r.id))), total: count, page: q.page, pageSize: q.pageSize };
+  return { rows: rows.map((r) => toDto(r, n.get(r.id))), ...total, page: q.page, pageSize: q.pageSize };
 }
 
 export async function getCustomer(sequelize: Sequelize, id: number): Promise<CustomerDto> {

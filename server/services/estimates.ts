@@ -2,7 +2,7 @@
  * Estimates and their revisions. Every save recomputes with the shared engine against the current price list and
  * stores an immutable revision (inputs, price-list version and snapshot, results, cautions, who and when).
  */
-import { Op, QueryTypes, type Includeable, type Order, type Sequelize, type Transaction, type WhereOptions } from 'sequelize';
+import { Op, QueryTypes, type Sequelize, type Transaction } from 'sequelize';
 import type { z } from 'zod';
 import type { Page } from '@shared/schemas/auth';
 import {
@@ -22,37 +22,11 @@ import { withAgreements } from './agreements';
 import { audit } from './audit';
 import { loadCatalog, type LoadedCatalog } from './catalog';
 import { runEngine, withWorkshopDefaults } from './estimator';
-import { containsPattern, direction, offset } from './paging';
+import { containsPattern, countLimit, direction, offset, pageTotal } from './paging';
 
 type CreateInput = z.output<typeof CreateEstimateSchema>;
 type RevisionInput = z.output<typeof CreateRevisionSchema>;
 type ListQuery = z.output<typeof EstimateListQuerySchema>;
-
-const summaryIncludes: Includeable[] = [
-  { model: Customer, as: 'customer', attributes: ['id', 'name'] },
-  { model: Piece, as: 'piece', attributes: ['id', 'description', 'kind'] },
-  { model: User, as: 'owner', attributes: ['id', 'name'] },
-];
-
-export function summaryDto(e: Estimate): EstimateSummary {
-  return {
-    id: e.id,
-    number: e.number,
-    title: e.title,
-    state: e.state,
-    customer: { id: e.customer!.id, name: e.customer!.name },
-    piece: { id: e.piece!.id, description: e.piece!.description, kind: e.piece!.kind },
-    owner: { id: e.owner!.id, name: e.owner!.name },
-    labourHours: Number(e.labourHours),
-    total: Number(e.total).toFixed(2),
-    currency: e.currency,
-    revisionCount: e.revisionCount,
-    validUntil: e.validUntil,
-    archived: e.archived,
-    createdAt: e.createdAt.toISOString(),
-    updatedAt: e.updatedAt.toISOString(),
-  };
-}
 
 function revisionSummary(r: EstimateRevision): RevisionSummary {
   return {
@@ -134,24 +108,58 @@ async function writeRevision(
   return revision;
 }
 
+interface RevisionRow {
+  id: number;
+  number: number;
+  total: string;
+  labour_hours: string;
+  catalog_version: string;
+  note: string;
+  created_at: Date;
+  author_id: number | null;
+  author_name: string | null;
+  input: Revision['input'] | null;
+  result: Revision['result'] | null;
+}
+
+/**
+ * An estimate with its revisions and the current one in full: two plain queries (the estimate, then its revisions
+ * with only the current one's inputs and results; never the price-list snapshots).
+ */
 export async function getEstimate(id: number, transaction?: Transaction): Promise<EstimateDetail> {
-  const e = await Estimate.findByPk(id, { include: summaryIncludes, transaction });
-  if (!e) throw problems.notFound('Estimate');
-  const revisions = await EstimateRevision.findAll({
-    where: { estimateId: id },
-    attributes: { exclude: ['input', 'result', 'catalog'] },
-    include: [{ model: User, as: 'author', attributes: ['id', 'name'] }],
-    order: [['number', 'DESC']],
+  const sequelize = Estimate.sequelize!;
+  const [e] = await sequelize.query<SummaryRow & { current_revision_id: number | null }>(`${SUMMARY_SELECT}, e.current_revision_id ${SUMMARY_FROM} WHERE e.id = :id`, {
+    replacements: { id },
+    type: QueryTypes.SELECT,
     transaction,
   });
-  const current = await EstimateRevision.findByPk(e.currentRevisionId!, { include: [{ model: User, as: 'author', attributes: ['id', 'name'] }], transaction });
-  if (!current) throw new HttpProblem(500, 'estimate_without_revision', 'Estimate has no revision');
-  const [summary] = await withAgreements([summaryDto(e)]);
-  return { ...summary!, revisions: revisions.map(revisionSummary), current: revisionDto(current) };
+  if (!e) throw problems.notFound('Estimate');
+  const rows = await sequelize.query<RevisionRow>(
+    `SELECT r.id, r.number, r.total, r.labour_hours, r.catalog_version, r.note, r.created_at, u.id AS author_id, u.name AS author_name,
+            CASE WHEN r.id = :current THEN r.input END AS input, CASE WHEN r.id = :current THEN r.result END AS result
+       FROM estimate_revisions r LEFT JOIN users u ON u.id = r.created_by
+      WHERE r.estimate_id = :id
+      ORDER BY r.number DESC`,
+    { replacements: { id, current: e.current_revision_id ?? 0 }, type: QueryTypes.SELECT, transaction },
+  );
+  const summaryOf = (r: RevisionRow): RevisionSummary => ({
+    id: r.id,
+    number: r.number,
+    total: Number(r.total).toFixed(2),
+    labourHours: Number(r.labour_hours),
+    catalogVersion: r.catalog_version,
+    note: r.note,
+    createdBy: { id: r.author_id ?? 0, name: r.author_name ?? 'former user' },
+    createdAt: new Date(r.created_at).toISOString(),
+  });
+  const current = rows.find((r) => r.id === e.current_revision_id);
+  if (!current || current.input === null || current.result === null) throw new HttpProblem(500, 'estimate_without_revision', 'Estimate has no revision');
+  const [summary] = await withAgreements([summaryFromRow(e)]);
+  return { ...summary!, revisions: rows.map(summaryOf), current: { ...summaryOf(current), input: current.input, result: current.result } };
 }
 
 export async function getRevision(estimateId: number, number: number): Promise<Revision> {
-  const r = await EstimateRevision.findOne({ where: { estimateId, number }, include: [{ model: User, as: 'author', attributes: ['id', 'name'] }] });
+  const r = await EstimateRevision.findOne({ where: { estimateId, number }, attributes: { exclude: ['catalog'] }, include: [{ model: User, as: 'author', attributes: ['id', 'name'] }] });
   if (!r) throw problems.notFound('Revision');
   return revisionDto(r);
 }
@@ -312,27 +320,112 @@ export async function duplicateEstimate(sequelize: Sequelize, actorId: number, i
   });
 }
 
-const SORTS: Record<ListQuery['sort'], unknown[]> = {
-  number: ['number', 'ASC'],
-  customer: [{ model: Customer, as: 'customer' }, 'name', 'ASC'],
-  state: ['state', 'ASC'],
-  labourHours: ['labourHours', 'ASC'],
-  total: ['total', 'ASC'],
-  updatedAt: ['updatedAt', 'ASC'],
+/** The list's sort columns, as SQL (the query's aliases). */
+const SORTS: Record<ListQuery['sort'], string> = {
+  number: 'e.number',
+  customer: 'c.name',
+  state: 'e.state',
+  labourHours: 'e.labour_hours',
+  total: 'e.total',
+  updatedAt: 'e.updated_at',
 };
 
+/** An estimate's list row: its columns and the names it shows, as SQL (see summaryFromRow). */
+const SUMMARY_SELECT = `SELECT e.id, e.number, e.title, e.state, e.labour_hours, e.total, e.currency, e.revision_count,
+       e.valid_until::text AS valid_until, e.archived, e.created_at, e.updated_at, c.id AS customer_id, c.name AS customer_name,
+       p.id AS piece_id, p.description AS piece_description, p.kind AS piece_kind, u.id AS owner_id, u.name AS owner_name`;
+const SUMMARY_FROM = `FROM estimates e
+  JOIN customers c ON c.id = e.customer_id
+  JOIN pieces p ON p.id = e.piece_id
+  JOIN users u ON u.id = e.owner_id`;
+
+interface SummaryRow {
+  id: number;
+  number: string;
+  title: string;
+  state: EstimateState;
+  customer_id: number;
+  customer_name: string;
+  piece_id: number;
+  piece_description: string;
+  piece_kind: string;
+  owner_id: number;
+  owner_name: string;
+  labour_hours: string;
+  total: string;
+  currency: string;
+  revision_count: number;
+  valid_until: string;
+  archived: boolean;
+  created_at: Date;
+  updated_at: Date;
+}
+
+function summaryFromRow(r: SummaryRow): EstimateSummary {
+  return {
+    id: r.id,
+    number: r.number,
+    title: r.title,
+    state: r.state,
+    customer: { id: r.customer_id, name: r.customer_name },
+    piece: { id: r.piece_id, description: r.piece_description, kind: r.piece_kind },
+    owner: { id: r.owner_id, name: r.owner_name },
+    labourHours: Number(r.labour_hours),
+    total: Number(r.total).toFixed(2),
+    currency: r.currency,
+    revisionCount: r.revision_count,
+    validUntil: r.valid_until,
+    archived: r.archived,
+    createdAt: new Date(r.created_at).toISOString(),
+    updatedAt: new Date(r.updated_at).toISOString(),
+  };
+}
+
+/**
+ * A page of estimates: one query for the rows (plain SQL, no model instances: the list is the busiest read) and, only
+ * when the page is full, a count that stops ten pages on. A text search reads each table's trigram index: the
+ * estimate's number and title, and the matching customers and pieces (then their estimates by index).
+ */
 export async function listEstimates(q: ListQuery): Promise<Page<EstimateSummary>> {
-  const where: WhereOptions<Estimate> = { archived: q.archived === 'true' };
-  if (q.state) Object.assign(where, { state: q.state });
-  if (q.customerId) Object.assign(where, { customerId: q.customerId });
-  if (q.q) {
-    const like = containsPattern(q.q);
-    Object.assign(where, {
-      [Op.or]: [{ number: { [Op.iLike]: like } }, { title: { [Op.iLike]: like } }, { '$customer.name$': { [Op.iLike]: like } }, { '$piece.description$': { [Op.iLike]: like } }],
-    });
+  const sequelize = Estimate.sequelize!;
+  const conditions = ['e.archived = :archived'];
+  const replacements: Record<string, unknown> = { archived: q.archived === 'true', limit: q.pageSize, offset: offset(q.page, q.pageSize) };
+  if (q.state) {
+    conditions.push('e.state = :state');
+    replacements.state = q.state;
   }
-  const sort = SORTS[q.sort];
-  const order = [[...sort.slice(0, -1), direction(q.dir)], ['id', 'DESC']] as Order;
-  const { rows, count } = await Estimate.findAndCountAll({ where, include: summaryIncludes, order, limit: q.pageSize, offset: offset(q.page, q.pageSize) });
-  return { rows: await withAgreements(rows.map(summaryDto)), total: count, page: q.page, pageSize: q.pageSize };
+  if (q.customerId) {
+    conditions.push('e.customer_id = :customerId');
+    replacements.customerId = q.customerId;
+  }
+  if (q.q) {
+    // The customers and pieces that match come first, as plain id lists, so that PostgreSQL can size each part of
+    // the search and combine the trigram indexes (given a sub-select instead, it guesses and reads the sort index).
+    replacements.like = containsPattern(q.q);
+    const [matched] = await sequelize.query<{ customers: number[]; pieces: number[] }>(
+      `SELECT ARRAY(SELECT id FROM customers WHERE name ILIKE :like) AS customers, ARRAY(SELECT id FROM pieces WHERE description ILIKE :like) AS pieces`,
+      { replacements, type: QueryTypes.SELECT },
+    );
+    const either = ['e.number ILIKE :like', 'e.title ILIKE :like'];
+    if (matched!.customers.length > 0) either.push('e.customer_id IN (:customers)');
+    if (matched!.pieces.length > 0) either.push('e.piece_id IN (:pieces)');
+    Object.assign(replacements, matched);
+    conditions.push(`(${either.join(' OR ')})`);
+  }
+  const where = conditions.join(' AND ');
+  // The capped count rides along in the same round trip (an uncorrelated sub-select PostgreSQL runs once).
+  const countUpTo = `(SELECT count(*)::int FROM (SELECT 1 FROM estimates e WHERE ${where} LIMIT :countLimit) t)`;
+  const rows = await sequelize.query<SummaryRow & { counted: number }>(
+    `${SUMMARY_SELECT}, ${countUpTo} AS counted ${SUMMARY_FROM}
+      WHERE ${where}
+      ORDER BY ${SORTS[q.sort]} ${direction(q.dir)}, e.id DESC
+      LIMIT :limit OFFSET :offset`,
+    { replacements: { ...replacements, countLimit: countLimit(q.page, q.pageSize) + 1 }, type: QueryTypes.SELECT },
+  );
+  const total = await pageTotal(rows.length, q, async (limit) => {
+    if (rows[0]) return rows[0].counted;
+    const [row] = await sequelize.query<{ n: number }>(`SELECT ${countUpTo} AS n`, { replacements: { ...replacements, countLimit: limit }, type: QueryTypes.SELECT });
+    return row!.n;
+  });
+  return { rows: await withAgreements(rows.map(summaryFromRow)), ...total, page: q.page, pageSize: q.pageSize };
 }

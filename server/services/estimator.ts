@@ -8,6 +8,7 @@ import { EstimateInputSchema, type EstimateResult, type ParsedEstimateInput } fr
 import type { WorkshopSettings } from '@shared/schemas/workshop';
 import { HttpProblem, parseOr400 } from '../http/problem';
 import { loadCatalog, type LoadedCatalog } from './catalog';
+import type { SharedCaches } from './shared-caches';
 
 export interface ServerEstimate {
   input: ParsedEstimateInput;
@@ -44,7 +45,7 @@ export function runEngine(input: ParsedEstimateInput, loaded: LoadedCatalog, tod
 }
 
 /** Validates a request body and estimates it against the current price list. */
-export async function estimateFromBody(sequelize: Sequelize, body: unknown, opts: { transaction?: Transaction; onDate?: string } = {}): Promise<ServerEstimate> {
+export async function estimateFromBody(sequelize: Sequelize, body: unknown, opts: { transaction?: Transaction; onDate?: string; cache?: SharedCaches } = {}): Promise<ServerEstimate> {
   const loaded = await loadCatalog(sequelize, opts);
   const input = withWorkshopDefaults(body, loaded.settings);
   return { input, result: runEngine(input, loaded), loaded };

@@ -38,7 +38,7 @@ import { loadSettings } from './catalog';
 import { deliver } from './mail';
 import { composeMail } from './mail-compose';
 import { lapseCheckouts, paymentDto } from './payments';
-import { containsPattern, direction, offset } from './paging';
+import { anyOf, containsPattern, direction, offset, pageTotal } from './paging';
 import { storedPath } from './photos';
 
 type CreateInput = z.output<typeof CreateQuoteSchema>;
@@ -417,22 +417,31 @@ export async function listQuotes(q: ListQuery): Promise<Page<QuoteSummary>> {
   if (q.estimateId) Object.assign(where, { estimateId: q.estimateId });
   if (q.q) {
     const like = containsPattern(q.q);
-    Object.assign(where, { [Op.or]: [{ number: { [Op.iLike]: like } }, { recipient: { [Op.iLike]: like } }, { '$estimate.number$': { [Op.iLike]: like } }, { '$estimate.title$': { [Op.iLike]: like } }] });
+    // Each table's trigram index: the quote's number and recipient, and the quotes of matching estimates.
+    const escaped = Quote.sequelize!.escape(like);
+    Object.assign(where, {
+      [Op.or]: [
+        { number: { [Op.iLike]: like } },
+        { recipient: { [Op.iLike]: like } },
+        anyOf('"Quote"."estimate_id"', `SELECT id FROM estimates WHERE number ILIKE ${escaped} OR title ILIKE ${escaped}`),
+      ],
+    });
   }
-  const { rows, count } = await Quote.findAndCountAll({
+  const rows = await Quote.findAll({
     where,
     include: [{ model: Estimate, as: 'estimate' }],
     order: [[...SORTS[q.sort], direction(q.dir)], ['id', 'DESC']] as never,
     limit: q.pageSize,
     offset: offset(q.page, q.pageSize),
   });
+  const total = await pageTotal(rows.length, q, async (limit) => (await Quote.findAll({ where, attributes: ['id'], limit, raw: true })).length);
   const customers = await Customer.findAll({ where: { id: rows.map((r) => r.estimate!.customerId) } });
   const revisions = await EstimateRevision.findAll({ where: { id: rows.map((r) => r.revisionId) }, attributes: ['id', 'number'] });
   return {
     rows: rows.map((r) =>
       summary(r, r.estimate!, customers.find((c) => c.id === r.estimate!.customerId)!, revisions.find((v) => v.id === r.revisionId)?.number ?? 0),
     ),
-    total: count,
+    ...total,
     page: q.page,
     pageSize: q.pageSize,
   };

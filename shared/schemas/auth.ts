@@ -77,7 +77,9 @@ export type UserListQuery = z.infer<typeof UserListQuerySchema>;
 /** A page of rows from a server-side paged table. */
 export interface Page<T> {
   rows: T[];
+  /** How many rows match; with `totalCapped`, the list counted this far and there are more. */
   total: number;
+  totalCapped?: boolean;
   page: number;
   pageSize: number;
 }

@@ -16,6 +16,8 @@ export interface DataTableProps<T> {
   rows: T[];
   rowKey: (row: T) => string | number;
   total: number;
+  /** The server counted `total` matches and stopped: there are more. */
+  totalCapped?: boolean;
   page: number;
   pageSize: number;
   sort?: string;
@@ -27,7 +29,7 @@ export interface DataTableProps<T> {
 }
 
 /** A table sorted and paged on the server. */
-export function DataTable<T>({ caption, columns, rows, rowKey, total, page, pageSize, sort, dir, loading, empty, onSort, onPage }: DataTableProps<T>) {
+export function DataTable<T>({ caption, columns, rows, rowKey, total, totalCapped = false, page, pageSize, sort, dir, loading, empty, onSort, onPage }: DataTableProps<T>) {
   const pages = Math.max(1, Math.ceil(total / pageSize));
   const from = total === 0 ? 0 : (page - 1) * pageSize + 1;
   const to = Math.min(total, page * pageSize);
@@ -83,16 +85,16 @@ export function DataTable<T>({ caption, columns, rows, rowKey, total, page, page
       </div>
       <nav className="flex items-center justify-between gap-4 border-t border-parchment-200 bg-parchment-50 px-4 py-2 text-sm text-walnut-600" aria-label={`${caption} pages`}>
         <span className="num">
-          {from}–{to} of {total}
+          {from}–{to} of {totalCapped ? `more than ${total}` : total}
         </span>
         <div className="flex items-center gap-2">
           <button type="button" className="rounded p-1 hover:bg-walnut-50 disabled:opacity-40" onClick={() => onPage(page - 1)} disabled={page <= 1} aria-label="Previous page">
             <ChevronLeft className="h-4 w-4" aria-hidden />
           </button>
           <span className="num">
-            Page {page} of {pages}
+            Page {page} of {totalCapped ? `more than ${pages}` : pages}
           </span>
-          <button type="button" className="rounded p-1 hover:bg-walnut-50 disabled:opacity-40" onClick={() => onPage(page + 1)} disabled={page >= pages} aria-label="Next page">
+          <button type="button" className="rounded p-1 hover:bg-walnut-50 disabled:opacity-40" onClick={() => onPage(page + 1)} disabled={page >= pages && !totalCapped} aria-label="Next page">
             <ChevronRight className="h-4 w-4" aria-hidden />
           </button>
         </div>

@@ -31,6 +31,7 @@ export function PagedTable<T>({ caption, columns, rowKey, query, table, pageSize
       rows={query.data?.rows ?? []}
       rowKey={rowKey}
       total={query.data?.total ?? 0}
+      totalCapped={query.data?.totalCapped}
       page={table.state.page}
       pageSize={pageSize}
       sort={sort === false ? undefined : (sort ?? table.state.sort)}

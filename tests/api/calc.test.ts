@@ -2,7 +2,7 @@ import { afterAll, beforeAll, describe, expect, it } from 'vitest';
 import { MaterialPack, PackPrice, Material } from '../../server/models';
 import { closeTestApp, getTestApp, signInAs, type Session } from '../helpers/app';
 
-const { app } = getTestApp();
+const { app, caches } = getTestApp();
 afterAll(closeTestApp);
 
 let s: Session;
@@ -35,6 +35,8 @@ describe('POST /api/calc/preview', () => {
     const flakes = await Material.findOne({ where: { key: 'shellac-flakes' } });
     const packs = await MaterialPack.findAll({ where: { materialId: flakes!.id } });
     const added = await Promise.all(packs.map((p) => PackPrice.create({ packId: p.id, price: '999.00', effectiveFrom: '2026-11-01', userId: null, source: 'test' })));
+    // Written straight to the table: the app hears of it through the database's notification.
+    await caches.settle();
     try {
       const after = await preview(smallest).expect(200);
       const line = (r: typeof before) => Number(r.body.price.lines.find((l: { code: string }) => l.code === 'materials').amount);
@@ -42,6 +44,7 @@ describe('POST /api/calc/preview', () => {
       expect(after.body.catalogVersion).not.toBe(before.body.catalogVersion);
     } finally {
       await Promise.all(added.map((p) => p.destroy()));
+      await caches.settle();
     }
   });
 

@@ -48,9 +48,15 @@ describe('customers and pieces', () => {
        SELECT 'Bulk customer ' || lpad(g::text, 5, '0'), 'bulk' || g || '@example.com', now(), now() FROM generate_series(1, 10000) g`,
     );
     const page = await sales.agent.get('/api/customers?q=Bulk%20customer&sort=name&dir=desc&page=3&pageSize=50').expect(200);
-    expect(page.body.total).toBe(10_000);
+    // The count stops ten pages past the one shown: "more than 600", not a count of all 10 000.
+    expect(page.body).toMatchObject({ total: 600, totalCapped: true });
     expect(page.body.rows).toHaveLength(50);
     expect(page.body.rows[0].name).toBe('Bulk customer 09900');
+    // Near the end the count reaches the end and is exact.
+    const last = await sales.agent.get('/api/customers?q=Bulk%20customer&sort=name&dir=desc&page=195&pageSize=50').expect(200);
+    expect(last.body.total).toBe(10_000);
+    expect(last.body.totalCapped).toBeUndefined();
+    expect(last.body.rows.at(-1).name).toBe('Bulk customer 00251');
     const one = await sales.agent.get('/api/customers?q=customer%2004242').expect(200);
     expect(one.body.rows.map((r: { name: string }) => r.name)).toEqual(['Bulk customer 04242']);
     await sequelize.query("DELETE FROM customers WHERE name LIKE 'Bulk customer %'");
@@ -191,6 +197,17 @@ describe('estimates and revisions', () => {
     expect([...totals].sort((a, b) => a - b)).toEqual(totals);
     const bad = await sales.agent.get('/api/estimates?state=lost');
     expect(JSON.parse(bad.text).field).toBe('state');
+  });
+
+  it("a list row says what the estimate's own page says, and each search column finds it", async () => {
+    const detail = await sales.agent.get(`/api/estimates/${id}`).expect(200);
+    const { revisions: _revisions, current: _current, ...summary } = detail.body;
+    for (const q of [detail.body.number, 'Hollingsworth', 'rosewood veneer', detail.body.title.slice(0, 12)]) {
+      const res = await sales.agent.get(`/api/estimates?q=${encodeURIComponent(q)}&pageSize=100`).expect(200);
+      expect(res.body.rows.find((r: { id: number }) => r.id === id), q).toEqual(summary);
+    }
+    const none = await sales.agent.get('/api/estimates?q=' + encodeURIComponent('100%_\\ nothing')).expect(200);
+    expect(none.body).toMatchObject({ rows: [], total: 0 });
   });
 
   it('duplicates for a similar piece and archives', async () => {

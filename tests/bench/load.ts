@@ -1,29 +1,36 @@
 /**
- * `npm run bench:load`: autocannon on loopback against the built server — the calculator preview, the estimates
- * list at 10 000 estimates, an estimate's detail — beside a bare Express endpoint in the same run. Prints requests
- * per second, p50/p99 latency, the ratio to the bare endpoint and the errors; the query plan of the list; the
- * client's initial JavaScript (gzipped) against its 250 KB budget; and the time to make a quote PDF.
- * Figures only, no pass/fail. Options: BENCH_SECONDS (default 8), BENCH_CONNECTIONS (default 10).
- */
+ * `npm run bench:load`: autocannon on loopback against the server as `npm run serve` runs it (node:cluster, in
+ * processes of its own), with 1 and then 2 worker processes: the calculator preview, the estimates list at 10 000
+ * estimates, a broad and a selective text search and an estimate's detail, beside a bare Express endpoint served the
+ * same way. Prints requests per second (the median of the one-second counts, and the mean), p50/p99 latency, the
+ * ratio to the bare endpoint and the errors; the query plans of the list and of the three search boxes; the client's
+ * initial JavaScript (gzipped) against its 250 KB budget; and the time to make a quote PDF. Figures only, no
+ * pass/fail. Options: BENCH_SECONDS (default 8), BENCH_CONNECTIONS (default 10), BENCH_PROCESSES (default "1,2"). */
+import { spawn, type ChildProcess } from 'node:child_process';
 import fs from 'node:fs';
+import net from 'node:net';
 import path from 'node:path';
 import { gzipSync } from 'node:zlib';
 import autocannon from 'autocannon';
-import express from 'express';
-import { createApp } from '../../server/app';
 import { buildClientIfNeeded } from '../../server/cli/build-client';
 import { rootDir } from '../../server/config';
 import { stopCluster } from '../../server/db/cluster';
 import { renderQuotePdf } from '../../server/pdf/quote-pdf';
+import { listCustomers } from '../../server/services/customers';
+import { listEstimates } from '../../server/services/estimates';
+import { listQuotes } from '../../server/services/quotes';
 import { estimateDocument } from '../../server/services/quotes';
-import { benchDatabase, listen, signInHttp } from './bench-env';
+import { BENCH_DATA_DIR, benchDatabase, signInHttp } from './bench-env';
 
 const SECONDS = Number(process.env.BENCH_SECONDS ?? 8);
 const CONNECTIONS = Number(process.env.BENCH_CONNECTIONS ?? 10);
+const PROCESSES = (process.env.BENCH_PROCESSES ?? '1,2').split(',').map(Number);
 
 interface Row {
   name: string;
+  /** The median of the run's one-second request counts. */
   rps: number;
+  mean: number;
   p50: number;
   p99: number;
   errors: number;
@@ -32,7 +39,7 @@ interface Row {
 
 async function run(name: string, opts: autocannon.Options): Promise<Row> {
   const result = await autocannon({ connections: CONNECTIONS, duration: SECONDS, ...opts });
-  return { name, rps: result.requests.average, p50: result.latency.p50, p99: result.latency.p99, errors: result.errors + result.timeouts, non2xx: result.non2xx };
+  return { name, rps: result.requests.p50, mean: result.requests.average, p50: result.latency.p50, p99: result.latency.p99, errors: result.errors + result.timeouts, non2xx: result.non2xx };
 }
 
 function initialJsKb(): { files: string[]; gzipKb: number } {
@@ -42,49 +49,153 @@ function initialJsKb(): { files: string[]; gzipKb: number } {
   return { files, gzipKb: bytes / 1024 };
 }
 
+async function freePort(): Promise<number> {
+  const server = net.createServer();
+  await new Promise<void>((resolve) => server.listen(0, '127.0.0.1', resolve));
+  const { port } = server.address() as net.AddressInfo;
+  await new Promise<void>((resolve) => server.close(() => resolve()));
+  return port;
+}
+
+interface Served {
+  url: string;
+  stop(): Promise<void>;
+}
+
+/**
+ * Starts `script` under node:cluster with `processes` workers and waits (at most a minute) until each worker has
+ * printed `ready`.
+ */
+async function serve(script: string, processes: number, ready: RegExp, env: Record<string, string> = {}): Promise<Served> {
+  const port = await freePort();
+  const child: ChildProcess = spawn(process.execPath, ['--import', 'tsx', path.join(rootDir, script)], {
+    cwd: rootDir,
+    env: { ...process.env, ...env, PORT: String(port), WEB_CONCURRENCY: String(processes) },
+    stdio: ['ignore', 'pipe', 'inherit'],
+  });
+  const exited = new Promise<void>((resolve) => child.once('exit', () => resolve()));
+  await new Promise<void>((resolve, reject) => {
+    let up = 0;
+    let buffered = '';
+    const timer = setTimeout(() => reject(new Error(`${script}: ${up} of ${processes} workers up after a minute`)), 60_000);
+    child.once('exit', () => reject(new Error(`${script} stopped before it was up`)));
+    child.stdout!.on('data', (chunk: Buffer) => {
+      buffered += chunk.toString();
+      const lines = buffered.split('\n');
+      buffered = lines.pop()!;
+      up += lines.filter((l) => ready.test(l)).length;
+      if (up >= processes) {
+        clearTimeout(timer);
+        resolve();
+      }
+    });
+  });
+  return {
+    url: `http://127.0.0.1:${port}`,
+    stop: async () => {
+      child.kill('SIGTERM');
+      await exited;
+    },
+  };
+}
+
+function printRows(rows: Row[]): void {
+  const base = rows[0]!.rps;
+  console.log('endpoint'.padEnd(46) + 'req/s'.padStart(9) + 'mean'.padStart(8) + 'p50 ms'.padStart(9) + 'p99 ms'.padStart(9) + 'ratio'.padStart(8) + 'errors'.padStart(8) + 'non-2xx'.padStart(9));
+  for (const r of rows) {
+    console.log(
+      r.name.padEnd(46) +
+        r.rps.toFixed(0).padStart(9) +
+        r.mean.toFixed(0).padStart(8) +
+        String(r.p50).padStart(9) +
+        String(r.p99).padStart(9) +
+        (r.rps / base).toFixed(3).padStart(8) +
+        String(r.errors).padStart(8) +
+        String(r.non2xx).padStart(9),
+    );
+  }
+}
+
 async function main(): Promise<void> {
   await buildClientIfNeeded();
   const { cluster, url, config, sequelize } = await benchDatabase();
-  const built = createApp({ config, sequelize, databaseUrl: url });
-  const app = await listen(built.app);
-  const bareApp = express();
-  bareApp.get('/bare', (_req, res) => {
-    res.json({ status: 'ok' });
-  });
-  const bare = await listen(bareApp);
+  await sequelize.query('ANALYZE');
+  const serverEnv = { DATABASE_URL: url, SHELLWRIGHT_DATA_DIR: BENCH_DATA_DIR, NODE_ENV: 'development', SHELLWRIGHT_LOGIN_ATTEMPTS: '1000' };
   try {
-    const { cookie, csrf } = await signInHttp(app.url, 'estimator@example.com');
-    const headers = { cookie, 'content-type': 'application/json', 'x-csrf-token': csrf };
     const [{ id }] = (await sequelize.query("SELECT id FROM estimates WHERE number LIKE 'EST-%' ORDER BY id LIMIT 1"))[0] as [{ id: number }];
     const preview = JSON.stringify({ piece: { template: 'grand', dimensions: { length: '6 ft 3 in' } }, system: 'full-repolish' });
+    const [[{ matches }]] = (await sequelize.query(
+      `SELECT count(*)::int AS matches FROM estimates e JOIN customers c ON c.id = e.customer_id JOIN pieces p ON p.id = e.piece_id
+        WHERE NOT e.archived AND (e.number ILIKE '%grand%' OR e.title ILIKE '%grand%' OR c.name ILIKE '%grand%' OR p.description ILIKE '%grand%')`,
+    )) as [[{ matches: number }], unknown];
 
-    console.log(`Node ${process.version}; ${CONNECTIONS} connections, ${SECONDS} s each, loopback; one process for the app.`);
-    const rows: Row[] = [];
-    rows.push(await run('bare Express GET /bare', { url: `${bare.url}/bare` }));
-    rows.push(await run('POST /api/calc/preview (default grand)', { url: `${app.url}/api/calc/preview`, method: 'POST', headers, body: preview }));
-    rows.push(await run('GET /api/estimates (10 000, page 1)', { url: `${app.url}/api/estimates?sort=updatedAt&dir=desc&page=1&pageSize=25`, headers }));
-    rows.push(await run('GET /api/estimates?q=grand&sort=total', { url: `${app.url}/api/estimates?q=grand&sort=total&dir=desc&page=3`, headers }));
-    rows.push(await run(`GET /api/estimates/${id} (detail)`, { url: `${app.url}/api/estimates/${id}`, headers }));
-    const base = rows[0]!.rps;
-    console.log('\nendpoint'.padEnd(46) + 'req/s'.padStart(9) + 'p50 ms'.padStart(9) + 'p99 ms'.padStart(9) + 'ratio'.padStart(8) + 'errors'.padStart(8) + 'non-2xx'.padStart(9));
-    for (const r of rows) {
-      console.log(
-        r.name.padEnd(45) +
-          r.rps.toFixed(0).padStart(9) +
-          String(r.p50).padStart(9) +
-          String(r.p99).padStart(9) +
-          (r.rps / base).toFixed(3).padStart(8) +
-          String(r.errors).padStart(8) +
-          String(r.non2xx).padStart(9),
-      );
+    console.log(`Node ${process.version}; ${CONNECTIONS} connections, ${SECONDS} s each, loopback; autocannon in this process, the servers in their own.`);
+    console.log(`The search "grand" matches ${matches} of the 10 000 estimates.`);
+    const summary: { processes: number; rows: Row[] }[] = [];
+    for (const processes of PROCESSES) {
+      console.log(`\n${processes} process${processes === 1 ? '' : 'es'} (node:cluster, as npm run serve):`);
+      const rows: Row[] = [];
+      const bare = await serve('tests/bench/bare-server.ts', processes, /^\[bare\] up/);
+      try {
+        rows.push(await run('bare Express GET /bare', { url: `${bare.url}/bare` }));
+      } finally {
+        await bare.stop();
+      }
+      const app = await serve('server/cluster.ts', processes, /Shellwright is up/, serverEnv);
+      try {
+        const { cookie, csrf } = await signInHttp(app.url, 'estimator@example.com');
+        const headers = { cookie, 'content-type': 'application/json', 'x-csrf-token': csrf };
+        rows.push(await run('POST /api/calc/preview (default grand)', { url: `${app.url}/api/calc/preview`, method: 'POST', headers, body: preview }));
+        rows.push(await run('GET /api/estimates (10 000, page 1)', { url: `${app.url}/api/estimates?sort=updatedAt&dir=desc&page=1&pageSize=25`, headers }));
+        rows.push(await run('GET /api/estimates?q=grand&sort=total p.3', { url: `${app.url}/api/estimates?q=grand&sort=total&dir=desc&page=3`, headers }));
+        rows.push(await run('GET /api/estimates?q=0042 (selective)', { url: `${app.url}/api/estimates?q=0042`, headers }));
+        rows.push(await run(`GET /api/estimates/${id} (detail)`, { url: `${app.url}/api/estimates/${id}`, headers }));
+      } finally {
+        await app.stop();
+      }
+      printRows(rows);
+      summary.push({ processes, rows });
+    }
+    if (summary.length > 1) {
+      console.log('\nthroughput by processes (req/s):');
+      console.log('endpoint'.padEnd(46) + summary.map((s) => `${s.processes} proc`.padStart(10)).join('') + 'gain'.padStart(8));
+      for (let i = 0; i < summary[0]!.rows.length; i++) {
+        const values = summary.map((s) => s.rows[i]!.rps);
+        console.log(summary[0]!.rows[i]!.name.padEnd(46) + values.map((v) => v.toFixed(0).padStart(10)).join('') + (values.at(-1)! / values[0]!).toFixed(2).padStart(8));
+      }
     }
 
-    const [plan] = await sequelize.query(
-      `EXPLAIN SELECT e.* FROM estimates e JOIN customers c ON c.id = e.customer_id
-        WHERE e.archived = false ORDER BY e.updated_at DESC, e.id DESC LIMIT 25`,
-    );
-    console.log('\nplan of the estimates list (first page):');
-    for (const line of plan as { 'QUERY PLAN': string }[]) console.log(`  ${line['QUERY PLAN']}`);
+    // The query plans of the list's first page and of the search boxes, as the services send them.
+    const captured: string[] = [];
+    const options = (sequelize as unknown as { options: { logging: unknown } }).options;
+    const logging = options.logging;
+    options.logging = (sql: string) => captured.push(sql.replace(/^Executing \([^)]*\): /, ''));
+    // [what, the call, also show the plan with sequential scans off (a table small enough that reading it whole is
+    // cheaper: the plan PostgreSQL switches to as it grows)]
+    const plans: [string, () => Promise<unknown>, boolean][] = [
+      ['estimates list, first page', () => listEstimates({ sort: 'updatedAt', dir: 'desc', page: 1, pageSize: 25, archived: 'false' } as never), false],
+      ['estimates search "grand" (most rows match), page 3 by total', () => listEstimates({ q: 'grand', sort: 'total', dir: 'desc', page: 3, pageSize: 25, archived: 'false' } as never), false],
+      ['estimates search "0042" (selective)', () => listEstimates({ q: '0042', sort: 'updatedAt', dir: 'desc', page: 1, pageSize: 25, archived: 'false' } as never), false],
+      ['customers search "load customer 77"', () => listCustomers(sequelize, { q: 'load customer 77', sort: 'name', dir: 'asc', page: 1, pageSize: 25, archived: 'false' } as never), true],
+      ['quotes search "EST-2026"', () => listQuotes({ q: 'EST-2026', sort: 'updatedAt', dir: 'desc', page: 1, pageSize: 25 } as never), true],
+    ];
+    for (const [what, call, alsoWithoutSeqScan] of plans) {
+      captured.length = 0;
+      await call();
+      const select = captured.find((q) => /^SELECT/.test(q) && /ORDER BY/.test(q))!.replace(/;\s*$/, '');
+      const [plan] = await sequelize.query(`EXPLAIN (ANALYZE, COSTS OFF) ${select}`);
+      console.log(`\nplan of the ${what}:`);
+      for (const line of plan as { 'QUERY PLAN': string }[]) console.log(`  ${line['QUERY PLAN']}`);
+      if (alsoWithoutSeqScan) {
+        await sequelize.transaction(async (transaction) => {
+          await sequelize.query('SET LOCAL enable_seqscan = off', { transaction });
+          const [forced] = await sequelize.query(`EXPLAIN (ANALYZE, COSTS OFF) ${select}`, { transaction });
+          console.log('  the same with sequential scans off:');
+          for (const line of forced as { 'QUERY PLAN': string }[]) console.log(`    ${line['QUERY PLAN']}`);
+        });
+      }
+    }
+    options.logging = logging;
 
     const js = initialJsKb();
     console.log(`\ninitial JavaScript: ${js.files.length} file(s), ${js.gzipKb.toFixed(1)} KB gzipped (budget 250 KB)`);
@@ -99,9 +210,6 @@ async function main(): Promise<void> {
     times.sort((a, b) => a - b);
     console.log(`quote PDF: median ${times[6]!.toFixed(0)} ms, p90 ${times[10]!.toFixed(0)} ms (12 renders, ${(await renderQuotePdf(doc)).length / 1024 | 0} KB)`);
   } finally {
-    await app.close();
-    await bare.close();
-    await built.close();
     await sequelize.close();
     stopCluster(cluster);
   }

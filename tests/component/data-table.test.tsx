@@ -31,4 +31,13 @@ describe('DataTable', () => {
     expect(screen.getByText('No jobs')).toBeTruthy();
     expect(onPage).not.toHaveBeenCalled();
   });
+
+  it('says "more than" when the server stopped counting, and lets the user page on', () => {
+    const onPage = vi.fn();
+    render(<DataTable caption="Jobs" columns={columns} rows={[{ id: 1, name: 'Lid', hours: 3 }]} rowKey={(r) => r.id} total={250} totalCapped page={10} pageSize={25} onPage={onPage} />);
+    expect(screen.getByText('226–250 of more than 250')).toBeTruthy();
+    expect(screen.getByText('Page 10 of more than 10')).toBeTruthy();
+    fireEvent.click(screen.getByRole('button', { name: 'Next page' }));
+    expect(onPage).toHaveBeenCalledWith(11);
+  });
 });

@@ -1,0 +1,157 @@
+/**
+ * Two instances of the app in one process, each with its own caches and its own LISTEN connection, on the one test
+ * database: a change made through one (or by plain SQL) reaches the other's next request. Waits are on the
+ * notifications themselves (SharedCaches.settle sends a marker through PostgreSQL and waits for it to come back),
+ * never on a clock.
+ */
+import { once } from 'node:events';
+import { afterAll, beforeAll, describe, expect, it } from 'vitest';
+import { QueryTypes } from 'sequelize';
+import supertest from 'supertest';
+import { createApp, type BuiltApp } from '../../server/app';
+import { loadConfig } from '../../server/config';
+import { createSequelize } from '../../server/db/sequelize';
+import type { Invalidation, SharedCaches } from '../../server/services/shared-caches';
+import { signIn, signInAs, testDatabaseUrl, type Session } from '../helpers/app';
+
+const url = testDatabaseUrl();
+const sequelize = createSequelize(url);
+const config = loadConfig();
+let a: BuiltApp;
+let b: BuiltApp;
+
+beforeAll(async () => {
+  a = createApp({ config, sequelize, databaseUrl: url, serveClient: false });
+  b = createApp({ config, sequelize, databaseUrl: url, serveClient: false });
+  await Promise.all([a.caches.ready, b.caches.ready]);
+});
+afterAll(async () => {
+  await a?.close();
+  await b?.close();
+  await sequelize.close();
+});
+
+/** Resolves when `caches` has applied an invalidation that `match` accepts. */
+async function invalidated(caches: SharedCaches, match: (c: Invalidation) => boolean): Promise<void> {
+  for (;;) {
+    const [change] = (await once(caches.events, 'invalidated')) as [Invalidation];
+    if (match(change)) return;
+  }
+}
+
+const PASSWORD = 'a-long-test-password-17';
+
+async function newUser(owner: Session, role: 'owner' | 'estimator' | 'sales'): Promise<{ id: number; email: string }> {
+  const email = `cache-${role}-${Date.now()}-${Math.random().toString(36).slice(2, 7)}@example.com`;
+  const res = await owner.agent.post('/api/users').set('x-csrf-token', owner.csrf).send({ email, name: 'Cache Test', role, password: PASSWORD });
+  expect(res.status).toBe(201);
+  return { id: res.body.id as number, email };
+}
+
+async function sessionExpiry(userId: number): Promise<number> {
+  const [row] = await sequelize.query<{ expire: Date }>(`SELECT max(expire) AS expire FROM session WHERE (sess->'passport'->>'user') = :id`, {
+    replacements: { id: String(userId) },
+    type: QueryTypes.SELECT,
+  });
+  return row!.expire.getTime();
+}
+
+describe('users cached per instance, dropped on every instance', () => {
+  let ownerOnA: Session;
+  beforeAll(async () => {
+    ownerOnA = await signInAs(a.app, 'owner');
+  });
+
+  it('deactivating a user on A: B refuses their next request', async () => {
+    const user = await newUser(ownerOnA, 'estimator');
+    const onB = await signIn(b.app, user.email, PASSWORD);
+    await onB.agent.get('/api/estimates').expect(200);
+    await onB.agent.get('/api/estimates').expect(200); // now from B's memory
+
+    const heard = invalidated(b.caches, (c) => c.kind === 'user' && c.id === user.id);
+    await ownerOnA.agent.patch(`/api/users/${user.id}`).set('x-csrf-token', ownerOnA.csrf).send({ active: false }).expect(200);
+    await heard;
+    await onB.agent.get('/api/estimates').expect(401);
+  });
+
+  it('a change made outside the app (plain SQL) reaches both instances: a new role, then deactivated', async () => {
+    const user = await newUser(ownerOnA, 'owner');
+    const cookie = await signInCookie(b.app, user.email);
+    for (const app of [a.app, b.app, a.app, b.app]) await get(app, cookie, '/api/users').expect(200);
+
+    // A role that may not list users, written straight to the table: the session itself is untouched.
+    await sequelize.query("UPDATE users SET role = 'sales' WHERE id = :id", { replacements: { id: user.id } });
+    await Promise.all([a.caches.settle(), b.caches.settle()]);
+    for (const app of [a.app, b.app]) await get(app, cookie, '/api/users').expect(403);
+
+    await sequelize.query('UPDATE users SET active = false WHERE id = :id', { replacements: { id: user.id } });
+    await Promise.all([a.caches.settle(), b.caches.settle()]);
+    for (const app of [a.app, b.app]) await get(app, cookie, '/api/estimates').expect(401);
+  });
+
+  it("writes a session's expiry at sign-in, not again on each request within minutes", async () => {
+    const user = await newUser(ownerOnA, 'sales');
+    const s = await signIn(a.app, user.email, PASSWORD);
+    // Wind the stored expiry back an hour: a write on the next requests would move it to 12 hours from now.
+    await sequelize.query(`UPDATE session SET expire = expire - interval '1 hour' WHERE (sess->'passport'->>'user') = :id`, { replacements: { id: String(user.id) } });
+    const wound = await sessionExpiry(user.id);
+    for (let i = 0; i < 3; i++) await s.agent.get('/api/estimates').expect(200);
+    expect(await sessionExpiry(user.id)).toBe(wound);
+    // Another instance has not written it yet: its first request does, once.
+    const cookie = await signInCookie(a.app, user.email);
+    await sequelize.query(`UPDATE session SET expire = expire - interval '1 hour' WHERE (sess->'passport'->>'user') = :id`, { replacements: { id: String(user.id) } });
+    await get(b.app, cookie, '/api/estimates').expect(200);
+    await get(b.app, cookie, '/api/estimates').expect(200);
+    const [row] = await sequelize.query<{ ahead: number }>(
+      `SELECT extract(epoch FROM max(expire) - now())::int AS ahead FROM session WHERE (sess->'passport'->>'user') = :id`,
+      { replacements: { id: String(user.id) }, type: QueryTypes.SELECT },
+    );
+    expect(row!.ahead).toBeGreaterThan(11 * 3600);
+  });
+});
+
+describe('the catalog cached per instance, dropped on every instance', () => {
+  it('a price change on A changes the catalog B prices with', async () => {
+    const ownerOnA = await signInAs(a.app, 'owner');
+    const salesOnB = await signInAs(b.app, 'sales');
+    const before = await salesOnB.agent.get('/api/calc/catalog').expect(200);
+    await salesOnB.agent.get('/api/calc/catalog').expect(200); // now from B's memory
+    const flakes = (before.body.catalog.materials as { key: string; packs: { size: number; price: string }[] }[]).find((m) => m.key === 'shellac-flakes')!;
+
+    const [pack] = await sequelize.query<{ id: number }>(
+      "SELECT p.id FROM material_packs p JOIN materials m ON m.id = p.material_id WHERE m.key = 'shellac-flakes' AND NOT p.archived ORDER BY p.size LIMIT 1",
+      { type: QueryTypes.SELECT },
+    );
+    const today = new Date().toISOString().slice(0, 10);
+    const heard = invalidated(b.caches, (c) => c.kind === 'catalog');
+    const res = await ownerOnA.agent.post(`/api/price-list/packs/${pack!.id}/prices`).set('x-csrf-token', ownerOnA.csrf).send({ price: '987.65', effectiveFrom: today });
+    expect(res.status).toBe(201);
+    try {
+      await heard;
+      const after = await salesOnB.agent.get('/api/calc/catalog').expect(200);
+      expect(after.body.catalog.version).not.toBe(before.body.catalog.version);
+      const flakesAfter = (after.body.catalog.materials as typeof flakes[]).find((m) => m.key === 'shellac-flakes')!;
+      expect(flakesAfter.packs.map((p) => p.price)).toContain('987.65');
+      expect(flakes.packs.map((p) => p.price)).not.toContain('987.65');
+      // A's own next request sees it too (dropped locally before A answered the write).
+      const onA = await ownerOnA.agent.get('/api/calc/catalog').expect(200);
+      expect(onA.body.catalog.version).toBe(after.body.catalog.version);
+    } finally {
+      await sequelize.query("DELETE FROM pack_prices WHERE pack_id = :id AND price = 987.65 AND effective_from = :today", { replacements: { id: pack!.id, today } });
+      await Promise.all([a.caches.settle(), b.caches.settle()]);
+    }
+    const restored = await salesOnB.agent.get('/api/calc/catalog').expect(200);
+    expect(restored.body.catalog.version).toBe(before.body.catalog.version);
+  });
+});
+
+/** Signs in through `app` and returns the session cookie, which either instance accepts. */
+async function signInCookie(app: BuiltApp['app'], email: string): Promise<string> {
+  const first = await supertest(app).get('/api/auth/csrf').expect(200);
+  const cookie0 = String(first.headers['set-cookie']![0]).split(';')[0]!;
+  const res = await supertest(app).post('/api/auth/login').set('cookie', cookie0).set('x-csrf-token', first.body.csrfToken).send({ email, password: PASSWORD });
+  expect(res.status).toBe(200);
+  return String(res.headers['set-cookie']![0]).split(';')[0]!;
+}
+
+const get = (app: BuiltApp['app'], cookie: string, path: string) => supertest(app).get(path).set('cookie', cookie);
