@@ -4,6 +4,7 @@ import { z } from 'zod';
 import { IdSchema, PHOTO_LIMITS, PhotoCaptionSchema, PieceInputSchema, PieceListQuerySchema } from '@shared/schemas/customers';
 import type { Config } from '../config';
 import { secureRouter, type RouteInfo } from '../http/guard';
+import { multipart } from '../http/input';
 import { parseOr400 } from '../http/problem';
 import { addPhotos, deletePhoto, photoFile, updateCaption } from '../services/photos';
 import { createPiece, getPiece, listPieces, updatePiece } from '../services/pieces';
@@ -31,7 +32,7 @@ export function pieceRoutes(config: Config, sequelize: Sequelize, table: RouteIn
     const { id } = parseOr400(IdParam, req.params);
     res.json(await updatePiece(sequelize, req.user!.id, id, parseOr400(PieceInputSchema.partial(), req.body)));
   });
-  r.post('/:id/photos', WRITE, upload.array('photos', PHOTO_LIMITS.maxFiles), async (req, res) => {
+  r.post('/:id/photos', WRITE, ...multipart(upload.array('photos', PHOTO_LIMITS.maxFiles), 'photos'), async (req, res) => {
     const { id } = parseOr400(IdParam, req.params);
     const files = (req.files as Express.Multer.File[] | undefined) ?? [];
     const raw = (req.body as Record<string, unknown> | undefined)?.captions;
