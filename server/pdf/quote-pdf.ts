@@ -5,6 +5,7 @@
  */
 import PDFDocument from 'pdfkit';
 import sharp from 'sharp';
+import { imageJob } from '../services/image-jobs';
 import type { QuoteDocument } from './quote-document';
 import { LORA, registerLora } from './pdf-fonts';
 import { formatDate, formatDays, formatHours, formatMoney, formatNumber, formatPercent, paragraphs, pdfText } from './pdf-format';
@@ -64,12 +65,14 @@ interface Photo {
 /** The condition photo upright, at most 1400 px, as JPEG (small, and any PNG or JPEG the upload held). */
 async function preparePhoto(bytes: Buffer): Promise<Photo | null> {
   try {
-    const { data, info } = await sharp(bytes)
-      .rotate()
-      .resize({ width: 1400, height: 1400, fit: 'inside', withoutEnlargement: true })
-      .flatten({ background: '#ffffff' })
-      .jpeg({ quality: 82 })
-      .toBuffer({ resolveWithObject: true });
+    const { data, info } = await imageJob(() =>
+      sharp(bytes)
+        .rotate()
+        .resize({ width: 1400, height: 1400, fit: 'inside', withoutEnlargement: true })
+        .flatten({ background: '#ffffff' })
+        .jpeg({ quality: 82 })
+        .toBuffer({ resolveWithObject: true }),
+    );
     return { data, width: info.width, height: info.height };
   } catch {
     return null; // An unreadable photo leaves the quote without one rather than failing it.

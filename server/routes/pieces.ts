@@ -49,10 +49,12 @@ export function pieceRoutes(config: Config, sequelize: Sequelize, table: RouteIn
     await deletePhoto(sequelize, config.uploadsDir, req.user!.id, parseOr400(IdParam, req.params).id);
     res.status(204).end();
   });
-  for (const which of ['file', 'thumb'] as const) {
+  // file: the bounded working copy pages show; thumb: for lists; original: the upload as sent, as a download.
+  for (const which of ['file', 'thumb', 'original'] as const) {
     p.get(`/:id/${which}`, 'signed-in', async (req, res) => {
       const file = await photoFile(config.uploadsDir, parseOr400(IdParam, req.params).id, which);
       res.setHeader('Cache-Control', 'private, max-age=86400, immutable');
+      if (which === 'original') res.setHeader('Content-Disposition', 'attachment');
       res.type(file.mime).sendFile(file.path, { dotfiles: 'allow' });
     });
   }
