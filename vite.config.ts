@@ -29,6 +29,9 @@ export default defineConfig({
           environment: 'jsdom',
           include: ['tests/component/**/*.test.tsx'],
           setupFiles: ['tests/component/setup.ts'],
+          // A guard against a hang, not a speed target (speed is measured in the bench scripts): a jsdom render of the
+          // estimate editor takes about a second on a 2-core machine under load.
+          testTimeout: 20_000,
         },
       },
       {
