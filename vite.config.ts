@@ -20,7 +20,8 @@ export default defineConfig({
     projects: [
       {
         extends: true,
-        test: { name: 'unit', environment: 'node', include: ['tests/unit/**/*.test.ts', 'tests/reference/**/*.test.ts'] },
+        // Rendering quote PDFs and reading them back takes seconds on a loaded machine: a hang guard, not a target.
+        test: { name: 'unit', environment: 'node', include: ['tests/unit/**/*.test.ts', 'tests/reference/**/*.test.ts'], testTimeout: 30_000 },
       },
       {
         extends: true,

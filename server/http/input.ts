@@ -98,14 +98,26 @@ export const pathPolicy: RequestHandler = (req, _res, next) => {
   next();
 };
 
-/** Query strings follow the same text rule as bodies (the simple parser decodes them leniently). */
+/**
+ * Query strings follow the same rules as paths and bodies: valid percent-encoding (the parser would otherwise turn
+ * a broken escape into replacement characters, silently), and no NUL or unpaired surrogate in a name or value.
+ */
 export const queryPolicy: RequestHandler = (req, _res, next) => {
-  const raw = req.originalUrl.indexOf('?');
-  if (raw >= 0) {
-    // Malformed escapes in the query are left as they are by the parser; a NUL or lone surrogate is not.
-    const bad = findBadText(req.query, '(query)');
-    if (bad) return next(textProblem(bad.field, bad.reason));
+  const at = req.originalUrl.indexOf('?');
+  if (at < 0) return next();
+  for (const part of req.originalUrl.slice(at + 1).split('&')) {
+    const eq = part.indexOf('=');
+    const [key, value] = eq < 0 ? [part, ''] : [part.slice(0, eq), part.slice(eq + 1)];
+    try {
+      decodeURIComponent(key.replace(/\+/g, ' '));
+      decodeURIComponent(value.replace(/\+/g, ' '));
+    } catch {
+      const field = key.replace(/[^\w.-]/g, '').slice(0, 60) || '(query)';
+      return next(new HttpProblem(400, 'bad_query', 'Bad address', `${field}: the query holds malformed percent-encoding (such as %ZZ or a cut-off UTF-8 sequence).`, { field, errors: [{ field, message: 'is not valid percent-encoded UTF-8' }] }));
+    }
   }
+  const bad = findBadText(req.query, '(query)');
+  if (bad) return next(textProblem(bad.field, bad.reason));
   next();
 };
 

@@ -1,7 +1,11 @@
-import { cleanup } from '@testing-library/react';
+import { cleanup, configure } from '@testing-library/react';
 import { afterEach } from 'vitest';
 
 afterEach(() => cleanup());
+
+// findBy… and waitFor return as soon as what they look for is there; on a loaded 2-core machine a save, a navigation
+// and a render can take longer than the default second to get there. Not a sleep: a passing test waits no longer.
+configure({ asyncUtilTimeout: 10_000 });
 
 /*
  * jsdom finds a label's control and an input's labels by walking the whole document: `input.labels` visits every
