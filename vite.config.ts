@@ -20,7 +20,8 @@ export default defineConfig({
     projects: [
       {
         extends: true,
-        test: { name: 'unit', environment: 'node', include: ['tests/unit/**/*.test.ts', 'tests/reference/**/*.test.ts'] },
+        // Rendering quote PDFs and reading them back takes seconds on a loaded machine: a hang guard, not a target.
+        test: { name: 'unit', environment: 'node', include: ['tests/unit/**/*.test.ts', 'tests/reference/**/*.test.ts'], testTimeout: 30_000 },
       },
       {
         extends: true,
@@ -29,6 +30,9 @@ export default defineConfig({
           environment: 'jsdom',
           include: ['tests/component/**/*.test.tsx'],
           setupFiles: ['tests/component/setup.ts'],
+          // A guard against a hang, not a speed target (speed is measured in the bench scripts): a jsdom render of the
+          // estimate editor takes about a second on a 2-core machine under load.
+          testTimeout: 20_000,
         },
       },
       {

@@ -10,6 +10,7 @@ import { configurePassport } from './auth/passport';
 import { ThrottledPgStore } from './auth/session-store';
 import { csrf } from './http/csrf';
 import type { RouteInfo } from './http/guard';
+import { encodingPolicy, pathPolicy, queryPolicy, textPolicy } from './http/input';
 import { apiNotFound, errorHandler } from './http/problem';
 import { initModels } from './models';
 import { auditRoutes } from './routes/audit';
@@ -78,9 +79,13 @@ export function createApp({ config, sequelize, databaseUrl, serveClient = true }
       },
     }),
   );
+  // One input policy before any route: a well-formed path, a content coding the parser can undo, and no NUL or
+  // unpaired surrogate in any string of the path, query or body (server/http/input.ts).
+  app.use(pathPolicy, encodingPolicy, queryPolicy);
   // Webhooks are verified against their raw bytes: they skip the JSON parser.
   const json = express.json({ limit: '1mb' });
   app.use((req, res, next) => (req.path.startsWith('/api/webhooks/') ? next() : json(req, res, next)));
+  app.use(textPolicy);
 
   // Health answers before the session store is touched, so it works while the database is down.
   app.use(healthRoutes(sequelize, routes));
@@ -120,7 +125,7 @@ export function createApp({ config, sequelize, databaseUrl, serveClient = true }
   // hear of them through the database's notification.
   app.use(invalidateAfterWrites(caches));
 
-  app.use(authRoutes(config, sequelize, routes));
+  app.use(authRoutes(config, sequelize, routes, sessionPool));
   app.use(userRoutes(sequelize, routes));
   app.use(workshopRoutes(routes));
   app.use(calcRoutes(sequelize, routes));

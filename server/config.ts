@@ -19,8 +19,10 @@ export interface Config {
   /** Load the invented demo workshop (never in production unless SHELLWRIGHT_DEMO=1). */
   demo: boolean;
   trustProxy: boolean;
-  /** Failed sign-in attempts allowed per address and e-mail in the window. */
+  /** Failed sign-in attempts allowed per account (e-mail) in the window, from any address. */
   loginAttempts: number;
+  /** Failed sign-in attempts allowed per address in the window, whatever the accounts tried. */
+  loginAddressAttempts: number;
   loginWindowMs: number;
   /** Where customers reach the app: links in e-mails and payment return addresses. */
   publicUrl: string;
@@ -78,6 +80,7 @@ export function loadConfig(): Config {
     demo: env !== 'production' || process.env.SHELLWRIGHT_DEMO === '1',
     trustProxy: process.env.TRUST_PROXY === '1',
     loginAttempts: intFromEnv('SHELLWRIGHT_LOGIN_ATTEMPTS', 10),
+    loginAddressAttempts: intFromEnv('SHELLWRIGHT_LOGIN_ADDRESS_ATTEMPTS', 50),
     loginWindowMs: intFromEnv('SHELLWRIGHT_LOGIN_WINDOW_MS', 15 * 60 * 1000),
     publicUrl: (process.env.PUBLIC_URL ?? `http://${host}:${port}`).replace(/\/$/, ''),
     linkSecret: process.env.LINK_SECRET ?? sessionSecret,

@@ -74,6 +74,30 @@ function isDbDown(err: unknown): boolean {
   );
 }
 
+/** Codes for the client errors the body parser and router raise, by their `type`. */
+const CLIENT_ERROR_CODES: Record<string, { code: string; title: string; detail: string; field?: string }> = {
+  'encoding.unsupported': { code: 'unsupported_encoding', title: 'Unsupported content encoding', detail: 'Content-Encoding: use gzip, deflate or br, or none.', field: 'Content-Encoding' },
+  'charset.unsupported': { code: 'unsupported_charset', title: 'Unsupported charset', detail: 'Content-Type: the body must be UTF-8.', field: 'Content-Type' },
+  'request.aborted': { code: 'request_aborted', title: 'Request aborted', detail: 'The request was aborted before its body arrived.' },
+  'request.size.invalid': { code: 'bad_body', title: 'Bad request body', detail: 'The body is shorter or longer than its Content-Length says.' },
+  'stream.encoding.set': { code: 'bad_body', title: 'Bad request body', detail: 'The request body could not be read.' },
+  'parameters.too.many': { code: 'bad_body', title: 'Bad request body', detail: 'The body holds too many parameters.' },
+};
+
+/** A problem for an error that carries its own 4xx status (and a `type` from the body parser when it has one). */
+function clientProblem(status: number, type: string | undefined, err: Error & { expose?: boolean }): HttpProblem {
+  const known = type ? CLIENT_ERROR_CODES[type] : undefined;
+  if (known) {
+    return new HttpProblem(status, known.code, known.title, known.detail, known.field ? { field: known.field, errors: [{ field: known.field, message: known.detail }] } : {});
+  }
+  if (status === 400 && /decode|zlib|incorrect header|invalid (block|distance|stored)|unexpected end|brotli/i.test(String(err?.message))) {
+    const detail = 'The body could not be decoded as its Content-Encoding says.';
+    return new HttpProblem(400, 'bad_encoding', 'Bad content encoding', detail, { field: 'Content-Encoding', errors: [{ field: 'Content-Encoding', message: detail }] });
+  }
+  const detail = err?.expose && typeof err.message === 'string' ? err.message.slice(0, 300) : 'The request could not be understood.';
+  return new HttpProblem(status, status === 400 ? 'bad_request' : `client_error_${status}`, 'Bad request', detail);
+}
+
 /** The last error handler: every error leaves as problem+json. */
 export const errorHandler: ErrorRequestHandler = (err: unknown, _req, res, next) => {
   if (res.headersSent) {
@@ -104,6 +128,11 @@ export const errorHandler: ErrorRequestHandler = (err: unknown, _req, res, next)
   }
   if (isDbDown(err)) return sendProblem(res, problems.dbDown());
   if (typed?.status === 404) return sendProblem(res, problems.notFound('That file'));
+  // Any other error that already says it is the client's (body parser, router, static files): its own 4xx.
+  const status = typed?.status ?? (err as { statusCode?: number } | null)?.statusCode;
+  if (typeof status === 'number' && Number.isInteger(status) && status >= 400 && status < 500) {
+    return sendProblem(res, clientProblem(status, typed?.type, err as Error & { expose?: boolean }));
+  }
   console.error('[server] unexpected error', err);
   sendProblem(res, new HttpProblem(500, 'internal', 'Internal error', 'Something went wrong on the server.'));
 };

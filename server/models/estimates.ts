@@ -84,6 +84,8 @@ export class PiecePhoto extends Model<InferAttributes<PiecePhoto>, InferCreation
   declare pieceId: ForeignKey<Piece['id']>;
   declare fileName: string;
   declare thumbName: string;
+  /** The bounded working copy (JPEG) that pages and PDFs use; null for a photo stored before there were any. */
+  declare workName: CreationOptional<string | null>;
   declare mime: string;
   declare bytes: number;
   declare width: number;
@@ -98,6 +100,7 @@ export class PiecePhoto extends Model<InferAttributes<PiecePhoto>, InferCreation
         id: { type: DataTypes.INTEGER, primaryKey: true, autoIncrement: true },
         fileName: { type: DataTypes.STRING(80), allowNull: false },
         thumbName: { type: DataTypes.STRING(80), allowNull: false },
+        workName: { type: DataTypes.STRING(80), allowNull: true },
         mime: { type: DataTypes.STRING(40), allowNull: false },
         bytes: { type: DataTypes.INTEGER, allowNull: false },
         width: { type: DataTypes.INTEGER, allowNull: false },

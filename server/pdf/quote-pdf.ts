@@ -5,6 +5,7 @@
  */
 import PDFDocument from 'pdfkit';
 import sharp from 'sharp';
+import { pdfJob } from '../services/image-jobs';
 import type { QuoteDocument } from './quote-document';
 import { LORA, registerLora } from './pdf-fonts';
 import { formatDate, formatDays, formatHours, formatMoney, formatNumber, formatPercent, paragraphs, pdfText } from './pdf-format';
@@ -15,7 +16,11 @@ const MARGIN = { top: 66, bottom: 70, left: 56, right: 56 };
 /** Renders the quote; resolves with the PDF's bytes. */
 export async function renderQuotePdf(q: QuoteDocument): Promise<Buffer> {
   const photo = q.piece.photo ? await preparePhoto(q.piece.photo) : null;
+  // Laid out synchronously: one PDF at a time, so other requests are answered between them.
+  return pdfJob(() => layOut(q, photo));
+}
 
+function layOut(q: QuoteDocument, photo: Photo | null): Promise<Buffer> {
   const doc = new PDFDocument({
     size: q.paperSize === 'Letter' ? 'LETTER' : 'A4',
     margins: { ...MARGIN },
@@ -64,6 +69,7 @@ interface Photo {
 /** The condition photo upright, at most 1400 px, as JPEG (small, and any PNG or JPEG the upload held). */
 async function preparePhoto(bytes: Buffer): Promise<Photo | null> {
   try {
+    // From the photo's bounded working copy: small work, not queued behind uploads in the image gate.
     const { data, info } = await sharp(bytes)
       .rotate()
       .resize({ width: 1400, height: 1400, fit: 'inside', withoutEnlargement: true })

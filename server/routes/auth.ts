@@ -1,37 +1,34 @@
-import { ipKeyGenerator, rateLimit } from 'express-rate-limit';
+import { ipKeyGenerator } from 'express-rate-limit';
 import type { RequestHandler } from 'express';
+import type pg from 'pg';
 import type { Sequelize } from 'sequelize';
 import { LoginSchema } from '@shared/schemas/auth';
 import type { Config } from '../config';
+import { loginLimits } from '../auth/login-limits';
 import { configurePassport } from '../auth/passport';
 import { csrf } from '../http/csrf';
 import { secureRouter, type RouteInfo } from '../http/guard';
 import { HttpProblem, parseOr400, sendProblem } from '../http/problem';
 import { User } from '../models';
 
-export function authRoutes(config: Config, _sequelize: Sequelize, table: RouteInfo[]) {
+/** Sign-in, sign-out and who is signed in. `pool` holds the shared failed-sign-in counters (login_attempts). */
+export function authRoutes(config: Config, _sequelize: Sequelize, table: RouteInfo[], pool: pg.Pool) {
   const r = secureRouter('/api/auth', table);
   const passport = configurePassport();
+  const limits = loginLimits(config, pool);
 
-  const loginLimit = rateLimit({
-    windowMs: config.loginWindowMs,
-    limit: config.loginAttempts,
-    skipSuccessfulRequests: true,
-    standardHeaders: 'draft-8',
-    legacyHeaders: false,
-    keyGenerator: (req) => {
-      const email = typeof req.body?.email === 'string' ? req.body.email.trim().toLowerCase() : '';
-      return `${ipKeyGenerator(req.ip ?? '')}|${email}`;
-    },
-    handler: (_req, res) =>
-      sendProblem(
+  const login: RequestHandler = async (req, res, next) => {
+    const { email } = parseOr400(LoginSchema, req.body);
+    const address = ipKeyGenerator(req.ip ?? '');
+    // The attempt is counted before the password is checked; a success gives it back.
+    const wait = await limits.attempt(address, email);
+    if (wait > 0) {
+      res.setHeader('Retry-After', String(wait));
+      return sendProblem(
         res,
-        new HttpProblem(429, 'too_many_attempts', 'Too many sign-in attempts', 'Too many failed sign-in attempts. Wait a few minutes and try again.'),
-      ),
-  });
-
-  const login: RequestHandler = (req, res, next) => {
-    parseOr400(LoginSchema, req.body);
+        new HttpProblem(429, 'too_many_attempts', 'Too many sign-in attempts', `Too many failed sign-in attempts. Wait ${wait > 90 ? `${Math.ceil(wait / 60)} minutes` : `${wait} seconds`} and try again.`),
+      );
+    }
     passport.authenticate('local', { session: false }, (err: unknown, user: Express.User | false) => {
       if (err) return next(err);
       if (!user) {
@@ -39,7 +36,7 @@ export function authRoutes(config: Config, _sequelize: Sequelize, table: RouteIn
       }
       req.login(user, (loginErr) => {
         if (loginErr) return next(loginErr);
-        User.update({ lastLoginAt: new Date() }, { where: { id: user.id } }).then(() => {
+        Promise.all([User.update({ lastLoginAt: new Date() }, { where: { id: user.id } }), limits.succeeded(address, email)]).then(() => {
           res.json({ user, csrfToken: csrf.generateToken(req, true) });
         }, next);
       });
@@ -49,7 +46,7 @@ export function authRoutes(config: Config, _sequelize: Sequelize, table: RouteIn
   r.get('/csrf', 'public', (req, res) => {
     res.json({ csrfToken: csrf.generateToken(req) });
   });
-  r.post('/login', 'public', loginLimit, login);
+  r.post('/login', 'public', login);
   r.post('/logout', 'public', (req, res, next) => {
     req.logout((err) => {
       if (err) return next(err);

@@ -4,6 +4,7 @@ import { z } from 'zod';
 import { IdSchema, PHOTO_LIMITS, PhotoCaptionSchema, PieceInputSchema, PieceListQuerySchema } from '@shared/schemas/customers';
 import type { Config } from '../config';
 import { secureRouter, type RouteInfo } from '../http/guard';
+import { multipart } from '../http/input';
 import { parseOr400 } from '../http/problem';
 import { addPhotos, deletePhoto, photoFile, updateCaption } from '../services/photos';
 import { createPiece, getPiece, listPieces, updatePiece } from '../services/pieces';
@@ -31,7 +32,7 @@ export function pieceRoutes(config: Config, sequelize: Sequelize, table: RouteIn
     const { id } = parseOr400(IdParam, req.params);
     res.json(await updatePiece(sequelize, req.user!.id, id, parseOr400(PieceInputSchema.partial(), req.body)));
   });
-  r.post('/:id/photos', WRITE, upload.array('photos', PHOTO_LIMITS.maxFiles), async (req, res) => {
+  r.post('/:id/photos', WRITE, ...multipart(upload.array('photos', PHOTO_LIMITS.maxFiles), 'photos'), async (req, res) => {
     const { id } = parseOr400(IdParam, req.params);
     const files = (req.files as Express.Multer.File[] | undefined) ?? [];
     const raw = (req.body as Record<string, unknown> | undefined)?.captions;
@@ -48,10 +49,12 @@ export function pieceRoutes(config: Config, sequelize: Sequelize, table: RouteIn
     await deletePhoto(sequelize, config.uploadsDir, req.user!.id, parseOr400(IdParam, req.params).id);
     res.status(204).end();
   });
-  for (const which of ['file', 'thumb'] as const) {
+  // file: the bounded working copy pages show; thumb: for lists; original: the upload as sent, as a download.
+  for (const which of ['file', 'thumb', 'original'] as const) {
     p.get(`/:id/${which}`, 'signed-in', async (req, res) => {
       const file = await photoFile(config.uploadsDir, parseOr400(IdParam, req.params).id, which);
       res.setHeader('Cache-Control', 'private, max-age=86400, immutable');
+      if (which === 'original') res.setHeader('Content-Disposition', 'attachment');
       res.type(file.mime).sendFile(file.path, { dotfiles: 'allow' });
     });
   }

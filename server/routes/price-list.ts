@@ -1,4 +1,3 @@
-import type { RequestHandler } from 'express';
 import multer from 'multer';
 import type { Sequelize } from 'sequelize';
 import { z } from 'zod';
@@ -12,6 +11,7 @@ import {
   UpdatePackSchema,
 } from '@shared/schemas/price-list';
 import { secureRouter, type RouteInfo } from '../http/guard';
+import { multipart } from '../http/input';
 import { parseOr400, problems } from '../http/problem';
 import { applyPriceFile, getPriceFilePreview, PRICE_FILE_MAX_BYTES, previewPriceFile, uploadProblem } from '../services/price-file';
 import { addPack, createMaterial, getMaterial, listMaterials, materialHistory, setPackPrice, updateMaterial, updatePack } from '../services/price-list';
@@ -23,9 +23,7 @@ const PreviewParam = z.object({ id: z.uuid({ message: 'must be a preview id' }) 
 const READERS = ['owner', 'estimator', 'sales', 'workshop'] as const;
 
 const upload = multer({ storage: multer.memoryStorage(), limits: { fileSize: PRICE_FILE_MAX_BYTES, files: 1, fields: 5, parts: 6 } }).single('file');
-const receiveFile: RequestHandler = (req, res, next) => {
-  upload(req, res, (err: unknown) => next(err ? (uploadProblem(err) ?? err) : undefined));
-};
+const receiveFile = multipart(upload, 'file', uploadProblem);
 
 export function priceListRoutes(sequelize: Sequelize, table: RouteInfo[]) {
   const r = secureRouter('/api/price-list', table);
@@ -60,7 +58,7 @@ export function priceListRoutes(sequelize: Sequelize, table: RouteInfo[]) {
   });
 
   /** A supplier's price file: multipart field "file"; answers the stored preview. */
-  r.post('/price-files', ['owner'], receiveFile, async (req, res) => {
+  r.post('/price-files', ['owner'], ...receiveFile, async (req, res) => {
     if (!req.file) throw problems.badRequest('price_file_missing', 'Choose a CSV file to upload (form field "file").', 'file');
     res.status(201).json(await previewPriceFile(req.user!.id, req.file.originalname, req.file.buffer));
   });

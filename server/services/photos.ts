@@ -1,6 +1,12 @@
 /**
  * Condition photos of a piece: checked by their bytes (JPEG, PNG or WebP, decoded, not trusted by name), stored
- * under the uploads folder with random names, with a thumbnail for lists.
+ * under the uploads folder with random names: the original as sent, a bounded working copy (JPEG, longest side
+ * SHELLWRIGHT_PHOTO_WORKING_PX, default 2048) that pages and PDFs use, and a thumbnail for lists.
+ *
+ * Limits (read from the environment): one image at most SHELLWRIGHT_PHOTO_MAX_PIXELS (default 50 MP, what a
+ * high-resolution camera makes), one request at most SHELLWRIGHT_PHOTO_REQUEST_PIXELS in all (default 150 MP, a
+ * dozen 12 MP phone photos). Sizes are read from the headers before anything is decoded, and images are decoded one
+ * at a time through the image-job gate, so one request cannot take the server's threads.
  */
 import { randomBytes } from 'node:crypto';
 import fs from 'node:fs/promises';
@@ -11,14 +17,26 @@ import { PHOTO_LIMITS, type Photo as PhotoDto } from '@shared/schemas/customers'
 import { HttpProblem, problems } from '../http/problem';
 import { Piece, PiecePhoto } from '../models';
 import { audit } from './audit';
+import { imageJob } from './image-jobs';
 
 const FORMATS: Record<string, { mime: string; ext: string }> = {
   jpeg: { mime: 'image/jpeg', ext: 'jpg' },
   png: { mime: 'image/png', ext: 'png' },
   webp: { mime: 'image/webp', ext: 'webp' },
 };
-/** Refuse images so large they could exhaust memory when decoded. */
-const MAX_PIXELS = 60_000_000;
+function intFromEnv(name: string, fallback: number): number {
+  const value = Number(process.env[name]);
+  return Number.isInteger(value) && value > 0 ? value : fallback;
+}
+
+/** The photo limits and the working copy's size, from the environment (see docs/operations.md). */
+export const PHOTO_SETTINGS = {
+  workingPx: intFromEnv('SHELLWRIGHT_PHOTO_WORKING_PX', 2048),
+  maxPixels: intFromEnv('SHELLWRIGHT_PHOTO_MAX_PIXELS', 50_000_000),
+  requestPixels: intFromEnv('SHELLWRIGHT_PHOTO_REQUEST_PIXELS', 150_000_000),
+};
+
+const megapixels = (px: number) => `${(px / 1_000_000).toFixed(px < 10_000_000 ? 1 : 0)} MP`;
 
 export function photoDto(p: PiecePhoto): PhotoDto {
   return {
@@ -45,45 +63,72 @@ function photosDir(uploadsDir: string): string {
 
 /** The path of a stored file; names come from the database and are checked, never taken from a request. */
 export function storedPath(uploadsDir: string, name: string): string {
-  if (!/^[0-9a-f]{32}(-thumb)?\.(jpg|png|webp)$/.test(name)) throw new Error(`bad stored file name ${name}`);
+  if (!/^[0-9a-f]{32}(-thumb|-work)?\.(jpg|png|webp)$/.test(name)) throw new Error(`bad stored file name ${name}`);
   return path.join(photosDir(uploadsDir), name);
 }
 
-interface Checked {
+interface Header {
   file: UploadedFile;
+  index: number;
   mime: string;
   ext: string;
   width: number;
   height: number;
+}
+
+interface Checked extends Header {
+  work: Buffer;
   thumb: Buffer;
 }
 
-async function check(file: UploadedFile, index: number): Promise<Checked> {
-  const reject = (why: string) =>
+function rejecter(file: UploadedFile, index: number) {
+  return (why: string) =>
     new HttpProblem(400, 'unsupported_image', 'Not a usable image', `photos[${index}] (${file.originalname}): ${why}`, {
       field: 'photos',
       errors: [{ field: 'photos', message: `${file.originalname}: ${why}` }],
     });
+}
+
+/** Reads an image's format and size from its header only: nothing is decoded yet. */
+async function readHeader(file: UploadedFile, index: number): Promise<Header> {
+  const reject = rejecter(file, index);
   let meta: sharp.Metadata;
   try {
-    meta = await sharp(file.buffer, { limitInputPixels: MAX_PIXELS }).metadata();
+    meta = await sharp(file.buffer).metadata();
   } catch {
     throw reject('is not a JPEG, PNG or WebP image');
   }
   const format = meta.format ? FORMATS[meta.format] : undefined;
   if (!format || !meta.width || !meta.height) throw reject(`is a ${meta.format ?? 'unknown'} file; only JPEG, PNG and WebP are accepted`);
-  // Decoding the whole image for the thumbnail also proves the file is not damaged past its header.
-  let thumb: Buffer;
-  try {
-    thumb = await sharp(file.buffer, { limitInputPixels: MAX_PIXELS })
-      .rotate()
-      .resize({ width: 480, height: 480, fit: 'inside', withoutEnlargement: true })
-      .webp({ quality: 78 })
-      .toBuffer();
-  } catch {
-    throw reject('is damaged: the image cannot be read');
+  const pixels = meta.width * meta.height * Math.max(1, meta.pages ?? 1);
+  if (pixels > PHOTO_SETTINGS.maxPixels) {
+    throw reject(`is ${meta.width} × ${meta.height} pixels (${megapixels(pixels)}); a photo may have at most ${megapixels(PHOTO_SETTINGS.maxPixels)}`);
   }
-  return { file, mime: format.mime, ext: format.ext, width: meta.width, height: meta.height, thumb };
+  return { file, index, mime: format.mime, ext: format.ext, width: meta.width, height: meta.height };
+}
+
+/** The working copy: upright, longest side at most the setting, flattened onto white, as JPEG. */
+function workingCopy(input: Buffer): Promise<Buffer> {
+  const size = PHOTO_SETTINGS.workingPx;
+  return sharp(input, { limitInputPixels: PHOTO_SETTINGS.maxPixels })
+    .rotate()
+    .resize({ width: size, height: size, fit: 'inside', withoutEnlargement: true })
+    .flatten({ background: '#ffffff' })
+    .jpeg({ quality: 82 })
+    .toBuffer();
+}
+
+/** Decodes the whole image (proving it is not damaged past its header) into its working copy and thumbnail. */
+async function decode(header: Header): Promise<Checked> {
+  try {
+    return await imageJob(async () => {
+      const work = await workingCopy(header.file.buffer);
+      const thumb = await sharp(work).resize({ width: 480, height: 480, fit: 'inside', withoutEnlargement: true }).webp({ quality: 78 }).toBuffer();
+      return { ...header, work, thumb };
+    });
+  } catch {
+    throw rejecter(header.file, header.index)('is damaged: the image cannot be read');
+  }
 }
 
 /** Stores several photos at once: all are checked first; files are written, then rows in one transaction. */
@@ -91,20 +136,28 @@ export async function addPhotos(sequelize: Sequelize, uploadsDir: string, actorI
   if (!(await Piece.findByPk(pieceId))) throw problems.notFound('Piece');
   if (files.length === 0) throw problems.badRequest('no_files', 'photos: choose at least one image', 'photos');
   if (files.length > PHOTO_LIMITS.maxFiles) throw problems.badRequest('too_many_files', `photos: at most ${PHOTO_LIMITS.maxFiles} at once`, 'photos');
-  const checked = await Promise.all(files.map((f, i) => check(f, i)));
+  const headers = await Promise.all(files.map((f, i) => readHeader(f, i)));
+  const total = headers.reduce((n, h) => n + h.width * h.height, 0);
+  if (total > PHOTO_SETTINGS.requestPixels) {
+    throw problems.badRequest('too_many_pixels', `photos: these ${files.length} images hold ${megapixels(total)} in all; one upload may hold at most ${megapixels(PHOTO_SETTINGS.requestPixels)}. Send them in smaller groups.`, 'photos');
+  }
+  // One at a time: a request's images never take more than one image-job slot.
+  const checked: Checked[] = [];
+  for (const h of headers) checked.push(await decode(h));
   await fs.mkdir(photosDir(uploadsDir), { recursive: true });
   const written: string[] = [];
   try {
-    const stored: { c: Checked; fileName: string; thumbName: string }[] = [];
+    const stored: { c: Checked; fileName: string; thumbName: string; workName: string }[] = [];
     for (const c of checked) {
       const base = randomBytes(16).toString('hex');
       const fileName = `${base}.${c.ext}`;
       const thumbName = `${base}-thumb.webp`;
-      await fs.writeFile(storedPath(uploadsDir, fileName), c.file.buffer, { flag: 'wx' });
-      written.push(fileName);
-      await fs.writeFile(storedPath(uploadsDir, thumbName), c.thumb, { flag: 'wx' });
-      written.push(thumbName);
-      stored.push({ c, fileName, thumbName });
+      const workName = `${base}-work.jpg`;
+      for (const [name, bytes] of [[fileName, c.file.buffer], [workName, c.work], [thumbName, c.thumb]] as const) {
+        await fs.writeFile(storedPath(uploadsDir, name), bytes, { flag: 'wx' });
+        written.push(name);
+      }
+      stored.push({ c, fileName, thumbName, workName });
     }
     return await sequelize.transaction(async (transaction) => {
       const rows = [];
@@ -115,6 +168,7 @@ export async function addPhotos(sequelize: Sequelize, uploadsDir: string, actorI
               pieceId,
               fileName: s.fileName,
               thumbName: s.thumbName,
+              workName: s.workName,
               mime: s.c.mime,
               bytes: s.c.file.buffer.length,
               width: s.c.width,
@@ -155,11 +209,35 @@ export async function deletePhoto(sequelize: Sequelize, uploadsDir: string, acto
     return p;
   });
   // The row is gone; the files follow (a leftover file is harmless, a row without its file is not).
-  await Promise.all([photo.fileName, photo.thumbName].map((name) => fs.rm(storedPath(uploadsDir, name), { force: true })));
+  const names = [photo.fileName, photo.thumbName, ...(photo.workName ? [photo.workName] : [])];
+  await Promise.all(names.map((name) => fs.rm(storedPath(uploadsDir, name), { force: true })));
 }
 
-export async function photoFile(uploadsDir: string, id: number, which: 'file' | 'thumb'): Promise<{ path: string; mime: string }> {
+/**
+ * The working copy's path, made from the original first when the photo predates working copies. Null when the
+ * original cannot be read (a missing or damaged file).
+ */
+export async function workingCopyPath(uploadsDir: string, photo: PiecePhoto): Promise<string | null> {
+  if (photo.workName) return storedPath(uploadsDir, photo.workName);
+  try {
+    const original = await fs.readFile(storedPath(uploadsDir, photo.fileName));
+    const work = await imageJob(() => workingCopy(original));
+    const workName = photo.fileName.replace(/\.(jpg|png|webp)$/, '-work.jpg');
+    await fs.writeFile(storedPath(uploadsDir, workName), work);
+    await photo.update({ workName });
+    return storedPath(uploadsDir, workName);
+  } catch {
+    return null;
+  }
+}
+
+/** A photo's file: the working copy (what pages show), the thumbnail, or the original as uploaded (a download). */
+export async function photoFile(uploadsDir: string, id: number, which: 'file' | 'thumb' | 'original'): Promise<{ path: string; mime: string }> {
   const photo = await PiecePhoto.findByPk(id);
   if (!photo) throw problems.notFound('Photo');
-  return which === 'file' ? { path: storedPath(uploadsDir, photo.fileName), mime: photo.mime } : { path: storedPath(uploadsDir, photo.thumbName), mime: 'image/webp' };
+  if (which === 'thumb') return { path: storedPath(uploadsDir, photo.thumbName), mime: 'image/webp' };
+  if (which === 'original') return { path: storedPath(uploadsDir, photo.fileName), mime: photo.mime };
+  const work = await workingCopyPath(uploadsDir, photo);
+  if (!work) throw problems.notFound('That photo\u2019s file');
+  return { path: work, mime: 'image/jpeg' };
 }

@@ -518,12 +518,20 @@ export async function cancelJob(sequelize: Sequelize, actorId: number, id: numbe
 
 // --------------------------------------------------------------------------------------------- progress
 
+/** Minutes a finish time may lie ahead of the server's clock (a browser clock slightly fast). */
+const FINISH_GRACE_MIN = 5;
+
 /**
  * Marks the next open session of a job done with what really happened. When it finished later than planned, the
  * sessions after it are laid again from its actual end plus its rest (the engine's shiftRemaining), and whatever
  * that overbooks is recorded on the job.
  */
 export async function markSessionDone(sequelize: Sequelize, actorId: number, jobId: number, sessionId: number, input: SessionDoneInput): Promise<SessionDoneResult> {
+  // A session cannot have finished in the future. A few minutes' grace covers a browser clock a little ahead.
+  const latest = fromMinutes(toMinutes(localNow()) + FINISH_GRACE_MIN);
+  if (input.actualEnd > latest) {
+    throw problems.badRequest('finish_in_future', `actualEnd: ${input.actualEnd} is in the future; a session is marked done once it has finished`, 'actualEnd');
+  }
   const shift = await sequelize.transaction(async (transaction) => {
     await lockBoard(transaction);
     const job = await Job.findByPk(jobId, { transaction, lock: transaction.LOCK.UPDATE });

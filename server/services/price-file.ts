@@ -11,6 +11,7 @@ import { parse } from 'csv-parse/sync';
 import Decimal from 'decimal.js';
 import { Op, type Sequelize } from 'sequelize';
 import { MATERIAL_KINDS, MATERIAL_UNITS, type MaterialUnit } from '@shared/schemas/catalog';
+import { DATE_RULES, dateProblem, isRealDate } from '@shared/schemas/dates';
 import { keyFromName } from '@shared/schemas/finishing-admin';
 import type {
   MaterialKind,
@@ -95,24 +96,103 @@ export function detectDelimiter(text: string): ',' | ';' {
   return semicolons > commas ? ';' : ',';
 }
 
+/** The character that separates whole units from decimals in a file's numbers. */
+export type DecimalSeparator = '.' | ',';
+
 /**
- * A decimal written by a supplier: "12.50", "12,50", "1 234,50", "1,234.50", "£12.50". Returns a dot-decimal string
- * or undefined when it is not a number.
- *
- * @example readDecimal('12,50') // "12.50"
+ * The decimal separator a number's writing proves, or undefined when it could be either ("1,234", "1.234", "12"):
+ * a separator followed by other than exactly three digits ("12,50", "7.5"), or the later of two different ones
+ * ("1.234,50"), is the decimal separator.
  */
-export function readDecimal(raw: string): string | undefined {
-  let s = raw.trim().replace(/^[^\d\-.,]+|[^\d.,]+$/g, '').replace(/[\s\u00a0']/g, '');
-  if (!s) return undefined;
+export function separatorOf(raw: string): DecimalSeparator | undefined {
+  const s = raw.replace(/[^\d.,]/g, '');
   const lastComma = s.lastIndexOf(',');
   const lastDot = s.lastIndexOf('.');
-  if (lastComma >= 0 && lastDot >= 0) {
-    // Both: the later one is the decimal separator, the other groups thousands.
-    s = lastComma > lastDot ? s.replace(/\./g, '').replace(',', '.') : s.replace(/,/g, '');
-  } else if (lastComma >= 0) {
-    s = /^\d{1,3}(,\d{3})+$/.test(s) && s.split(',').length > 2 ? s.replace(/,/g, '') : s.replace(',', '.');
+  if (lastComma >= 0 && lastDot >= 0) return lastComma > lastDot ? ',' : '.';
+  const at = Math.max(lastComma, lastDot);
+  if (at < 0) return undefined;
+  const sep = s[at] as DecimalSeparator;
+  const groups = s.split(sep);
+  // One separator followed by exactly three digits reads as thousands as well as decimals; more than one is grouping.
+  if (groups.length > 2) return sep === ',' ? '.' : ',';
+  return s.length - at - 1 === 3 ? undefined : sep;
+}
+
+/**
+ * The file's decimal separator, for the numbers that could be read either way ("1,234", "1.234"): the one most of
+ * its other prices and pack sizes prove (see separatorOf), or when none does (or as many prove each), the
+ * delimiter's convention: a semicolon-separated file writes decimals with a comma, a comma-separated file with a
+ * point. A number whose own writing proves its separator ("12,50", "1.234,50") is read by it.
+ */
+export function fileDecimalSeparator(cells: string[], delimiter: ',' | ';'): DecimalSeparator {
+  const proven = cells.map(separatorOf).filter((s): s is DecimalSeparator => s !== undefined);
+  const commas = proven.filter((s) => s === ',').length;
+  const points = proven.length - commas;
+  if (commas !== points) return commas > points ? ',' : '.';
+  return delimiter === ';' ? ',' : '.';
+}
+
+/**
+ * A decimal written by a supplier, read with the file's decimal separator: "12.50", "1,234.50", "£12.50" with a
+ * point; "12,50", "1.234,50", "1 234,50" with a comma. A negative amount ("-5", "5-", "(5.00)" as accountants write
+ * it) comes back with a minus so that the caller refuses it. Returns a dot-decimal string, or undefined when it is
+ * not a number in that writing (grouping must be in threes; a separator the file does not use is not a number).
+ *
+ * @example readDecimal('12,50', ',') // "12.50"
+ * @example readDecimal('1,234', '.') // "1234"
+ * @example readDecimal('(5.00)', '.') // "-5.00"
+ */
+export function readDecimal(raw: string, decimal: DecimalSeparator = separatorOf(raw) ?? '.'): string | undefined {
+  // Currency signs and codes around the number ("£", "EUR"), outside or inside accountants' brackets.
+  const strip = (t: string) => t.trim().replace(/^[^\d\-.,()]+|[^\d.,\-()]+$/g, '');
+  let s = strip(raw);
+  let negative = false;
+  const bracketed = /^\((.*)\)$/.exec(s);
+  if (bracketed) {
+    negative = true;
+    s = strip(bracketed[1]!);
   }
-  return /^-?\d+(\.\d+)?$/.test(s) ? s : undefined;
+  if (/[()]/.test(s)) return undefined;
+  if (/^-|-$/.test(s)) {
+    negative = true;
+    s = s.replace(/^-|-$/g, '').replace(/^[^\d.,]+|[^\d.,]+$/g, '');
+  }
+  s = s.replace(/[\s\u00a0\u202f']/g, '');
+  if (!s) return undefined;
+  const group = decimal === ',' ? '.' : ',';
+  const [whole, fraction, ...rest] = s.split(decimal);
+  if (rest.length > 0 || whole === undefined) return undefined;
+  if (whole.includes(group) && !new RegExp(`^\\d{1,3}(\\${group}\\d{3})+$`).test(whole)) return undefined;
+  const digits = whole.split(group).join('');
+  if (!/^\d+$/.test(digits) || (fraction !== undefined && !/^\d+$/.test(fraction))) return undefined;
+  return `${negative ? '-' : ''}${digits}${fraction !== undefined ? `.${fraction}` : ''}`;
+}
+
+/** A change beyond these factors is flagged: a decimal slip or a pack/unit mix-up multiplies by 10, 100 or 1000. */
+const FLAG_RISE = 3;
+const FLAG_FALL = 1 / 3;
+/** A price per g, mL, sheet or piece above this is flagged whatever the old price (no finishing material costs so). */
+const FLAG_PER_UNIT: Record<MaterialUnit, number> = { g: 20, mL: 10, sheet: 50, each: 2000 };
+/** A pack price at or above this is flagged. */
+const FLAG_PACK = 10_000;
+
+/**
+ * Why a price in a file looks absurd, or null: it more than triples or falls below a third of the price in force,
+ * costs more per unit than any finishing material does, or is a five-figure pack price. Flagged rows are shown in
+ * the preview for the owner to look at; they are not refused (a supplier may really change a price that much).
+ */
+export function priceFlag(price: string, oldPrice: string | null, packSize: string | number, unit: MaterialUnit): string | null {
+  const p = new Decimal(price);
+  const reasons: string[] = [];
+  if (oldPrice !== null && new Decimal(oldPrice).gt(0)) {
+    const ratio = p.div(oldPrice);
+    if (ratio.gt(FLAG_RISE)) reasons.push(`${ratio.toDecimalPlaces(1).toString()}× the price in force`);
+    else if (ratio.lt(FLAG_FALL)) reasons.push(`${ratio.times(100).toDecimalPlaces(1).toString()}% of the price in force`);
+  }
+  const size = new Decimal(packSize);
+  if (size.gt(0) && p.div(size).gt(FLAG_PER_UNIT[unit])) reasons.push(`more than ${FLAG_PER_UNIT[unit]} per ${unit}`);
+  if (p.gte(FLAG_PACK)) reasons.push(`${FLAG_PACK.toLocaleString('en-GB')} or more for one pack`);
+  return reasons.length ? `Check this price: ${reasons.join('; ')}.` : null;
 }
 
 /** YYYY-MM-DD, DD/MM/YYYY or DD.MM.YYYY (days first, as in the UK and Europe) to YYYY-MM-DD, checked. */
@@ -123,9 +203,7 @@ export function readDate(raw: string): string | undefined {
   const dmy = /^(\d{1,2})[/.](\d{1,2})[/.](\d{4})$/.exec(s);
   if (ymd) iso = `${ymd[1]}-${ymd[2]!.padStart(2, '0')}-${ymd[3]!.padStart(2, '0')}`;
   else if (dmy) iso = `${dmy[3]}-${dmy[2]!.padStart(2, '0')}-${dmy[1]!.padStart(2, '0')}`;
-  if (!iso) return undefined;
-  const d = new Date(`${iso}T00:00:00Z`);
-  return !Number.isNaN(d.getTime()) && d.toISOString().slice(0, 10) === iso ? iso : undefined;
+  return iso && isRealDate(iso) ? iso : undefined;
 }
 
 /** A unit as written, to the price list's unit and the factor that converts sizes into it. */
@@ -222,6 +300,11 @@ type Parsed = Omit<PreviewDto, 'id' | 'expiresAt' | 'appliedAt' | 'fileName' | '
 export function readPriceFile(buffer: Buffer, ctx: ParseContext, onDate = today()): Parsed {
   const text = decode(buffer);
   if (!text.trim()) throw problems.badRequest('price_file_empty', 'The file is empty.', 'file');
+  const nul = text.indexOf('\u0000');
+  if (nul >= 0) {
+    const line = text.slice(0, nul).split('\n').length;
+    throw problems.badRequest('price_file_unreadable', `The file holds a NUL character (line ${line}): it is not a text CSV file.`, 'file');
+  }
   const delimiter = detectDelimiter(text);
   let records: { record: string[]; info: { lines: number } }[];
   try {
@@ -252,6 +335,12 @@ export function readPriceFile(buffer: Buffer, ctx: ParseContext, onDate = today(
     throw problems.badRequest('price_file_columns', `The header line lacks the column${missing.length > 1 ? 's' : ''} ${missing.join(', ')}. Found: ${header.join(', ') || 'nothing'}.`, 'file');
   }
 
+  // One decimal separator for the whole file, from its prices and pack sizes (see fileDecimalSeparator).
+  const numberCells = records.slice(1).flatMap(({ record }) => (['price', 'pack_size'] as const).map((c) => (index.has(c) ? (record[index.get(c)!] ?? '').trim() : '')).filter(Boolean));
+  const decimal = fileDecimalSeparator(numberCells, delimiter);
+  /** A number as the file writes it: by its own separator when its writing proves one, else by the file's. */
+  const readNumber = (raw: string) => readDecimal(raw, separatorOf(raw) ?? decimal);
+
   const matched: PriceFileMatch[] = [];
   const unchanged: PriceFileMatch[] = [];
   const newItems: PriceFileNewItem[] = [];
@@ -278,19 +367,22 @@ export function readPriceFile(buffer: Buffer, ctx: ParseContext, onDate = today(
     const problemsHere: string[] = [];
     if (!supplier) problemsHere.push('supplier is empty');
     const rawPrice = cell('price');
-    const price = readDecimal(rawPrice);
+    const price = readNumber(rawPrice);
     if (!rawPrice) problemsHere.push('price is empty');
     else if (price === undefined) problemsHere.push(`price "${rawPrice}" is not an amount`);
+    else if (price.startsWith('-')) problemsHere.push(`price "${rawPrice}" is negative; a price must be more than zero`);
     else if (new Decimal(price).lte(0)) problemsHere.push(`price ${rawPrice} must be more than zero`);
     else if (new Decimal(price).decimalPlaces() > 4 || new Decimal(price).gte(1e8)) problemsHere.push(`price ${rawPrice} has more than 4 decimals or is too large`);
     const rawDate = cell('effective_date');
     const effectiveFrom = rawDate ? readDate(rawDate) : onDate;
-    if (rawDate && !effectiveFrom) problemsHere.push(`effective date "${rawDate}" is not a date (use YYYY-MM-DD or DD/MM/YYYY)`);
+    const dateWhy = rawDate && effectiveFrom ? dateProblem(effectiveFrom, DATE_RULES.priceEffective) : undefined;
+    if (rawDate && !effectiveFrom) problemsHere.push(`effective date "${rawDate}" is not a date (use YYYY-MM-DD or DD/MM/YYYY; it must be a real calendar day)`);
+    else if (dateWhy) problemsHere.push(`effective date "${rawDate}" ${dateWhy}`);
     const rawUnit = cell('unit');
     const unitWord = rawUnit ? UNIT_WORDS[rawUnit.toLowerCase()] : undefined;
     if (rawUnit && !unitWord) problemsHere.push(`unit "${rawUnit}" is not one of g, kg, mL, L, sheet, each`);
     const rawSize = cell('pack_size');
-    const sizeText = rawSize ? readDecimal(rawSize) : undefined;
+    const sizeText = rawSize ? readNumber(rawSize) : undefined;
     if (rawSize && (sizeText === undefined || new Decimal(sizeText).lte(0))) problemsHere.push(`pack size "${rawSize}" is not a positive number`);
     if (!code && !materialKey && !description) problemsHere.push('has neither a supplier code nor a material key nor a description');
     if (problemsHere.length > 0) {
@@ -354,6 +446,7 @@ export function readPriceFile(buffer: Buffer, ctx: ParseContext, onDate = today(
         newPrice: showPrice(price!),
         changePct: old ? changePct(old.price, price!) : null,
         effectiveFrom: effectiveFrom!,
+        flag: priceFlag(price!, old?.price ?? null, pack.size, material.unit),
       };
       if (old && new Decimal(old.price).eq(price!)) unchanged.push(row);
       else matched.push(row);
@@ -429,12 +522,14 @@ export function readPriceFile(buffer: Buffer, ctx: ParseContext, onDate = today(
       supplierCode: code || null,
       newPrice: showPrice(price!),
       effectiveFrom: effectiveFrom!,
+      flag: priceFlag(price!, null, size, target.unit),
     });
   }
 
   const rowCount = records.length - 1;
   return {
     delimiter,
+    decimalSeparator: decimal,
     rowCount,
     columns,
     unknownColumns,

@@ -39,7 +39,7 @@ import { deliver } from './mail';
 import { composeMail } from './mail-compose';
 import { lapseCheckouts, paymentDto } from './payments';
 import { anyOf, containsPattern, direction, offset, pageTotal } from './paging';
-import { storedPath } from './photos';
+import { workingCopyPath } from './photos';
 
 type CreateInput = z.output<typeof CreateQuoteSchema>;
 type ListQuery = z.output<typeof QuoteListQuerySchema>;
@@ -528,7 +528,9 @@ async function documentFor(a: {
   const piece = await Piece.findByPk(a.estimate.pieceId, { transaction });
   const photo = await PiecePhoto.findOne({ where: { pieceId: a.estimate.pieceId, mime: { [Op.in]: ['image/jpeg', 'image/png'] } }, order: [['id', 'ASC']], transaction });
   let photoBytes: Buffer | null = null;
-  if (photo) photoBytes = await fs.readFile(storedPath(a.uploadsDir, photo.fileName)).catch(() => null);
+  // The bounded working copy, never the original: a camera's full-size file would make every PDF slow.
+  const workPath = photo ? await workingCopyPath(a.uploadsDir, photo) : null;
+  if (workPath) photoBytes = await fs.readFile(workPath).catch(() => null);
   const author = a.createdBy ? await User.findByPk(a.createdBy, { transaction }) : null;
   const r = revision.result;
   const system = revision.catalog.systems.find((s) => s.key === r.system);

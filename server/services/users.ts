@@ -1,6 +1,6 @@
 import bcrypt from 'bcryptjs';
 import { Op, type Sequelize, type Transaction, type WhereOptions } from 'sequelize';
-import type { CreateUserInput, Page, UpdateUserInput, User as UserDto, UserListQuery } from '@shared/schemas/auth';
+import { PASSWORD_MAX_BYTES, passwordBytes, type CreateUserInput, type Page, type UpdateUserInput, type User as UserDto, type UserListQuery } from '@shared/schemas/auth';
 import { problems } from '../http/problem';
 import { User } from '../models';
 import { audit } from './audit';
@@ -9,6 +9,8 @@ import { containsPattern } from './paging';
 const BCRYPT_COST = 10;
 
 export function hashPassword(password: string): Promise<string> {
+  // Never hash a password bcrypt would cut short: the schemas refuse it, and this is the last line.
+  if (passwordBytes(password) > PASSWORD_MAX_BYTES) return Promise.reject(problems.badRequest('password_too_long', `password: must be at most ${PASSWORD_MAX_BYTES} bytes`, 'password'));
   return bcrypt.hash(password, BCRYPT_COST);
 }
 
@@ -18,7 +20,10 @@ const DUMMY_HASH = bcrypt.hashSync('not-a-real-password', BCRYPT_COST);
 /** Checks an e-mail and password; returns the active user or undefined. */
 export async function verifyCredentials(email: string, password: string): Promise<User | undefined> {
   const user = await User.findOne({ where: { email: email.trim().toLowerCase() } });
-  const ok = await bcrypt.compare(password, user?.passwordHash ?? DUMMY_HASH);
+  // A password longer than bcrypt reads can match no stored one (none longer is ever set); comparing it would
+  // match on its first 72 bytes alone. It still costs one comparison, so the refusal takes the usual time.
+  const tooLong = passwordBytes(password) > PASSWORD_MAX_BYTES;
+  const ok = (await bcrypt.compare(tooLong ? '' : password, user?.passwordHash ?? DUMMY_HASH)) && !tooLong;
   if (!user || !ok || !user.active) return undefined;
   return user;
 }

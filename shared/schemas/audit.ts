@@ -1,6 +1,6 @@
 /** The audit log as the owner reads it. */
 import { z } from 'zod';
-import { IsoDateSchema } from './price-list';
+import { DATE_RULES, dateSchema } from './dates';
 
 /** Entity types written by the services, with the words the log page shows. */
 export const AUDIT_ENTITY_LABELS: Record<string, string> = {
@@ -19,8 +19,8 @@ export const AuditQuerySchema = z
   .object({
     entityType: z.string().trim().regex(/^[a-z-]{1,60}$/, { message: 'must be an entity type such as pack-price' }).optional(),
     userId: z.coerce.number().int().positive().max(2_147_483_647).optional(),
-    from: IsoDateSchema.optional(),
-    to: IsoDateSchema.optional(),
+    from: dateSchema(DATE_RULES.auditFilter).optional(),
+    to: dateSchema(DATE_RULES.auditFilter).optional(),
     dir: z.enum(['asc', 'desc']).default('desc'),
     sort: z.enum(['at']).default('at'),
     page: z.coerce.number().int().min(1).max(100_000).default(1),

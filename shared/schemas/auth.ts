@@ -20,11 +20,25 @@ export const ROLE_DUTIES: Record<Role, string> = {
 
 const email = z.string().trim().toLowerCase().pipe(z.email({ message: 'must be an e-mail address' })).pipe(z.string().max(254));
 
-/** A password a person chooses: long enough to resist guessing, short enough for bcrypt (72 bytes). */
+/** bcrypt reads the first 72 bytes of a password (UTF-8) and ignores the rest. */
+export const PASSWORD_MAX_BYTES = 72;
+
+/** A password's length as bcrypt reads it: UTF-8 bytes (an accented letter takes 2, an emoji 4). */
+export function passwordBytes(password: string): number {
+  return new TextEncoder().encode(password).length;
+}
+
+/**
+ * A password a person chooses: long enough to resist guessing, and no longer than bcrypt reads (72 bytes), so that
+ * no part of it is silently ignored.
+ */
 export const PasswordSchema = z
   .string({ message: 'is required' })
   .min(10, { message: 'must be at least 10 characters' })
-  .max(72, { message: 'must be at most 72 characters' });
+  .max(PASSWORD_MAX_BYTES, { message: `must be at most ${PASSWORD_MAX_BYTES} bytes: only that much is read (an accented letter takes 2 bytes, an emoji 4)` })
+  .refine((p) => passwordBytes(p) <= PASSWORD_MAX_BYTES, {
+    message: `must be at most ${PASSWORD_MAX_BYTES} bytes: only that much is read (an accented letter takes 2 bytes, an emoji 4)`,
+  });
 
 export const LoginSchema = z.object({
   email: z.string({ message: 'is required' }).trim().min(1, { message: 'is required' }).max(254),

@@ -3,6 +3,7 @@
  * EstimateInputSchema and turns the first issue into a 400 naming the field; the client uses the same schema.
  */
 import { z } from 'zod';
+import { DATE_RULES, dateOrDateTimeSchema } from './dates';
 import { COMPLEXITIES, STAGE_KINDS, StageSchema } from './catalog';
 import { LENGTH_UNITS, UNIT_SYSTEMS, UnitParseError, VOLUME_MEASURES, parseLength } from '../units';
 import type { LengthUnit } from '../units';
@@ -129,12 +130,7 @@ export const ClimateSchema = z.object({
 export type Climate = z.infer<typeof ClimateSchema>;
 
 /** Local date or date-time, no time zone: 2025-03-14 or 2025-03-14T08:30. */
-export const LocalDateTimeSchema = z
-  .string()
-  .regex(/^\d{4}-\d{2}-\d{2}(T([01]\d|2[0-3]):[0-5]\d(:[0-5]\d)?)?$/, { message: 'must be a local date like 2025-03-14 or 2025-03-14T08:30' })
-  .refine((s) => !Number.isNaN(Date.parse(`${s.slice(0, 10)}T00:00:00Z`)) && new Date(`${s.slice(0, 10)}T00:00:00Z`).toISOString().startsWith(s.slice(0, 10)), {
-    message: 'is not a real date',
-  });
+export const LocalDateTimeSchema = dateOrDateTimeSchema({ ...DATE_RULES.calcStart, seconds: true, example: '2025-03-14' });
 
 type Path = Array<string | number>;
 

@@ -6,6 +6,7 @@
  * data lives in shared/calc/presets and tests/fixtures/catalog.ts.
  */
 import { z } from 'zod';
+import { DATE_RULES, dateSchema } from './dates';
 
 /** Stage kinds of a French-polishing schedule, in their usual order. */
 export const STAGE_KINDS = [
@@ -42,7 +43,7 @@ const key = z.string().regex(/^[a-z0-9][a-z0-9-]{0,63}$/, { message: 'must be a 
 const decimalString = z.string().regex(/^\d{1,9}(\.\d{1,4})?$/, { message: 'must be a decimal amount like "12.50"' });
 const pct = z.number().min(0).max(100);
 const time = z.string().regex(/^([01]\d|2[0-3]):[0-5]\d$/, { message: 'must be a time like 08:30' });
-const isoDate = z.string().regex(/^\d{4}-\d{2}-\d{2}$/, { message: 'must be a date like 2025-03-14' });
+const isoDate = dateSchema({ ...DATE_RULES.planning, example: '2025-03-14' });
 
 /** A wood species as the finisher meets it. */
 export const SpeciesSchema = z.object({

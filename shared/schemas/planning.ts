@@ -6,6 +6,7 @@
  */
 import { z } from 'zod';
 import type { AgreedFigures } from './quotes';
+import { DATE_RULES, dateOrDateTimeSchema, dateSchema, localDateTimeSchema } from './dates';
 import type { DayOccupancy, PolisherOverbooking, RoomOverbooking, WhyNot } from '../calc/planning/types';
 import type { PackCount } from '../calc/packs';
 import type { StageKind } from './catalog';
@@ -50,13 +51,9 @@ export const PLANNERS = ['owner', 'workshop'] as const;
 /** Who may mark sessions done with their actual hours. */
 export const FINISHERS = ['owner', 'estimator', 'workshop'] as const;
 
-const isoDate = z.string().regex(/^\d{4}-\d{2}-\d{2}$/, { message: 'must be a date like 2026-12-07' });
-const localDateTime = z
-  .string()
-  .regex(/^\d{4}-\d{2}-\d{2}T([01]\d|2[0-3]):[0-5]\d$/, { message: 'must be a local date and time like 2026-12-07T14:30' });
-const dateOrDateTime = z
-  .string()
-  .regex(/^\d{4}-\d{2}-\d{2}(T([01]\d|2[0-3]):[0-5]\d)?$/, { message: 'must be a date like 2026-12-07 or a date and time like 2026-12-07T08:00' });
+const isoDate = dateSchema({ ...DATE_RULES.planning, example: '2026-12-07' });
+const localDateTime = localDateTimeSchema({ ...DATE_RULES.planning, example: '2026-12-07' });
+const dateOrDateTime = dateOrDateTimeSchema({ ...DATE_RULES.planning, example: '2026-12-07' });
 
 /** A job from an accepted quote: the quoted revision's sessions and rests. */
 export const CreateJobSchema = z

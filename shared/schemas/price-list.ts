@@ -3,6 +3,7 @@
  * history, and the supplier price file's preview. Money travels as decimal strings, never as numbers.
  */
 import { z } from 'zod';
+import { DATE_RULES, dateSchema } from './dates';
 import { MATERIAL_KINDS, MATERIAL_UNITS, type MaterialUnit } from './catalog';
 
 export type MaterialKind = (typeof MATERIAL_KINDS)[number];
@@ -24,14 +25,10 @@ export const MATERIAL_KIND_LABELS: Record<MaterialKind, string> = {
 
 export const MATERIAL_UNIT_LABELS: Record<MaterialUnit, string> = { g: 'grams (g)', mL: 'millilitres (mL)', sheet: 'sheets', each: 'pieces (each)' };
 
-/** YYYY-MM-DD that is a real calendar date. */
-export const IsoDateSchema = z
-  .string({ message: 'is required' })
-  .regex(/^\d{4}-\d{2}-\d{2}$/, { message: 'must be a date like 2027-03-14' })
-  .refine((s) => {
-    const d = new Date(`${s}T00:00:00Z`);
-    return !Number.isNaN(d.getTime()) && d.toISOString().slice(0, 10) === s;
-  }, { message: 'is not a real date' });
+/** YYYY-MM-DD that is a real calendar date within the widest bounds (the shared date schema). */
+export const IsoDateSchema = dateSchema();
+/** When a price takes effect (form, API and supplier price file alike). */
+export const EffectiveDateSchema = dateSchema(DATE_RULES.priceEffective);
 
 /**
  * A price as typed: "12.50", "12,50" (decimal comma) or "12". Up to 8 whole digits and 4 decimals, the NUMERIC(12,4)
@@ -104,7 +101,7 @@ export const CreatePackSchema = z
     supplier: z.string().trim().max(120).default(''),
     supplierCode: z.string().trim().max(60).default(''),
     price: PriceInputSchema,
-    effectiveFrom: IsoDateSchema,
+    effectiveFrom: EffectiveDateSchema,
   })
   .strict();
 export type CreatePackInput = z.input<typeof CreatePackSchema>;
@@ -142,7 +139,7 @@ export const UpdatePackSchema = z
 export type UpdatePackInput = z.infer<typeof UpdatePackSchema>;
 
 /** A new price for a pack: it takes effect on its date and the old price stays in the history. */
-export const NewPriceSchema = z.object({ price: PriceInputSchema, effectiveFrom: IsoDateSchema }).strict();
+export const NewPriceSchema = z.object({ price: PriceInputSchema, effectiveFrom: EffectiveDateSchema }).strict();
 export type NewPriceInput = z.input<typeof NewPriceSchema>;
 
 export interface PriceHistoryEntry {
@@ -198,6 +195,8 @@ export interface PriceFileMatch {
   newPrice: string;
   changePct: string | null;
   effectiveFrom: string;
+  /** Why the price looks wrong (a change far beyond the usual, an absurd amount): shown, not refused. */
+  flag?: string | null;
 }
 
 export interface PriceFileNewItem {
@@ -214,6 +213,8 @@ export interface PriceFileNewItem {
   supplierCode: string | null;
   newPrice: string;
   effectiveFrom: string;
+  /** Why the price looks wrong (an absurd amount for the pack): shown, not refused. */
+  flag?: string | null;
 }
 
 export interface PriceFileRowError {
@@ -227,6 +228,8 @@ export interface PriceFilePreview {
   /** SHA-256 of the file's bytes; the apply step must name it. */
   contentHash: string;
   delimiter: ',' | ';';
+  /** The file's decimal separator, by the rule in docs/price-file.md (older previews lack it). */
+  decimalSeparator?: '.' | ',';
   rowCount: number;
   columns: string[];
   unknownColumns: string[];

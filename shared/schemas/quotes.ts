@@ -1,4 +1,5 @@
 import { z } from 'zod';
+import { DATE_RULES, dateSchema } from './dates';
 
 /** A quote's life: prepared, sent, opened by the customer, then answered; the deposit closes it. */
 export const QUOTE_STATES = ['draft', 'quoted', 'viewed', 'accepted', 'declined', 'expired', 'deposit-paid', 'withdrawn'] as const;
@@ -15,7 +16,7 @@ export const QUOTE_STATE_LABELS: Record<QuoteState, string> = {
 };
 
 const money = z.string().regex(/^\d{1,9}(\.\d{1,2})?$/, { message: 'must be an amount like 120.00' });
-const isoDate = z.string().regex(/^\d{4}-\d{2}-\d{2}$/, { message: 'must be a date like 2027-01-31' });
+const isoDate = dateSchema({ ...DATE_RULES.quoteValidUntil, example: '2027-01-31' });
 
 /** Optional work the customer may accept or not, priced apart from the polishing (before tax). */
 export const QuoteExtraInputSchema = z

@@ -106,6 +106,37 @@ describe('condition photos', () => {
     expect(JSON.parse(res.text)).toMatchObject({ code: 'unsupported_image', field: 'photos' });
   });
 
+  it('keeps the original and a bounded working copy: pages get the working copy, the original is a download', async () => {
+    const camera = await sharp({ create: { width: 3000, height: 2000, channels: 3, background: '#5a3a22' } }).jpeg({ quality: 60 }).toBuffer();
+    const res = await estimator.agent.post(`/api/pieces/${pieceId}/photos`).set('x-csrf-token', estimator.csrf).attach('photos', camera, 'whole-case.jpg').expect(201);
+    expect(res.body[0]).toMatchObject({ width: 3000, height: 2000 });
+    const page = await estimator.agent.get(res.body[0].url).expect(200);
+    expect(page.headers['content-type']).toBe('image/jpeg');
+    const work = await sharp(page.body as Buffer).metadata();
+    expect(Math.max(work.width!, work.height!)).toBe(2048);
+    const original = await estimator.agent.get(`/api/photos/${res.body[0].id}/original`).expect(200);
+    expect(original.headers['content-disposition']).toMatch(/attachment/);
+    expect(Buffer.compare(original.body as Buffer, camera)).toBe(0);
+  });
+
+  it('refuses an image over the pixel cap, and a request whose images hold too many pixels in all, from their headers', async () => {
+    // 9000 × 6000 = 54 MP: more than a camera makes (the cap is 50 MP), though the file is small.
+    const huge = await sharp({ create: { width: 9000, height: 6000, channels: 3, background: '#222' } }).jpeg({ quality: 30 }).toBuffer();
+    const one = await estimator.agent.post(`/api/pieces/${pieceId}/photos`).set('x-csrf-token', estimator.csrf).attach('photos', huge, 'stitched.jpg');
+    expect(one.status).toBe(400);
+    expect(JSON.parse(one.text)).toMatchObject({ code: 'unsupported_image', field: 'photos' });
+    expect(JSON.parse(one.text).detail).toMatch(/at most 50 MP/);
+    // Four 40 MP images: each under the cap, 160 MP together, over the 150 MP a request may hold.
+    const big = await sharp({ create: { width: 8000, height: 5000, channels: 3, background: '#333' } }).jpeg({ quality: 30 }).toBuffer();
+    const before = (await estimator.agent.get(`/api/pieces/${pieceId}`)).body.photos.length;
+    let req = estimator.agent.post(`/api/pieces/${pieceId}/photos`).set('x-csrf-token', estimator.csrf);
+    for (let i = 0; i < 4; i++) req = req.attach('photos', big, `part-${i}.jpg`);
+    const all = await req;
+    expect(all.status).toBe(400);
+    expect(JSON.parse(all.text)).toMatchObject({ code: 'too_many_pixels', field: 'photos' });
+    expect((await estimator.agent.get(`/api/pieces/${pieceId}`)).body.photos).toHaveLength(before);
+  });
+
   it('rejects an oversize image with 413', async () => {
     const big = Buffer.alloc(9 * 1024 * 1024, 7);
     const res = await estimator.agent.post(`/api/pieces/${pieceId}/photos`).set('x-csrf-token', estimator.csrf).attach('photos', big, 'huge.png');

@@ -3,7 +3,12 @@
  * wrong types, huge and negative numbers, NaN, long strings, unicode, SQL and HTML fragments, extra and missing
  * fields, oversize bodies and uploads. Every answer must be below 500; every refusal (4xx) must leave the database
  * exactly as it was, and a validation refusal must name the field.
+ *
+ * Then the classes of input that once reached the server's insides, each from a generator of its own, at every write
+ * route and every public route: strings with NUL or unpaired surrogates, malformed percent-encoding and broken or
+ * unsupported content codings, impossible dates, and huge numbers. A count of what was sent is printed.
  */
+import { gzipSync } from 'node:zlib';
 import fc from 'fast-check';
 import request from 'supertest';
 import { afterAll, beforeAll, describe, expect, it } from 'vitest';
@@ -145,5 +150,245 @@ describe('oversize and malformed bodies', () => {
     const randomBytes = Buffer.from(Array.from({ length: 4096 }, (_, i) => (i * 7919) % 256));
     const junk = await owner.agent.post(`/api/pieces/${piece.body.id}/photos`).set('x-csrf-token', owner.csrf).attach('photos', randomBytes, 'noise.webp');
     expect(junk.status).toBe(400);
+  });
+});
+
+// ------------------------------------------------------------------------------------------ classes of input
+
+/** A string holding a NUL or an unpaired surrogate somewhere, in otherwise ordinary text. */
+const badText = fc
+  .tuple(fc.string({ maxLength: 12 }), fc.constantFrom('\u0000', '\uD800', '\uDBFF', '\uDC00', '\uDFFF', 'a\uD83D', '\uDE00b', '\u0000\uD800'), fc.string({ maxLength: 12 }))
+  .map(([a, bad, b]) => a + bad + b);
+
+/** Dates no calendar has, dates out of any sensible range, and near-misses of the format. */
+const impossibleDate = fc.oneof(
+  fc.constantFrom(
+    '2026-02-30', '2025-02-29', '2100-02-29', '0000-01-01', '0000-00-00', '2026-13-01', '2026-00-10', '2026-04-31', '2026-06-31',
+    '9999-12-31', '1899-12-31', '0001-01-01', '275760-09-13', '+275760-09-13', '-000001-01-01', '2026-1-5', '2026-02-30T10:00',
+    '2026-12-07T24:00', '2026-12-07T23:60', '2026-12-07T10:00:61', '2026-12-07T10:00Z', '20261207', '2026-12-07 10:00', '',
+  ),
+  fc
+    .record({ y: fc.integer({ min: 0, max: 9999 }), m: fc.integer({ min: 0, max: 13 }), d: fc.integer({ min: 0, max: 32 }) })
+    .map(({ y, m, d }) => `${String(y).padStart(4, '0')}-${String(m).padStart(2, '0')}-${String(d).padStart(2, '0')}`),
+);
+
+/** Numbers at and past the edges of what a column or a double holds. */
+const hugeNumber = fc.oneof(
+  fc.constantFrom(1e308, -1e308, Number.MAX_VALUE, -Number.MAX_VALUE, Number.MIN_VALUE, 2 ** 53 + 2, -(2 ** 63), 2 ** 31, -(2 ** 31) - 1, 1e21, 9.999999999999999e22),
+  fc.double({ min: 1e9, max: 1e308, noNaN: true }),
+  fc.double({ min: -1e308, max: -1e9, noNaN: true }),
+  fc.constantFrom('1e400', '99999999999999999999.99', '-0', '1e-400', '123456789012345678901234567890'),
+);
+
+/** Fields that take dates, at the top level and where they sit inside bodies. */
+const DATE_FIELDS = ['validUntil', 'effectiveFrom', 'notBefore', 'start', 'actualEnd', 'startDate', 'from', 'to', 'date'];
+const dateBody = fc.oneof(
+  fc.dictionary(fc.constantFrom(...DATE_FIELDS), impossibleDate, { minKeys: 1, maxKeys: 3 }),
+  fc.record({ mode: fc.constantFrom('earliest', 'date'), notBefore: impossibleDate, start: impossibleDate }),
+  fc.record({ price: fc.constant('9.95'), effectiveFrom: impossibleDate }),
+  fc.record({ actualEnd: impossibleDate, actualHours: fc.constant(2), temperatureC: fc.constant(20), humidityPct: fc.constant(50), notes: fc.constant('Fuzz.') }),
+  fc.record({ input: fc.record({ startDate: impossibleDate }) }),
+  fc.record({ daysOff: fc.array(impossibleDate, { minLength: 1, maxLength: 3 }) }),
+  fc.record({ settings: fc.record({ calendar: fc.record({ closedDates: fc.array(impossibleDate, { minLength: 1, maxLength: 2 }) }) }) }),
+);
+/** Bad text as values, as keys, and deep inside. */
+const textBody = fc.oneof(
+  fc.dictionary(fc.constantFrom(...FIELDS), badText, { minKeys: 1, maxKeys: 4 }),
+  fc.dictionary(badText, fc.string({ maxLength: 8 }), { minKeys: 1, maxKeys: 2 }),
+  fc.record({ input: fc.record({ piece: fc.record({ notes: badText }) }), extras: fc.array(fc.record({ label: badText }), { maxLength: 2 }) }),
+  fc.array(badText, { minLength: 1, maxLength: 3 }),
+  badText,
+);
+/** Huge numbers where the API takes numbers, and in strings that read as numbers. */
+const numberBody = fc.oneof(
+  fc.dictionary(fc.constantFrom(...FIELDS), hugeNumber, { minKeys: 1, maxKeys: 5 }),
+  fc.record({ input: fc.record({ piece: fc.record({ dimensions: fc.record({ length: hugeNumber, width: hugeNumber }) }), climate: fc.record({ temperatureC: hugeNumber, humidityPct: hugeNumber }) }) }),
+  fc.record({ price: hugeNumber, effectiveFrom: fc.constant('2026-12-01') }),
+  fc.record({ extras: fc.array(fc.record({ label: fc.constant('x'), hours: hugeNumber, price: hugeNumber }), { minLength: 1, maxLength: 2 }), discountPct: hugeNumber }),
+);
+
+/** Malformed percent-encoding and characters a path must not carry, as a path segment. */
+const badSegment = fc.constantFrom('%ZZ', '%', '%4', '%E2%82', '%C0%AF', '%ED%A0%80', '%F0%9F', '%FF%FE', '%00', 'abc%00def', '1%00', '%E2%82%AC%E2');
+
+/** Broken or unsupported content codings, each with the bytes it comes with. */
+const badCoding = fc.constantFrom<{ encoding: string; bytes: (json: string) => Buffer }>(
+  { encoding: 'gzip', bytes: (json) => Buffer.from(json) },
+  { encoding: 'gzip', bytes: (json) => gzipSync(json).subarray(0, 12) },
+  { encoding: 'deflate', bytes: () => Buffer.from([0x78, 0x9c, 0xff, 0xff, 0x00]) },
+  { encoding: 'br', bytes: () => Buffer.from('not brotli at all') },
+  { encoding: 'compress', bytes: (json) => Buffer.from(json) },
+  { encoding: 'x-snappy', bytes: (json) => Buffer.from(json) },
+  { encoding: 'gzip, gzip', bytes: (json) => gzipSync(gzipSync(json)) },
+  { encoding: 'identity, gzip', bytes: (json) => gzipSync(json) },
+);
+
+/** Sends a Buffer as its bytes (superagent would otherwise turn it into JSON for a JSON content type). */
+const rawBytes = (body: unknown) => body as string;
+
+type FuzzClass = 'NUL/surrogates' | 'bad encodings' | 'impossible dates' | 'huge numbers';
+const counts: Record<FuzzClass, { sent: number; fiveHundreds: number; statuses: Record<number, number> }> = {
+  'NUL/surrogates': { sent: 0, fiveHundreds: 0, statuses: {} },
+  'bad encodings': { sent: 0, fiveHundreds: 0, statuses: {} },
+  'impossible dates': { sent: 0, fiveHundreds: 0, statuses: {} },
+  'huge numbers': { sent: 0, fiveHundreds: 0, statuses: {} },
+};
+function count(cls: FuzzClass, status: number): void {
+  counts[cls].sent++;
+  counts[cls].statuses[status] = (counts[cls].statuses[status] ?? 0) + 1;
+  if (status >= 500) counts[cls].fiveHundreds++;
+}
+afterAll(() => {
+  const total = Object.values(counts).reduce((n, c) => n + c.sent, 0);
+  const fives = Object.values(counts).reduce((n, c) => n + c.fiveHundreds, 0);
+  const lines = Object.entries(counts).map(([cls, c]) => `  ${cls}: ${c.sent} requests, ${c.fiveHundreds} × 5xx, statuses ${JSON.stringify(c.statuses)}`);
+  console.log(`[fuzz] ${total} requests from the input-class generators, ${fives} × 5xx\n${lines.join('\n')}`);
+});
+
+/** A quote sent to its customer, so that the public routes are reached with a real, signed token. */
+let realToken = '';
+beforeAll(async () => {
+  const post = (url: string, body: object) => owner.agent.post(url).set('x-csrf-token', owner.csrf).send(body);
+  const c = await post('/api/customers', { name: 'Fuzz Customer', email: 'fuzz.customer@example.com' }).expect(201);
+  const p = await post('/api/pieces', { customerId: c.body.id, kind: 'grand', description: 'Fuzz grand' }).expect(201);
+  const input = { piece: { template: 'grand', dimensions: { length: '6 ft 3 in' }, species: 'rosewood', veneered: true }, system: 'full-repolish' };
+  const e = await post('/api/estimates', { customerId: c.body.id, pieceId: p.body.id, input }).expect(201);
+  await post(`/api/estimates/${e.body.id}/state`, { state: 'priced' }).expect(200);
+  const q = await post(`/api/estimates/${e.body.id}/quotes`, {}).expect(201);
+  const sent = await post(`/api/quotes/${q.body.id}/send`, {}).expect(200);
+  realToken = String(sent.body.link).split('/q/')[1]!;
+});
+
+const publicRoutes = routes.filter((r) => r.access === 'public');
+const classRoutes = [...writes, ...publicRoutes.filter((r) => r.method === 'get'), ...routes.filter((r) => SKIP.has(`${r.method} ${r.path}`))];
+
+/** Sends one request as the route's caller would: signed in with a CSRF token, or as the public. */
+function send(route: (typeof routes)[number], url: string) {
+  const agent = route.access === 'public' ? request(app) : owner.agent;
+  const req = (agent as unknown as Record<string, (u: string) => request.Test>)[route.method]!(url);
+  if (route.access !== 'public') req.set('x-csrf-token', owner.csrf);
+  return req;
+}
+
+function fillParams(route: (typeof routes)[number], values: string[]): string {
+  let i = 0;
+  return route.path.replace(/:(\w+)/g, (_m, name: string) => (name === 'token' ? realToken : (values[i++ % values.length] ?? '1')));
+}
+
+async function expectNoServerError(cls: FuzzClass, label: string, res: request.Response, before: string) {
+  count(cls, res.status);
+  expect(res.status, `${label} → ${res.status} ${String(res.text ?? '').slice(0, 300)}`).toBeLessThan(500);
+  if (res.status >= 400 && res.status !== 429) {
+    expect(await fingerprint(), `${label} changed the database while refused`).toBe(before);
+    const problem = JSON.parse(res.text);
+    expect(problem.detail ?? problem.title).toBeTruthy();
+    if (res.status === 400 && (problem.code === 'validation_failed' || problem.code === 'invalid_text')) expect(problem.field).toBeTruthy();
+  }
+}
+
+describe('input classes at every write route and every public route', () => {
+  it('covers the public routes too', () => {
+    expect(publicRoutes.map((r) => r.path)).toEqual(expect.arrayContaining(['/api/public/quotes/:token', '/api/public/quotes/:token/accept', '/api/auth/login']));
+  });
+
+  const bodies: [FuzzClass, fc.Arbitrary<unknown>][] = [
+    ['NUL/surrogates', textBody],
+    ['impossible dates', dateBody],
+    ['huge numbers', numberBody],
+  ];
+  for (const route of classRoutes) {
+    const hasBody = route.method !== 'get' && route.method !== 'delete';
+    it(`${route.method.toUpperCase()} ${route.path}: each class is refused cleanly, never a 5xx`, async () => {
+      const params = fc.array(fc.oneof(fc.constantFrom('1', '2', '3'), fc.nat({ max: 40 }).map(String)), { minLength: 1, maxLength: 3 });
+      if (hasBody) {
+        for (const [cls, arb] of bodies) {
+          await fc.assert(
+            fc.asyncProperty(arb, params, async (payload, values) => {
+              const url = fillParams(route, values);
+              const before = await fingerprint();
+              const json = JSON.stringify(payload).replace(/"1e400"/g, '1e400');
+              const res = await send(route, url).set('content-type', 'application/json').send(json);
+              await expectNoServerError(cls, `${route.method} ${url} ${json.slice(0, 200)}`, res, before);
+              if (cls === 'NUL/surrogates') expect([400, 401, 403, 404, 429]).toContain(res.status);
+            }),
+            { numRuns: 6, seed: 20261203 },
+          );
+        }
+      }
+      // Bad text and malformed escapes in the query string of any route: refused before the route runs.
+      await fc.assert(
+        fc.asyncProperty(fc.constantFrom('%00', 'a%00b', '%ED%A0%80', '%C0%80', '%ZZ', '%E2%82'), params, async (raw, values) => {
+          const url = `${fillParams(route, values)}?q=${raw}&from=${raw}`;
+          const before = await fingerprint();
+          const res = await send(route, url).set('content-type', 'application/json').send(hasBody ? '{}' : undefined as never);
+          await expectNoServerError('NUL/surrogates', `${route.method} ${url}`, res, before);
+          expect(res.status).toBe(400);
+          expect(JSON.parse(res.text).field).toBe('q');
+        }),
+        { numRuns: 3, seed: 20261203 },
+      );
+      // Malformed percent-encoding in each path parameter (or after the path), and broken or unsupported codings.
+      await fc.assert(
+        fc.asyncProperty(badSegment, params, async (segment, values) => {
+          const url = route.path.includes(':') ? route.path.replace(/:(\w+)/, segment).replace(/:(\w+)/g, () => values[0] ?? '1') : `${route.path}/${segment}`;
+          const before = await fingerprint();
+          const res = await send(route, url).set('content-type', 'application/json').send(hasBody ? '{}' : undefined as never);
+          await expectNoServerError('bad encodings', `${route.method} ${url}`, res, before);
+          if (route.path.includes(':') && !['%00', 'abc%00def', '1%00'].includes(segment)) expect(res.status).toBe(400);
+        }),
+        { numRuns: 4, seed: 20261203 },
+      );
+      if (hasBody) {
+        await fc.assert(
+          fc.asyncProperty(badCoding, params, async (coding, values) => {
+            const url = fillParams(route, values);
+            const before = await fingerprint();
+            const res = await send(route, url).set('content-type', 'application/json').set('content-encoding', coding.encoding).serialize(rawBytes).send(coding.bytes('{"name":"Fuzz"}'));
+            await expectNoServerError('bad encodings', `${route.method} ${url} content-encoding: ${coding.encoding}`, res, before);
+          }),
+          { numRuns: 3, seed: 20261203 },
+        );
+      }
+    });
+  }
+
+  it('a NUL or lone surrogate on the public accept form is a 400 naming the field, and nothing is stored', async () => {
+    for (const name of ['Ada\u0000Lovelace', 'Ada \uD800', '\uDC00']) {
+      const before = await fingerprint();
+      const res = await request(app).post(`/api/public/quotes/${realToken}/accept`).send({ name, acceptTerms: true });
+      count('NUL/surrogates', res.status);
+      expect(res.status).toBe(400);
+      expect(JSON.parse(res.text)).toMatchObject({ code: 'invalid_text', field: 'name' });
+      expect(await fingerprint()).toBe(before);
+    }
+  });
+
+  it('well-formed text survives unaltered: a surrogate pair, accents and an emoji are stored as sent', async () => {
+    const name = 'Zoë Ashgrove 🎹 𝄞';
+    const res = await owner.agent.post('/api/customers').set('x-csrf-token', owner.csrf).send({ name });
+    expect(res.status).toBe(201);
+    expect(res.body.name).toBe(name);
+  });
+
+  it('a gzip body is read, and then meets the same text rule', async () => {
+    const ok = await owner.agent.post('/api/customers').set('x-csrf-token', owner.csrf).set('content-type', 'application/json').set('content-encoding', 'gzip').serialize(rawBytes).send(gzipSync(JSON.stringify({ name: 'Gzipped Customer' })));
+    expect(ok.status, ok.text).toBe(201);
+    const bad = await owner.agent.post('/api/customers').set('x-csrf-token', owner.csrf).set('content-type', 'application/json').set('content-encoding', 'gzip').serialize(rawBytes).send(gzipSync(JSON.stringify({ name: 'Bad\u0000' })));
+    count('NUL/surrogates', bad.status);
+    expect(JSON.parse(bad.text)).toMatchObject({ status: 400, field: 'name' });
+    const broken = await owner.agent.post('/api/customers').set('x-csrf-token', owner.csrf).set('content-type', 'application/json').set('content-encoding', 'gzip').serialize(rawBytes).send(Buffer.from('not gzip'));
+    count('bad encodings', broken.status);
+    expect(broken.status).toBe(400);
+    const unsupported = await owner.agent.post('/api/customers').set('x-csrf-token', owner.csrf).set('content-type', 'application/json').set('content-encoding', 'compress').send('{}');
+    count('bad encodings', unsupported.status);
+    expect(unsupported.status).toBe(415);
+  });
+
+  it('malformed percent-encoding anywhere in a path is a 400, on API and page paths alike', async () => {
+    for (const path of ['/%ZZ', '/api/%ZZ', '/api/customers/%E2%82', '/estimates/%C0', '/api/public/quotes/%ED%A0%80']) {
+      const res = await request(app).get(path);
+      count('bad encodings', res.status);
+      expect(res.status, path).toBe(400);
+      expect(JSON.parse(res.text).code).toBe('bad_path');
+    }
   });
 });

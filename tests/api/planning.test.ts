@@ -5,7 +5,7 @@
  */
 import request from 'supertest';
 import { fromMinutes, toMinutes } from '../../shared/calc';
-import { afterAll, beforeAll, describe, expect, it } from 'vitest';
+import { afterAll, beforeAll, describe, expect, it, vi } from 'vitest';
 import type { BookingPreview, JobDetail, MaterialForecast, PlanningBoard, SessionDoneResult, ActualsReport } from '../../shared/schemas/planning';
 import { AuditEntry, FinishingSystem, Job } from '../../server/models';
 import { closeTestApp, getTestApp, signInAs, startServices, type Session } from '../helpers/app';
@@ -216,7 +216,32 @@ describe('booking', () => {
     expect(board.days.every((d) => !d.room.over)).toBe(true);
   });
 
+  it('refuses a finish time in the future, naming the field, and changes nothing', async () => {
+    const first = waiting.sessions[0]!;
+    // The job is booked years ahead: its planned end has not come yet.
+    const res = await post(estimator, `/api/jobs/${waiting.id}/sessions/${first.id}/done`, { actualEnd: first.end, actualHours: 2, temperatureC: 20, humidityPct: 50, notes: 'Too soon.' });
+    expect(res.status).toBe(400);
+    expect(JSON.parse(res.text)).toMatchObject({ code: 'finish_in_future', field: 'actualEnd' });
+    const job = (await planner.agent.get(`/api/jobs/${waiting.id}`).expect(200)).body as JobDetail;
+    expect(job.sessions[0]!.done).toBe(false);
+    // An impossible date is a 400 too, never a date rolled over to another day.
+    const impossible = await post(estimator, `/api/jobs/${waiting.id}/sessions/${first.id}/done`, { actualEnd: '2026-02-30T10:00', actualHours: 2, temperatureC: 20, humidityPct: 50, notes: 'x' });
+    expect(impossible.status).toBe(400);
+    expect(JSON.parse(impossible.text).field).toBe('actualEnd');
+  });
+
   describe('progress', () => {
+    // The jobs here are booked years ahead; the clock is moved past them so that their sessions can be done.
+    // Only Date is faked (timers run as usual); sessions are signed in again under the moved clock.
+    beforeAll(async () => {
+      vi.useFakeTimers({ toFake: ['Date'] });
+      vi.setSystemTime(new Date('2031-01-06T12:00:00'));
+      [estimator, owner] = await Promise.all([signInAs(app, 'estimator'), signInAs(app, 'owner')]);
+    });
+    afterAll(() => {
+      vi.useRealTimers();
+    });
+
     it('marks sessions done in order, with notes required', async () => {
       const first = waiting.sessions[0]!;
       const second = waiting.sessions[1]!;

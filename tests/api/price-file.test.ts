@@ -3,7 +3,7 @@ import path from 'node:path';
 import { afterAll, beforeAll, describe, expect, it } from 'vitest';
 import { rootDir } from '../../server/config';
 import { AuditEntry, Material, MaterialPack, PackPrice, PriceFilePreview } from '../../server/models';
-import { detectDelimiter, readDate, readDecimal } from '../../server/services/price-file';
+import { detectDelimiter, fileDecimalSeparator, priceFlag, readDate, readDecimal, separatorOf } from '../../server/services/price-file';
 import { closeTestApp, getTestApp, signInAs, type Session } from '../helpers/app';
 
 const { app } = getTestApp();
@@ -38,6 +38,71 @@ describe('reading supplier numbers', () => {
     expect(readDate('31/02/2027')).toBeUndefined();
     expect(detectDelimiter('a;b;c\n1,5;2;3')).toBe(';');
     expect(detectDelimiter('a,b,"c;d"\n')).toBe(',');
+  });
+});
+
+describe('the file\'s decimal separator and negative amounts', () => {
+  it('reads "1,234" by the file\'s separator: what its other numbers prove, else the delimiter\'s convention', () => {
+    expect(separatorOf('1,234')).toBeUndefined();
+    expect(separatorOf('12,50')).toBe(',');
+    expect(separatorOf('1.234,50')).toBe(',');
+    expect(readDecimal('1,234', '.')).toBe('1234');
+    expect(readDecimal('1,234', ',')).toBe('1.234');
+    expect(fileDecimalSeparator(['1,234', '7.50', '12.00'], ';')).toBe('.');
+    expect(fileDecimalSeparator(['1,234', '7,50'], ',')).toBe(',');
+    expect(fileDecimalSeparator(['1,234'], ';')).toBe(',');
+    expect(fileDecimalSeparator(['1,234'], ',')).toBe('.');
+    // Grouping must be in threes: "1,23,4" is not a number in a point-decimal file.
+    expect(readDecimal('1,23,4', '.')).toBeUndefined();
+  });
+
+  it('reads accountants\' brackets and trailing minus signs as negative', () => {
+    expect(readDecimal('(5.00)', '.')).toBe('-5.00');
+    expect(readDecimal('£(5.00)', '.')).toBe('-5.00');
+    expect(readDecimal('(£5.00)', '.')).toBe('-5.00');
+    expect(readDecimal('5.00)', '.')).toBeUndefined();
+    expect(readDecimal('5.00-', '.')).toBe('-5.00');
+    expect(readDecimal('-5,00', ',')).toBe('-5.00');
+  });
+
+  it('flags absurd prices: far from the price in force, or more per unit than any finishing material costs', () => {
+    expect(priceFlag('9.95', '9.50', 200, 'g')).toBeNull();
+    expect(priceFlag('995.00', '9.95', 200, 'g')).toMatch(/100× the price in force/);
+    expect(priceFlag('0.99', '9.95', 200, 'g')).toMatch(/% of the price in force/);
+    expect(priceFlag('12000', null, 250, 'g')).toMatch(/per g.*for one pack|for one pack/);
+    expect(priceFlag('12.35', null, 250, 'g')).toBeNull();
+  });
+
+  it('refuses (5.00) row by row, reads 1,234 by the stated rule, flags a decimal slip in the preview, and changes nothing', async () => {
+    const csv = [
+      'supplier,supplier_code,pack_size,unit,price,effective_date',
+      'Quillby Finishing Supplies,WAX-200,200,g,(5.00),2026-11-28',
+      'Quillby Finishing Supplies,WAX-400,400,g,995.00,2026-11-28',
+      'Quillby Finishing Supplies,PUMICE-1000,"1,000",g,16.00,2026-02-30',
+    ].join('\n');
+    const before = await PackPrice.count();
+    const res = await upload(owner, csv, 'odd.csv').expect(201);
+    expect(res.body.decimalSeparator).toBe('.');
+    expect(res.body.canApply).toBe(false);
+    expect(res.body.errors.map((e: { line: number }) => e.line)).toEqual([2, 4]);
+    expect(res.body.errors[0].reason).toMatch(/price "\(5\.00\)" is negative/);
+    expect(res.body.errors[1].reason).toMatch(/effective date "2026-02-30" is not a date/);
+    const wax400 = res.body.matched.find((m: { supplierCode: string }) => m.supplierCode === 'WAX-400');
+    expect(wax400.flag).toMatch(/Check this price/);
+    expect(await PackPrice.count()).toBe(before);
+
+    // "1,000" in a comma-separated file of point decimals is a thousand grams: the 1 kg pack.
+    const semi = await upload(owner, 'supplier,supplier_code,pack_size,unit,price\nQuillby Finishing Supplies,PUMICE-1000,"1,000",g,16.00\n').expect(201);
+    expect(semi.body.errors).toEqual([]);
+    expect([...semi.body.matched, ...semi.body.unchanged][0]).toMatchObject({ packSize: '1000' });
+  });
+
+  it('refuses a file holding a NUL character with 400, and a date outside the bounds row by row', async () => {
+    const nul = await upload(owner, 'supplier,supplier_code,price\nQuillby\u0000,WAX-200,9.00\n');
+    expect(nul.status).toBe(400);
+    expect(JSON.parse(nul.text)).toMatchObject({ field: 'file' });
+    const far = await upload(owner, 'supplier,supplier_code,price,effective_date\nQuillby Finishing Supplies,WAX-200,9.00,2099-01-01\n').expect(201);
+    expect(far.body.errors[0].reason).toMatch(/effective date "2099-01-01" must be at most 2 years from today/);
   });
 });
 

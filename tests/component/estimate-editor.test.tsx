@@ -1,9 +1,15 @@
 import { fireEvent, screen, waitFor, within } from '@testing-library/react';
-import { afterEach, beforeEach, describe, expect, it, vi } from 'vitest';
+import { afterEach, beforeAll, beforeEach, describe, expect, it, vi } from 'vitest';
 import { EstimateEditor, type SavePayload } from '../../src/features/estimates/components/estimate-editor';
 import { newDraft } from '../../src/features/estimates/lib/draft';
 import { CALC, ME, PIECE } from './estimates-fixtures';
 import { fakeFetch, json, renderWithApp } from './render';
+
+// The calendar chart is loaded lazily (recharts is large). Loaded once here, before any test, no test pays for the
+// import at whatever moment it happens to finish, and each test renders the same way.
+beforeAll(async () => {
+  await import('../../src/features/estimates/components/calendar-chart');
+});
 
 beforeEach(() => {
   window.localStorage.clear();

@@ -3,14 +3,21 @@ import { render } from '@testing-library/react';
 import type { ReactNode } from 'react';
 import { MemoryRouter } from 'react-router-dom';
 
-/** Renders inside a fresh query client (no retries) and a memory router. */
+/** Renders inside a fresh query client (no retries) and a memory router; returns the client too. */
 export function renderWithApp(ui: ReactNode, { route = '/' }: { route?: string } = {}) {
   const queryClient = new QueryClient({ defaultOptions: { queries: { retry: false } } });
-  return render(
+  const rendered = render(
     <QueryClientProvider client={queryClient}>
       <MemoryRouter initialEntries={[route]}>{ui}</MemoryRouter>
     </QueryClientProvider>,
   );
+  return Object.assign(rendered, { queryClient });
+}
+
+/** True once every query has its answer (or its error): what the page shows next is what it will keep showing. */
+export function queriesSettled(queryClient: QueryClient): boolean {
+  const queries = queryClient.getQueryCache().getAll();
+  return queries.length > 0 && queries.every((q) => q.state.status !== 'pending' && q.state.fetchStatus === 'idle');
 }
 
 /** A fetch that answers from a table of handlers, standing in for the network (not the database). */

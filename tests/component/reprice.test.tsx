@@ -4,7 +4,7 @@ import type { RepriceCandidates, RepriceRow } from '../../src/features/reprice/a
 import { RepriceNotice } from '../../src/features/reprice/components/reprice-notice';
 import { totalChange } from '../../src/features/reprice/lib/change';
 import { RepricePage } from '../../src/features/reprice/routes/reprice';
-import { fakeFetch, json, renderWithApp } from './render';
+import { fakeFetch, json, renderWithApp, queriesSettled } from './render';
 
 afterEach(() => vi.unstubAllGlobals());
 
@@ -142,9 +142,10 @@ describe('RepriceNotice', () => {
   it('shows nothing when no open estimate is out of date', async () => {
     const net = fakeFetch({ '/api/estimates/reprice': () => json({ catalogVersion: 'pl-t0day0t0day', rows: [] }) });
     vi.stubGlobal('fetch', net.fn);
-    const { container } = renderWithApp(<RepriceNotice />);
-    await waitFor(() => expect(net.calls).toHaveLength(1));
-    await new Promise((r) => setTimeout(r, 20));
+    const { container, queryClient } = renderWithApp(<RepriceNotice />);
+    // Not a wait for time to pass: the answer has arrived and been rendered, and the notice is still empty.
+    await waitFor(() => expect(queriesSettled(queryClient)).toBe(true));
+    expect(net.calls).toHaveLength(1);
     expect(container.textContent).toBe('');
   });
 });

@@ -1,5 +1,5 @@
 import { Hammer, LayoutList, ListRestart, Save, Thermometer, TriangleAlert, Wand2 } from 'lucide-react';
-import { useDeferredValue, useEffect, useMemo, useState, type FormEvent, type ReactNode } from 'react';
+import { useDeferredValue, useMemo, useState, type FormEvent, type ReactNode } from 'react';
 import { estimate } from '@shared/calc';
 import { TEMPLATE_KEYS, TEMPLATE_DIMENSIONS, type EstimateInput, type EstimateResult, type TemplateKey } from '@shared/schemas/calc';
 import type { PieceKind } from '@shared/schemas/customers';
@@ -92,10 +92,10 @@ export function EstimateEditor({ calc, pieceKind, initial, saveLabel, saving = f
       return { ok: false, errors: errorsByPath(error) };
     }
   }, [input, catalog, today]);
+  // The last good figures, kept while a field is wrong. Updated during render (React's pattern for state derived
+  // from the previous render): an effect would commit, then render the whole editor a second time on every change.
   const [lastGood, setLastGood] = useState<EstimateResult | null>(outcome.ok ? outcome.result : null);
-  useEffect(() => {
-    if (outcome.ok) setLastGood(outcome.result);
-  }, [outcome]);
+  if (outcome.ok && outcome.result !== lastGood) setLastGood(outcome.result);
 
   const fromServer = serverErrors(saveError);
   const errors: Record<string, string> = { ...fromServer, ...(outcome.ok ? {} : outcome.errors) };

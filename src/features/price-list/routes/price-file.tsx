@@ -1,4 +1,4 @@
-import { ArrowLeft, CircleCheck, CirclePlus, CircleX, Equal, FileQuestion, FileUp, ListChecks, RefreshCw } from 'lucide-react';
+import { ArrowLeft, CircleAlert, CircleCheck, CirclePlus, CircleX, Equal, FileQuestion, FileUp, ListChecks, RefreshCw } from 'lucide-react';
 import { useCallback, useRef, useState, type FormEvent, type ReactNode } from 'react';
 import { Link } from 'react-router-dom';
 import { PRICE_FILE_COLUMNS, type PriceFileMatch, type PriceFileNewItem, type PriceFilePreview, type PriceFileRowError } from '@shared/schemas/price-list';
@@ -25,6 +25,16 @@ function Stat({ icon, label, value, tone }: { icon: ReactNode; label: string; va
   );
 }
 
+/** A price the server flagged as looking wrong (a decimal slip, a pack mix-up): shown beside the price. */
+function PriceFlag({ flag }: { flag?: string | null }) {
+  if (!flag) return null;
+  return (
+    <span className="mt-0.5 flex items-center justify-end gap-1 text-xs font-medium text-brick-700">
+      <CircleAlert className="h-3.5 w-3.5 shrink-0" aria-hidden /> {flag}
+    </span>
+  );
+}
+
 const matchValue = (r: PriceFileMatch, key: string) =>
   key === 'material' ? `${r.materialName} ${r.packSize.padStart(8, '0')}` : key === 'changePct' ? (r.changePct === null ? null : Number(r.changePct)) : key === 'newPrice' ? Number(r.newPrice) : r.line;
 
@@ -35,7 +45,7 @@ function MatchedTable({ rows, currency, caption }: { rows: PriceFileMatch[]; cur
     { key: 'material', header: 'Material and pack', sortKey: 'material', render: (r) => <span><span className="font-medium text-walnut-900">{r.materialName}</span>, <span className="num">{r.packSize} {r.unit}</span></span> },
     { key: 'code', header: 'Supplier · code', render: (r) => <span className="text-walnut-600">{r.supplier} <span className="font-mono text-xs text-walnut-400">{r.supplierCode}</span></span> },
     { key: 'old', header: `Old price (${currency})`, align: 'right', render: (r) => (r.oldPrice ? formatMoney(r.oldPrice, currency) : <span className="text-walnut-400">none</span>) },
-    { key: 'newPrice', header: `New price (${currency})`, sortKey: 'newPrice', align: 'right', render: (r) => <span className="font-semibold text-walnut-900">{formatMoney(r.newPrice, currency)}</span> },
+    { key: 'newPrice', header: `New price (${currency})`, sortKey: 'newPrice', align: 'right', render: (r) => <span><span className="font-semibold text-walnut-900">{formatMoney(r.newPrice, currency)}</span><PriceFlag flag={r.flag} /></span> },
     { key: 'changePct', header: 'Change', sortKey: 'changePct', align: 'right', render: (r) => <ChangeBadge pct={r.changePct} /> },
     { key: 'from', header: 'From', render: (r) => <span className="whitespace-nowrap">{formatDate(r.effectiveFrom)}</span> },
   ];
@@ -57,7 +67,7 @@ function NewItemsTable({ rows, currency }: { rows: PriceFileNewItem[]; currency:
     },
     { key: 'material', header: 'Material and pack', sortKey: 'material', render: (r) => <span><span className="font-medium text-walnut-900">{r.materialName}</span>, <span className="num">{r.packSize} {r.unit}</span></span> },
     { key: 'code', header: 'Supplier · code', render: (r) => <span className="text-walnut-600">{r.supplier} <span className="font-mono text-xs text-walnut-400">{r.supplierCode ?? ''}</span></span> },
-    { key: 'price', header: `Price (${currency})`, align: 'right', render: (r) => <span className="font-semibold">{formatMoney(r.newPrice, currency)}</span> },
+    { key: 'price', header: `Price (${currency})`, align: 'right', render: (r) => <span><span className="font-semibold">{formatMoney(r.newPrice, currency)}</span><PriceFlag flag={r.flag} /></span> },
     { key: 'from', header: 'From', render: (r) => <span className="whitespace-nowrap">{formatDate(r.effectiveFrom)}</span> },
   ];
   return <DataTable caption="New items" columns={columns} rowKey={(r) => r.line} {...t} />;
@@ -174,7 +184,7 @@ export function PriceFilePage() {
           </Card>
 
           {preview && (
-            <Card title={`2. Check the preview of ${preview.fileName}`} actions={<span className="text-xs text-walnut-500">{preview.rowCount} rows · separated by “{preview.delimiter}” · preview valid until {formatDateTime(preview.expiresAt)}</span>}>
+            <Card title={`2. Check the preview of ${preview.fileName}`} actions={<span className="text-xs text-walnut-500">{preview.rowCount} rows · separated by “{preview.delimiter}”{preview.decimalSeparator ? ` · decimals with a ${preview.decimalSeparator === ',' ? 'comma' : 'point'}` : ''} · preview valid until {formatDateTime(preview.expiresAt)}</span>}>
               <div className="mb-4 grid gap-3 sm:grid-cols-2 lg:grid-cols-4">
                 <Stat icon={<RefreshCw className="h-5 w-5 text-amber-600" aria-hidden />} label="Prices to change" value={preview.matched.length} tone="border-amber-200 bg-amber-50 text-walnut-800" />
                 <Stat icon={<CirclePlus className="h-5 w-5 text-amber-600" aria-hidden />} label="New items" value={preview.newItems.length} tone="border-parchment-300 bg-parchment-50 text-walnut-800" />
@@ -186,6 +196,11 @@ export function PriceFilePage() {
                   <Alert tone="info" title="Columns not used">
                     <FileQuestion className="mr-1 inline h-3.5 w-3.5" aria-hidden />
                     {preview.unknownColumns.join(', ')} — these are ignored.
+                  </Alert>
+                )}
+                {[...preview.matched, ...preview.newItems].some((r) => r.flag) && (
+                  <Alert tone="warning" title={`${[...preview.matched, ...preview.newItems].filter((r) => r.flag).length} price(s) look wrong`}>
+                    Check the flagged prices below before applying: a misplaced decimal point or a price for another pack size is easy to miss.
                   </Alert>
                 )}
                 {preview.errors.length > 0 && (
