@@ -115,6 +115,8 @@ export function EstimateQuotes({ estimate }: { estimate: EstimateDetail }) {
         {formOpen && role && settings && (
           <QuoteForm
             estimateId={estimate.id}
+            customerId={estimate.customer.id}
+            estimateTitle={estimate.title}
             revisions={estimate.revisions}
             role={role}
             onCreated={onCreated}
