@@ -173,14 +173,25 @@ export async function linesOf(quoteId: number, transaction?: Transaction): Promi
 }
 
 /**
- * Locks a quote for a change of state, its estimates first: every transaction that moves a quote takes the rows of
- * the estimates its lines name (in id order), then the quote's, so two of them never wait on each other in opposite
- * order. `estimate` is the quote's first estimate.
+ * Locks the pieces named, in id order (NO KEY UPDATE: rows that merely reference a piece are not held up). Two quotes
+ * naming one piece through different estimates queue here.
+ */
+export async function lockPieces(pieceIds: readonly number[], transaction: Transaction): Promise<void> {
+  for (const id of [...new Set(pieceIds)].sort((a, b) => a - b)) {
+    await Piece.findByPk(id, { attributes: ['id'], transaction, lock: transaction.LOCK.NO_KEY_UPDATE });
+  }
+}
+
+/**
+ * Locks a quote for a change of state, its pieces and estimates first: every transaction that moves a quote takes
+ * the rows of the pieces its lines name, then of their estimates (each in id order), then the quote's, so two of
+ * them never wait on each other in opposite order. `estimate` is the quote's first estimate.
  */
 export async function lockQuote(quoteId: number, transaction: Transaction): Promise<{ quote: Quote; estimate: Estimate; estimates: Estimate[]; lines: QuoteLine[] }> {
   const peek = await Quote.findByPk(quoteId, { attributes: ['id', 'estimateId'], transaction });
   if (!peek) throw problems.notFound('Quote');
   const lines = await linesOf(quoteId, transaction);
+  await lockPieces(lines.map((l) => l.pieceId), transaction);
   const ids = [...new Set([peek.estimateId, ...lines.map((l) => l.estimateId)])].sort((a, b) => a - b);
   const estimates: Estimate[] = [];
   for (const id of ids) {
@@ -332,6 +343,9 @@ export async function createQuote(sequelize: Sequelize, actor: { id: number; rol
       throw problems.badRequest('lines_without_estimate', `lines: must include estimate ${estimateId}, the one the quote is made from`, 'lines');
     }
     const ids = [...new Set(given.map((l) => l.estimateId))].sort((a, b) => a - b);
+    // The same order as lockQuote: pieces, then estimates.
+    const peeked = await Estimate.findAll({ where: { id: ids }, attributes: ['id', 'pieceId'], transaction });
+    await lockPieces(peeked.map((e) => e.pieceId), transaction);
     const locked = new Map<number, Estimate>();
     for (const eid of ids) {
       const e = await Estimate.findByPk(eid, { transaction, lock: transaction.LOCK.UPDATE });
