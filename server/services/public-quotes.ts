@@ -27,6 +27,7 @@ import {
   openQuotesNaming,
   pieceAgreement,
   quoteLink,
+  shownPricing,
   tokenSigned,
 } from './quotes';
 
@@ -96,7 +97,8 @@ export async function viewQuote(config: Config, token: string): Promise<PublicQu
     Payment.findOne({ where: { quoteId: quote.id, status: 'pending' } }),
   ]);
   // The quote's own price in the customer's lines: for several lines, the recommended choice with their hours.
-  const recommendedHours = lineRows.length > 1 ? lines.filter((l) => l.recommended).reduce((t, l) => t + l.hoursExact, 0) : r.totals.labourHours;
+  const shown = shownPricing(quote, lineRows);
+  const shownHours = lineRows.length > 1 ? lines.filter((l) => shown.lines.some((x) => x.id === l.id)).reduce((t, l) => t + l.hoursExact, 0) : r.totals.labourHours;
   return {
     lines: lines.map(({ hoursExact: _, ...l }) => l),
     recommended: lines.filter((l) => l.recommended).map((l) => l.id),
@@ -119,7 +121,7 @@ export async function viewQuote(config: Config, token: string): Promise<PublicQu
         .map((s) => ({ name: s.name, sessions: s.sessions, coats: s.coats > 0 ? s.coats : null, hours: roundHoursForCustomer(s.labourHours) })),
     },
     // The customer's lines only: the labour rate, overhead and margin stay on staff screens.
-    pricing: { ...quote.pricing, lines: customerPriceLines(quote.pricing, recommendedHours) },
+    pricing: { ...shown.pricing, lines: customerPriceLines(shown.pricing, shownHours) },
     schedule: { booked: schedule !== null, start: schedule?.start ?? null, ready: schedule?.ready ?? null, calendarDays: r.totals.calendarDays },
     agreed: agreedOf(quote),
     checkout: { open: openPayment !== null, lastStatus: lastPayment?.status ?? null },

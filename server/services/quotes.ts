@@ -123,6 +123,16 @@ export function combinedPricing(pricings: readonly QuotePricing[], depositPct: n
   return { lines, total, depositPct, deposit: figures.deposit, balance: figures.balance, taxLabel: first.taxLabel, taxPct: first.taxPct, currency: first.currency };
 }
 
+/**
+ * The price a quote shows: its own (the recommended choice) until accepted; once a quote of several lines is
+ * accepted, the chosen lines' price added up. Also the lines it is the price of.
+ */
+export function shownPricing(quote: Pick<Quote, 'pricing' | 'depositPct'>, lines: readonly QuoteLine[]): { pricing: QuotePricing; lines: QuoteLine[] } {
+  const chosen = lines.filter((l) => l.chosen);
+  if (lines.length > 1 && chosen.length > 0) return { pricing: combinedPricing(chosen.map((l) => l.pricing), Number(quote.depositPct)), lines: chosen };
+  return { pricing: quote.pricing, lines: lines.length > 1 ? lines.filter((l) => l.recommended) : [...lines] };
+}
+
 function withTax(price: string, taxPct: number): string {
   return money(price).plus(percentOf(price, taxPct)).toFixed(2);
 }
@@ -281,14 +291,15 @@ export async function getQuote(id: number, transaction?: Transaction): Promise<Q
   await lapseCheckouts(id, transaction);
   const { quote: q, estimate, customer } = await load(id, transaction);
   const payments = await Payment.findAll({ where: { quoteId: id }, order: [['id', 'ASC']], transaction });
+  const lineRows = await linesOf(id, transaction);
   return {
     ...summary(q, estimate, customer, await revisionNumber(q.revisionId, transaction)),
-    lines: await lineDtos(await linesOf(id, transaction), transaction),
+    lines: await lineDtos(lineRows, transaction),
     message: q.message,
     discountPct: Number(q.discountPct),
     depositPct: Number(q.depositPct),
     extras: q.extras,
-    pricing: q.pricing,
+    pricing: shownPricing(q, lineRows).pricing,
     acceptedName: q.acceptedName,
     acceptedIp: q.acceptedIp,
     acceptedExtras: q.acceptedExtras,
@@ -724,9 +735,7 @@ export async function buildDocument(quoteId: number, uploadsDir: string, transac
   if (!revision) throw new HttpProblem(500, 'quote_without_revision', 'Quote has no revision');
   const lines = await linesOf(quote.id, transaction);
   // Several lines: the price shown is the recommended choice's until accepted, then the customer's choice.
-  const chosen = lines.filter((l) => l.chosen);
-  const priced = lines.length > 1 && chosen.length > 0 ? chosen : lines.filter((l) => l.recommended);
-  const pricing = lines.length > 1 && chosen.length > 0 ? combinedPricing(chosen.map((l) => l.pricing), Number(quote.depositPct)) : quote.pricing;
+  const { pricing, lines: priced } = shownPricing(quote, lines);
   const revisions = lines.length > 1 ? await EstimateRevision.findAll({ where: { id: lines.map((l) => l.revisionId) }, transaction }) : [];
   const priceHours = lines.length > 1 ? priced.reduce((t, l) => t + (revisions.find((r) => r.id === l.revisionId)?.result.totals.labourHours ?? 0), 0) : undefined;
   return documentFor({

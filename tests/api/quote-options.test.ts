@@ -139,6 +139,11 @@ describe('a quote of two pieces with an option group', () => {
     expect(accepted.body.lines.map((l: { chosen: boolean }) => l.chosen)).toEqual(quote.lines.map((l) => chosen.includes(l.id)));
     const staff = (await sales.agent.get(`/api/quotes/${quote.id}`).expect(200)).body as QuoteDetail;
     expect(staff).toMatchObject({ state: 'accepted', acceptedTotal: expected.total, acceptedDeposit: expected.deposit });
+    // The price shown from now on is the chosen lines', on staff screens and the customer's page alike.
+    const chosenTotal = ((cents(chosenUpright.total) + cents(table.total)) / 100).toFixed(2);
+    expect(staff.pricing.total).toBe(chosenTotal);
+    expect(accepted.body.pricing.total).toBe(chosenTotal);
+    expect(accepted.body.pricing.lines.reduce((t: number, l: { amount: string }) => t + cents(l.amount), 0)).toBe(cents(chosenTotal));
     // The chosen estimates are accepted; the option not taken is not.
     const other = quote.lines[1 - option]!;
     expect((await Estimate.findByPk(chosenUpright.estimate.id))!.state).toBe('accepted');

@@ -69,11 +69,11 @@ describe('a quote for the whole household', () => {
     await expect.poll(() => lines.getByRole('button', { name: 'Add another estimate' }).isEnabled()).toBe(true);
     await lines.getByRole('button', { name: 'Add another estimate' }).click();
     await form.getByLabel('Line 2: estimate').selectOption(String(light));
-    await form.getByLabel('Line 2: piece').selectOption('1');
+    await form.getByLabel('Line 2: piece', { exact: true }).selectOption('1');
     await form.getByLabel('Line 2: option name').fill('Re-body and refresh');
     await lines.getByRole('button', { name: 'Add another estimate' }).click();
     await form.getByLabel('Line 3: estimate').selectOption(String(tableEstimate));
-    await form.getByLabel('Line 3: piece').selectOption('2');
+    await form.getByLabel('Line 3: piece', { exact: true }).selectOption('2');
     await form.getByLabel('Line 3: option name').fill('Full repolish');
     await form.getByRole('button', { name: 'Prepare the quote' }).click();
     const prepared = page.getByTestId('prepared-quote');
