@@ -4,12 +4,12 @@ import { associateEstimates, Customer, Estimate, EstimateRevision, Piece, PieceP
 import { associateCatalog, FinishingSystem, LabourRate, Material, MaterialPack, PackPrice, Species } from './catalog';
 import { PriceFilePreview } from './price-file-preview';
 import { associatePlanning, Job, JobSession, MaterialStock, Polisher } from './planning';
-import { associateQuotes, OutboxMessage, Payment, PaymentEvent, Quote } from './quotes';
+import { associateQuotes, OutboxMessage, Payment, PaymentEvent, Quote, QuoteLine } from './quotes';
 import { User } from './user';
 import { Workshop } from './workshop';
 
 export { Customer, Estimate, EstimateRevision, Piece, PiecePhoto };
-export { OutboxMessage, Payment, PaymentEvent, Quote };
+export { OutboxMessage, Payment, PaymentEvent, Quote, QuoteLine };
 export { Job, JobSession, MaterialStock, Polisher };
 export { AuditEntry, FinishingSystem, LabourRate, Material, MaterialPack, PackPrice, PriceFilePreview, Species, User, Workshop };
 
@@ -19,7 +19,7 @@ let boundTo: Sequelize | undefined;
 export function initModels(sequelize: Sequelize): void {
   if (boundTo === sequelize) return;
   if (boundTo) throw new Error('models are already bound to another connection');
-  for (const model of [User, Workshop, AuditEntry, Species, FinishingSystem, Material, MaterialPack, PackPrice, LabourRate, PriceFilePreview, Customer, Piece, PiecePhoto, Estimate, EstimateRevision, Quote, OutboxMessage, Payment, PaymentEvent, Polisher, Job, JobSession, MaterialStock]) {
+  for (const model of [User, Workshop, AuditEntry, Species, FinishingSystem, Material, MaterialPack, PackPrice, LabourRate, PriceFilePreview, Customer, Piece, PiecePhoto, Estimate, EstimateRevision, Quote, QuoteLine, OutboxMessage, Payment, PaymentEvent, Polisher, Job, JobSession, MaterialStock]) {
     model.initModel(sequelize);
   }
   associateCatalog();

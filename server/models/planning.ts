@@ -52,6 +52,7 @@ export class Job extends Model<InferAttributes<Job>, InferCreationAttributes<Job
   declare id: CreationOptional<number>;
   declare number: string;
   declare quoteId: number;
+  declare quoteLineId: number;
   declare estimateId: number;
   declare revisionId: number;
   declare customerId: number;
@@ -82,6 +83,7 @@ export class Job extends Model<InferAttributes<Job>, InferCreationAttributes<Job
         id: { type: DataTypes.INTEGER, primaryKey: true, autoIncrement: true },
         number: { type: DataTypes.STRING(20), allowNull: false, unique: true },
         quoteId: { type: DataTypes.INTEGER, allowNull: false },
+        quoteLineId: { type: DataTypes.INTEGER, allowNull: false },
         estimateId: { type: DataTypes.INTEGER, allowNull: false },
         revisionId: { type: DataTypes.INTEGER, allowNull: false },
         customerId: { type: DataTypes.INTEGER, allowNull: false },

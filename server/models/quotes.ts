@@ -84,6 +84,48 @@ export class Quote extends Model<InferAttributes<Quote>, InferCreationAttributes
   }
 }
 
+/** One priced estimate revision on a quote; lines sharing an option group are alternatives for one piece. */
+export class QuoteLine extends Model<InferAttributes<QuoteLine>, InferCreationAttributes<QuoteLine>> {
+  declare id: CreationOptional<number>;
+  declare quoteId: number;
+  declare position: number;
+  declare optionGroup: number;
+  declare groupOptional: boolean;
+  declare label: string;
+  declare recommended: boolean;
+  declare estimateId: number;
+  declare pieceId: number;
+  declare revisionId: number;
+  declare pricing: QuotePricing;
+  declare total: string;
+  declare chosen: boolean | null;
+  declare agreed: CreationOptional<boolean>;
+  declare createdAt: CreationOptional<Date>;
+
+  static initModel(sequelize: Sequelize): void {
+    QuoteLine.init(
+      {
+        id: { type: DataTypes.INTEGER, primaryKey: true, autoIncrement: true },
+        quoteId: { type: DataTypes.INTEGER, allowNull: false },
+        position: { type: DataTypes.INTEGER, allowNull: false },
+        optionGroup: { type: DataTypes.INTEGER, allowNull: false },
+        groupOptional: { type: DataTypes.BOOLEAN, allowNull: false, defaultValue: false },
+        label: { type: DataTypes.STRING(120), allowNull: false, defaultValue: '' },
+        recommended: { type: DataTypes.BOOLEAN, allowNull: false, defaultValue: true },
+        estimateId: { type: DataTypes.INTEGER, allowNull: false },
+        pieceId: { type: DataTypes.INTEGER, allowNull: false },
+        revisionId: { type: DataTypes.INTEGER, allowNull: false },
+        pricing: { type: DataTypes.JSONB, allowNull: false },
+        total: { type: DataTypes.DECIMAL(14, 2), allowNull: false },
+        chosen: { type: DataTypes.BOOLEAN, allowNull: true },
+        agreed: { type: DataTypes.BOOLEAN, allowNull: false, defaultValue: false },
+        createdAt: DataTypes.DATE,
+      },
+      { sequelize, tableName: 'quote_lines', underscored: true, updatedAt: false },
+    );
+  }
+}
+
 export class OutboxMessage extends Model<InferAttributes<OutboxMessage>, InferCreationAttributes<OutboxMessage>> {
   declare id: CreationOptional<number>;
   declare quoteId: number | null;

@@ -22,6 +22,12 @@ export interface AcceptanceRecord {
   quotedTotal: string;
   extrasTaken: { label: string; hours: number; price: string }[];
   extrasDeclined: string[];
+  /**
+   * A quote of several pieces or with options: the work chosen, piece by piece, and the options not taken. The quoted
+   * total above is then the sum of the chosen lines.
+   */
+  choices?: { piece: string; option: string; hours: number; total: string }[];
+  optionsDeclined?: string[];
   agreedTotal: string;
   depositPct: number;
   deposit: string;
@@ -83,7 +89,9 @@ export async function renderAcceptancePdf(r: AcceptanceRecord): Promise<Buffer> 
   flow.gap(20);
 
   flow.heading('What was agreed', 120);
-  const rows: TableRow[] = [[`The finishing work as quoted, ${r.taxLabel || 'tax'} included`, '', money(r.quotedTotal)]];
+  const rows: TableRow[] = r.choices
+    ? r.choices.map((c): TableRow => [{ text: c.piece, style: STYLE.cellStrong, note: `${c.option}, ${r.taxLabel || 'tax'} included` }, formatHours(c.hours), money(c.total)])
+    : [[`The finishing work as quoted, ${r.taxLabel || 'tax'} included`, '', money(r.quotedTotal)]];
   for (const x of r.extrasTaken) rows.push([{ text: `Extra: ${x.label}`, style: STYLE.cellStrong }, formatHours(x.hours), money(x.price)]);
   drawTable(flow, {
     columns: [
@@ -99,6 +107,10 @@ export async function renderAcceptancePdf(r: AcceptanceRecord): Promise<Buffer> 
     ],
     footerStyle: STYLE.cellStrong,
   });
+  if (r.optionsDeclined && r.optionsDeclined.length > 0) {
+    flow.gap(6);
+    flow.paragraph(`Options offered and not chosen: ${r.optionsDeclined.join('; ')}.`, STYLE.smallItalic);
+  }
   if (r.extrasDeclined.length > 0) {
     flow.gap(6);
     flow.paragraph(`Extras offered and not taken: ${r.extrasDeclined.join(', ')}.`, STYLE.smallItalic);

@@ -55,10 +55,31 @@ export interface QuoteDocument {
     /** Once accepted: the extras taken and the agreed total (deposit and balance above are then on it). */
     agreed: { extras: { label: string; price: string }[]; total: string } | null;
   };
+  /**
+   * A quote of several pieces or with options: each line (an option for one piece), in the quote's order. The piece
+   * and work above are then the first line's; the price is for the recommended choice (or, once accepted, the
+   * customer's choice). Absent or of one line for a quote of one piece.
+   */
+  lines?: QuoteDocumentLine[];
   /** Optional extra work the customer may accept or not, priced separately (not in the total above). */
   extras: { label: string; description: string; hours: number; price: string }[];
   terms: string[];
   cautions: { code: string; severity: string; text: string }[];
   /** A sentence with the ventilation figure, e.g. "fresh air of at least 1 740 m³/h while polishing". */
   ventilationText: string;
+}
+
+export interface QuoteDocumentLine {
+  /** Lines with the same group are options for one piece. */
+  group: number;
+  groupOptional: boolean;
+  /** How many options the group offers. */
+  options: number;
+  label: string;
+  recommended: boolean;
+  /** Taken at acceptance (null before). */
+  chosen: boolean | null;
+  piece: QuoteDocument['piece'];
+  work: QuoteDocument['work'];
+  total: string;
 }

@@ -6,7 +6,7 @@
 import PDFDocument from 'pdfkit';
 import sharp from 'sharp';
 import { pdfJob } from '../services/image-jobs';
-import type { QuoteDocument } from './quote-document';
+import type { QuoteDocument, QuoteDocumentLine } from './quote-document';
 import { LORA, registerLora } from './pdf-fonts';
 import { formatDate, formatDays, formatHours, formatMoney, formatNumber, formatPercent, paragraphs, pdfText } from './pdf-format';
 import { Flow, INK, STYLE, drawTable, tableHeight, type TableRow, type TableSpec, type TextStyle } from './pdf-layout';
@@ -15,12 +15,15 @@ const MARGIN = { top: 66, bottom: 70, left: 56, right: 56 };
 
 /** Renders the quote; resolves with the PDF's bytes. */
 export async function renderQuotePdf(q: QuoteDocument): Promise<Buffer> {
-  const photo = q.piece.photo ? await preparePhoto(q.piece.photo) : null;
+  const several = (q.lines?.length ?? 0) > 1;
+  const photo = q.piece.photo && !several ? await preparePhoto(q.piece.photo) : null;
+  const linePhotos = several ? await Promise.all(q.lines!.map((l) => (l.piece.photo ? preparePhoto(l.piece.photo) : Promise.resolve(null)))) : [];
   // Laid out synchronously: one PDF at a time, so other requests are answered between them.
-  return pdfJob(() => layOut(q, photo));
+  return pdfJob(() => layOut(q, photo, linePhotos));
 }
 
-function layOut(q: QuoteDocument, photo: Photo | null): Promise<Buffer> {
+function layOut(q: QuoteDocument, photo: Photo | null, linePhotos: (Photo | null)[]): Promise<Buffer> {
+  const several = (q.lines?.length ?? 0) > 1;
   const doc = new PDFDocument({
     size: q.paperSize === 'Letter' ? 'LETTER' : 'A4',
     margins: { ...MARGIN },
@@ -29,7 +32,7 @@ function layOut(q: QuoteDocument, photo: Photo | null): Promise<Buffer> {
     info: {
       Title: pdfText(`Quote ${q.quote.number} for ${q.customer.name}`),
       Author: pdfText(q.workshop.name),
-      Subject: pdfText(`Quote for the French polishing of ${q.piece.description}`),
+      Subject: pdfText(`Quote for the French polishing of ${several ? [...new Set(q.lines!.map((l) => l.piece.description))].join(', ') : q.piece.description}`),
       Creator: 'Shellwright',
       Keywords: pdfText(`quote, ${q.quote.number}, ${q.quote.estimateNumber}`),
     },
@@ -49,7 +52,8 @@ function layOut(q: QuoteDocument, photo: Photo | null): Promise<Buffer> {
   drawMasthead(flow, q);
   drawParties(flow, q, photo);
   drawMessage(flow, q);
-  drawWork(flow, q);
+  if (several) drawLines(flow, q, linePhotos);
+  else drawWork(flow, q);
   drawPrice(flow, q);
   drawExtras(flow, q);
   drawTerms(flow, q);
@@ -162,9 +166,9 @@ function drawParties(flow: Flow, q: QuoteDocument, photo: Photo | null): void {
   if (q.customer.phone) y += flow.textAt(q.customer.phone, xs[0], y, widths[0], STYLE.small) + 1;
   let bottom = y;
 
-  // The piece.
+  // The piece (or, for several, the pieces by name: each is shown with its options below).
   y = top;
-  y += flow.label('The piece', xs[1], y, widths[1]) + 5;
+  y += flow.label(q.lines && q.lines.length > 1 ? 'The pieces' : 'The piece', xs[1], y, widths[1]) + 5;
   y += flow.textAt(q.piece.description, xs[1], y, widths[1], nameStyle) + 2;
   if (q.piece.kind) y += flow.textAt(q.piece.kind, xs[1], y, widths[1], { ...STYLE.bodyItalic, size: 9.2 }) + 5;
   const lw = 50;
@@ -222,7 +226,7 @@ function drawMessage(flow: Flow, q: QuoteDocument): void {
 // ---------------------------------------------------------------------------------------------------------------
 // 4. The work in plain words.
 
-function drawWork(flow: Flow, q: QuoteDocument): void {
+function drawWork(flow: Flow, q: QuoteDocument, title = 'The work'): void {
   const w = q.work;
   const systemStyle: TextStyle = { font: LORA.semibold, size: 12, color: INK.walnut, lineGap: 1 };
   const introWidth = Math.min(flow.width, 460);
@@ -235,7 +239,7 @@ function drawWork(flow: Flow, q: QuoteDocument): void {
     'that is why the piece stays with us longer than the hours of work alone would suggest.';
   // Heading, system, introduction and key figures stay together, with the first rows of the stages.
   const opening = 11 + flow.measure(w.systemName, systemStyle, flow.width) + 6 + flow.measure(intro, STYLE.body, introWidth) + 14 + FACTS_HEIGHT;
-  flow.heading('The work', opening + 16 + 80);
+  flow.heading(title, opening + 16 + 80);
 
   const sy = flow.y;
   flow.label('Finishing system', flow.left, sy, flow.width);
@@ -291,6 +295,51 @@ function drawWork(flow: Flow, q: QuoteDocument): void {
   else timing += ' That is an estimate: the dates are fixed when we book the work into the drying room, after the deposit is paid, and we confirm them to you then.';
   flow.paragraph(timing, STYLE.body, { width: Math.min(flow.width, 460) });
   flow.gap(26);
+}
+
+const LETTERS = 'ABCDEFGHIJKLMNOPQRSTUVWX';
+
+/**
+ * A quote of several pieces or with options: each piece under its own heading with its photo, then each option's
+ * work in plain words and its price; which option we recommend, and whether the piece may be left out.
+ */
+function drawLines(flow: Flow, q: QuoteDocument, photos: (Photo | null)[]): void {
+  const lines = q.lines!;
+  const groups = [...new Set(lines.map((l) => l.group))];
+  groups.forEach((g, gi) => {
+    const of = lines.map((l, i) => ({ l, photo: photos[i] ?? null })).filter((x) => x.l.group === g);
+    const first = of[0]!.l;
+    flow.heading(`Piece ${gi + 1}: ${first.piece.description}`, 180);
+    const photo = of.find((x) => x.photo)?.photo ?? null;
+    const intro =
+      of.length > 1
+        ? `We offer ${of.length} ways of doing this piece; you choose one on the quote page before accepting${first.groupOptional ? ', or leave the piece out' : ''}.`
+        : first.groupOptional
+          ? 'You may include this piece or leave it out when you accept.'
+          : '';
+    const y0 = flow.y;
+    const textW = photo ? flow.width * 0.62 : Math.min(flow.width, 460);
+    if (first.piece.kind) flow.paragraph(first.piece.kind, { ...STYLE.bodyItalic, size: 9.2 }, { width: textW, after: 4 });
+    if (intro) flow.paragraph(intro, STYLE.body, { width: textW, after: 6 });
+    if (photo) {
+      const w = flow.width * 0.32;
+      const boxH = 110;
+      const scale = Math.min(w / photo.width, boxH / photo.height);
+      const x = flow.right - w;
+      flow.doc.image(photo.data, x, y0, { width: photo.width * scale, height: photo.height * scale });
+      flow.y = Math.max(flow.y, y0 + photo.height * scale + 6);
+      if (first.piece.photoCaption) flow.paragraph(first.piece.photoCaption, STYLE.smallItalic, { width: w, indent: flow.width - w });
+    }
+    flow.gap(8);
+    of.forEach(({ l }, oi) => drawOption(flow, q, l, of.length > 1 ? `Option ${LETTERS[oi]}: ${l.label || l.work.systemName}` : l.label || 'The work'));
+  });
+}
+
+function drawOption(flow: Flow, q: QuoteDocument, l: QuoteDocumentLine, title: string): void {
+  const marks = [l.recommended && l.options > 1 ? 'recommended' : '', l.chosen === true ? 'your choice' : l.chosen === false ? 'not chosen' : ''].filter(Boolean);
+  drawWork(flow, { ...q, work: l.work }, marks.length ? `${title} (${marks.join(', ')})` : title);
+  flow.ensure(30);
+  flow.paragraph(`Price for ${l.options > 1 ? 'this option' : 'this piece'}: ${money(q, l.total)}, ${q.quote.taxLabel.trim() || 'tax'} included.`, { font: LORA.semibold, size: 11, color: INK.walnut }, { after: 18 });
 }
 
 const FACTS_HEIGHT = 46;
@@ -359,6 +408,12 @@ function drawPrice(flow: Flow, q: QuoteDocument): void {
   const whole = 40 + tableHeight(flow, table) + 4 + flow.measure(taxNote, STYLE.smallItalic, flow.width) + 14 + boxH;
   if (whole <= flow.pageBody) flow.ensure(whole);
   flow.heading('The price', 140);
+  if (q.lines && q.lines.length > 1) {
+    const which = q.lines.some((l) => l.chosen !== null)
+      ? 'The price of the options you chose, with each piece\'s work added together.'
+      : 'The price of the options we recommend, added together. Your total follows the options you choose on the quote page.';
+    flow.paragraph(which, STYLE.bodyItalic, { width: Math.min(flow.width, 460), after: 8 });
+  }
   drawTable(flow, table);
   flow.gap(4);
   flow.paragraph(taxNote, STYLE.smallItalic);

@@ -10,7 +10,7 @@ import { renderQuotePdf } from '../pdf/quote-pdf';
 import { renderAcceptancePdf } from '../pdf/acceptance-pdf';
 import { outboxDetail, outboxSummary, retryMessage } from '../services/mail';
 import { flaggedPayments, refundPayment } from '../services/payments';
-import { acceptanceRecordOf, buildDocument, createQuote, estimateDocument, getQuote, listQuotes, markSent, pipeline, sendQuote, withdrawQuote } from '../services/quotes';
+import { acceptanceRecordOf, buildDocument, createQuote, estimateDocument, getQuote, listQuotes, markSent, optionReport, pipeline, sendQuote, withdrawQuote } from '../services/quotes';
 import { OutboxMessage, Quote } from '../models';
 
 const IdParam = z.object({ id: IdSchema });
@@ -48,6 +48,10 @@ export function quoteRoutes(config: Config, sequelize: Sequelize, table: RouteIn
   });
   q.get('/pipeline', ALL, async (_req, res) => {
     res.json(await pipeline(sequelize));
+  });
+  /** How often customers take the lighter of the options offered for a piece. */
+  q.get('/options-report', SELL, async (_req, res) => {
+    res.json(await optionReport(sequelize));
   });
   q.get('/:id', ALL, async (req, res) => {
     res.json(await getQuote(parseOr400(IdParam, req.params).id));

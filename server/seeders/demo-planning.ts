@@ -11,7 +11,7 @@ import type { EstimateInput } from '@shared/schemas/calc';
 import type { JobStageKind } from '@shared/schemas/planning';
 import type { PieceKind } from '@shared/schemas/customers';
 import { CreateQuoteSchema } from '@shared/schemas/quotes';
-import { Customer, Estimate, Material, MaterialStock, Piece, Polisher, Quote, User } from '../models';
+import { Customer, Estimate, Material, MaterialStock, Piece, Polisher, Quote, QuoteLine, User } from '../models';
 import { createEstimate, setEstimateState } from '../services/estimates';
 import { bookJob, createJob, getJob, markSessionDone } from '../services/planning';
 import { addDays, localNow } from '../services/planning-context';
@@ -108,6 +108,7 @@ async function accepted(sequelize: Sequelize, job: DemoPlanned, users: { estimat
     { state: 'accepted', acceptedAt: new Date(), acceptedName: job.customer.name, acceptedIp: '127.0.0.1', acceptedExtras: [], acceptedTotal: quote.total, acceptedDeposit: quote.deposit, sentAt: new Date() },
     { where: { id: quote.id } },
   );
+  await QuoteLine.update({ chosen: true, agreed: true }, { where: { quoteId: quote.id } });
   await Estimate.update({ state: 'accepted' }, { where: { id: estimate.id } });
   return quote.id;
 }

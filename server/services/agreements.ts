@@ -5,18 +5,23 @@
 import { Op } from 'sequelize';
 import { agreedFigures } from '@shared/schemas/quotes';
 import type { EstimateAgreement } from '@shared/schemas/estimates';
-import { Quote } from '../models';
+import { Quote, QuoteLine } from '../models';
 
 export async function agreementsOf(estimateIds: readonly number[]): Promise<Map<number, EstimateAgreement>> {
   const out = new Map<number, EstimateAgreement>();
   if (estimateIds.length === 0) return out;
-  const quotes = await Quote.findAll({ where: { estimateId: { [Op.in]: [...estimateIds] }, state: { [Op.in]: ['accepted', 'deposit-paid'] } } });
-  for (const q of quotes) {
+  // The estimates a customer chose in an accepted quote: the quote's agreed figures (for a quote of several pieces,
+  // the figures of the whole agreement, which the estimate is part of).
+  const lines = await QuoteLine.findAll({ where: { estimateId: { [Op.in]: [...estimateIds] }, agreed: true } });
+  const quotes = await Quote.findAll({ where: { id: { [Op.in]: lines.map((l) => l.quoteId) }, state: { [Op.in]: ['accepted', 'deposit-paid'] } } });
+  for (const line of lines) {
+    const q = quotes.find((x) => x.id === line.quoteId);
+    if (!q) continue;
     if (q.acceptedTotal === null || q.acceptedDeposit === null) continue;
     const extras = agreedFigures({ total: Number(q.total).toFixed(2), depositPct: Number(q.depositPct), extras: q.extras }, q.acceptedExtras ?? []).extras;
     const total = Number(q.acceptedTotal).toFixed(2);
     const deposit = Number(q.acceptedDeposit).toFixed(2);
-    out.set(q.estimateId, {
+    out.set(line.estimateId, {
       quoteId: q.id,
       quoteNumber: q.number,
       total,

@@ -11,7 +11,7 @@ import { money } from '@shared/money';
 import type { FlaggedPayment, PaymentDto, PaymentFlag } from '@shared/schemas/quotes';
 import type { Config } from '../config';
 import { HttpProblem, problems } from '../http/problem';
-import { Customer, Estimate, Payment, PaymentEvent, Quote } from '../models';
+import { Customer, Estimate, Payment, PaymentEvent, Quote, QuoteLine } from '../models';
 import { audit } from './audit';
 
 /** How long a checkout stays open at the provider (the provider accepts 30 minutes to 24 hours). */
@@ -197,7 +197,9 @@ async function completed(session: Stripe.Checkout.Session, transaction: Transact
   }
   await payment.update({ ...base, flag: null, note: null }, { transaction });
   await quote.update({ state: 'deposit-paid', depositPaidAt: new Date() }, { transaction });
-  await Estimate.update({ state: 'deposit-paid' }, { where: { id: quote.estimateId }, transaction });
+  // The estimates of the lines the customer chose (a quote of one piece: its estimate).
+  const chosen = await QuoteLine.findAll({ where: { quoteId: quote.id, chosen: true }, attributes: ['estimateId'], transaction });
+  await Estimate.update({ state: 'deposit-paid' }, { where: { id: chosen.length ? chosen.map((l) => l.estimateId) : [quote.estimateId] }, transaction });
   await audit({ userId: null, action: 'quote.deposit_paid', entityType: 'quote', entityId: quote.id, after: { amountMinor: received, session: session.id } }, transaction);
   return { handled: true };
 }

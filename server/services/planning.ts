@@ -29,7 +29,7 @@ import {
   type UpdateJobInput,
 } from '@shared/schemas/planning';
 import { HttpProblem, problems } from '../http/problem';
-import { Customer, Estimate, EstimateRevision, Job, JobSession, Polisher, Quote, User } from '../models';
+import { Customer, Estimate, EstimateRevision, Job, JobSession, Polisher, Quote, QuoteLine, User } from '../models';
 import type { JobStage } from '../models/planning';
 import { audit } from './audit';
 import { agreedOf } from './quotes';
@@ -265,22 +265,35 @@ export async function createJob(sequelize: Sequelize, actorId: number, input: Cr
     if (!ACCEPTED.includes(quote.state)) {
       throw problems.conflict('quote_not_accepted', `Quote ${quote.number} is ${quote.state}: only an accepted quote becomes a job.`);
     }
-    const live = await Job.findOne({ where: { quoteId: quote.id, state: { [Op.ne]: 'cancelled' } }, transaction });
-    if (live) throw problems.conflict('job_exists', `Quote ${quote.number} is already job ${live.number}.`);
+    // One job a piece the customer chose: the line named, or the first chosen line not yet a job.
+    const chosen = await QuoteLine.findAll({ where: { quoteId: quote.id, chosen: true }, order: [['position', 'ASC']], transaction });
+    const live = await Job.findAll({ where: { quoteId: quote.id, state: { [Op.ne]: 'cancelled' } }, order: [['id', 'ASC']], transaction });
+    let line: QuoteLine | undefined;
+    if (input.quoteLineId !== undefined) {
+      line = chosen.find((l) => l.id === input.quoteLineId);
+      if (!line) throw problems.badRequest('unknown_line', `quoteLineId: not a line the customer chose in quote ${quote.number}`, 'quoteLineId');
+      const made = live.find((j) => j.quoteLineId === line!.id);
+      if (made) throw problems.conflict('job_exists', `That piece of quote ${quote.number} is already job ${made.number}.`);
+    } else {
+      line = chosen.find((l) => !live.some((j) => j.quoteLineId === l.id));
+      if (!line) throw problems.conflict('job_exists', `Quote ${quote.number} is already job ${live.map((j) => j.number).join(', ') || '(none chosen)'}.`);
+    }
     // One estimate, one job: the database's jobs_live_estimate index holds it too.
-    const sameWork = await Job.findOne({ where: { estimateId: quote.estimateId, state: { [Op.ne]: 'cancelled' } }, transaction });
+    const sameWork = await Job.findOne({ where: { estimateId: line.estimateId, state: { [Op.ne]: 'cancelled' } }, transaction });
     if (sameWork) throw problems.conflict('job_exists', `The work of quote ${quote.number} is already job ${sameWork.number}.`);
-    const estimate = await Estimate.findByPk(quote.estimateId, { transaction });
-    const revision = await EstimateRevision.findByPk(quote.revisionId, { transaction });
+    const estimate = await Estimate.findByPk(line.estimateId, { transaction });
+    const revision = await EstimateRevision.findByPk(line.revisionId, { transaction });
     if (!estimate || !revision) throw new HttpProblem(500, 'quote_without_revision', 'Quote has no revision');
     const result = revision.result;
-    // The extras the customer took come first (repairs before the finish goes on), then the quoted stages.
-    const extras = extraStages(agreedOf(quote)?.extras ?? []);
+    // The extras the customer took come first (repairs before the finish goes on), then the quoted stages. They go
+    // with the first piece chosen.
+    const extras = line.id === chosen[0]!.id ? extraStages(agreedOf(quote)?.extras ?? []) : [];
     const stages = [...extras.map((x) => x.stage), ...jobStages(result, revision.catalog)];
     const job = await Job.create(
       {
         number: await nextNumber(sequelize, transaction),
         quoteId: quote.id,
+        quoteLineId: line.id,
         estimateId: estimate.id,
         revisionId: revision.id,
         customerId: estimate.customerId,
@@ -678,38 +691,43 @@ export async function getBoard(q: { from?: string; weeks: number }): Promise<Pla
   };
 }
 
-/** Accepted quotes that are not a job yet, and jobs not yet booked. */
+/** The pieces chosen in accepted quotes that are not a job yet (one row a chosen line), and jobs not yet booked. */
 export async function readyToBook(): Promise<ReadyToBook> {
-  const quotes = await Quote.findAll({
+  const lines = await QuoteLine.findAll({
     where: {
-      state: { [Op.in]: ACCEPTED },
-      id: { [Op.notIn]: Quote.sequelize!.literal(`(SELECT quote_id FROM jobs WHERE state <> 'cancelled')`) },
+      chosen: true,
+      id: { [Op.notIn]: Quote.sequelize!.literal(`(SELECT quote_line_id FROM jobs WHERE state <> 'cancelled')`) },
+      quoteId: { [Op.in]: Quote.sequelize!.literal(`(SELECT id FROM quotes WHERE state IN ('accepted', 'deposit-paid'))`) },
     },
-    order: [['acceptedAt', 'ASC'], ['id', 'ASC']],
+    order: [['quoteId', 'ASC'], ['position', 'ASC']],
     limit: 200,
   });
-  const estimates = await Estimate.findAll({ where: { id: quotes.map((q) => q.estimateId) }, attributes: ['id', 'number', 'title', 'customerId'] });
+  const quotes = await Quote.findAll({ where: { id: lines.map((l) => l.quoteId) } });
+  const firstChosen = await QuoteLine.findAll({ where: { quoteId: quotes.map((q) => q.id), chosen: true }, attributes: ['id', 'quoteId', 'position'] });
+  const estimates = await Estimate.findAll({ where: { id: lines.map((l) => l.estimateId) }, attributes: ['id', 'number', 'title', 'customerId'] });
   const customers = await Customer.findAll({ where: { id: estimates.map((e) => e.customerId) }, attributes: ['id', 'name'] });
-  const revisions = await EstimateRevision.findAll({ where: { id: quotes.map((q) => q.revisionId) }, attributes: ['id', 'result'] });
+  const revisions = await EstimateRevision.findAll({ where: { id: lines.map((l) => l.revisionId) }, attributes: ['id', 'result'] });
   const unbooked = await listJobs('unbooked');
-  return {
-    quotes: quotes.map((q) => {
-      const e = estimates.find((x) => x.id === q.estimateId)!;
-      const r = revisions.find((x) => x.id === q.revisionId)!.result;
-      const extras = extraStages(agreedOf(q)?.extras ?? []);
-      return {
-        quoteId: q.id,
-        quoteNumber: q.number,
-        estimateId: e.id,
-        estimateNumber: e.number,
-        title: e.title,
-        customer: { id: e.customerId, name: customers.find((c) => c.id === e.customerId)?.name ?? '' },
-        acceptedAt: q.acceptedAt?.toISOString() ?? null,
-        labourHours: round(r.totals.labourHours + extras.reduce((t, x) => t + x.stage.labourHours, 0)),
-        sessions: r.calendar.sessions.length + extras.reduce((t, x) => t + x.sessions.length, 0),
-        calendarDays: r.totals.calendarDays,
-      };
-    }),
-    jobs: unbooked,
-  };
+  const rows = lines.map((l) => {
+    const q = quotes.find((x) => x.id === l.quoteId)!;
+    const e = estimates.find((x) => x.id === l.estimateId)!;
+    const r = revisions.find((x) => x.id === l.revisionId)!.result;
+    const first = firstChosen.filter((x) => x.quoteId === q.id).sort((a, b) => a.position - b.position)[0];
+    const extras = first?.id === l.id ? extraStages(agreedOf(q)?.extras ?? []) : [];
+    return {
+      quoteId: q.id,
+      quoteLineId: l.id,
+      quoteNumber: q.number,
+      estimateId: e.id,
+      estimateNumber: e.number,
+      title: e.title,
+      customer: { id: e.customerId, name: customers.find((c) => c.id === e.customerId)?.name ?? '' },
+      acceptedAt: q.acceptedAt?.toISOString() ?? null,
+      labourHours: round(r.totals.labourHours + extras.reduce((t, x) => t + x.stage.labourHours, 0)),
+      sessions: r.calendar.sessions.length + extras.reduce((t, x) => t + x.sessions.length, 0),
+      calendarDays: r.totals.calendarDays,
+    };
+  });
+  rows.sort((a, b) => (a.acceptedAt ?? '').localeCompare(b.acceptedAt ?? '') || a.quoteId - b.quoteId);
+  return { quotes: rows, jobs: unbooked };
 }

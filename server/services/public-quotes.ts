@@ -5,27 +5,29 @@
 import { Op, UniqueConstraintError, type Sequelize, type Transaction } from 'sequelize';
 import type { z } from 'zod';
 import { customerCautions } from '@shared/calc';
-import { QUOTE_TERMS, customerPriceLines, roundHoursForCustomer, type AcceptQuoteSchema, type PublicQuote } from '@shared/schemas/quotes';
+import { QUOTE_TERMS, choiceFigures, choiceProblem, customerPriceLines, onlyChoice, roundHoursForCustomer, type AcceptQuoteSchema, type ChoiceLine, type PublicQuote, type PublicQuoteLine } from '@shared/schemas/quotes';
 import { formatArea } from '@shared/units';
 import type { Config } from '../config';
 import { HttpProblem } from '../http/problem';
 import type { AcceptanceRecord } from '../pdf/acceptance-pdf';
-import { Customer, Estimate, EstimateRevision, Payment, Piece, Quote, Workshop } from '../models';
+import { Customer, Estimate, EstimateRevision, Payment, Piece, Quote, QuoteLine, Workshop } from '../models';
 import { audit } from './audit';
 import { loadSettings } from './catalog';
 import { cancelCheckout, lapseCheckouts, openCheckout } from './payments';
 import {
   acceptanceRecordOf,
-  acceptedAmounts,
   agreedOf,
-  agreementOf,
   alreadyAgreed,
   bookedSchedule,
   buildDocument,
   expireQuotes,
   hashToken,
+  linesOf,
   lockQuote,
+  openQuotesNaming,
+  pieceAgreement,
   quoteLink,
+  shownPricing,
   tokenSigned,
 } from './quotes';
 
@@ -43,7 +45,7 @@ async function byToken(config: Config, token: string, transaction?: Transaction)
 }
 
 /** The link's quote locked for an answer, its estimate locked first (see lockQuote). */
-async function lockByToken(config: Config, token: string, transaction: Transaction): Promise<{ quote: Quote; estimate: Estimate }> {
+async function lockByToken(config: Config, token: string, transaction: Transaction): Promise<Awaited<ReturnType<typeof lockQuote>>> {
   const found = await byToken(config, token, transaction);
   const locked = await lockQuote(found.id, transaction);
   if (locked.quote.tokenHash !== hashToken(token)) throw linkInvalid();
@@ -87,18 +89,25 @@ export async function viewQuote(config: Config, token: string): Promise<PublicQu
     loadSettings(),
   ]);
   const r = revision!.result;
+  const lineRows = await linesOf(quote.id);
+  const lines = await publicLines(lineRows, settings.units);
   const [schedule, lastPayment, openPayment] = await Promise.all([
     bookedSchedule(quote.id),
     Payment.findOne({ where: { quoteId: quote.id, flag: null }, order: [['id', 'DESC']] }),
     Payment.findOne({ where: { quoteId: quote.id, status: 'pending' } }),
   ]);
+  // The quote's own price in the customer's lines: for several lines, the recommended choice with their hours.
+  const shown = shownPricing(quote, lineRows);
+  const shownHours = lineRows.length > 1 ? lines.filter((l) => shown.lines.some((x) => x.id === l.id)).reduce((t, l) => t + l.hoursExact, 0) : r.totals.labourHours;
   return {
+    lines: lines.map(({ hoursExact: _, ...l }) => l),
+    recommended: lines.filter((l) => l.recommended).map((l) => l.id),
     number: quote.number,
     state: quote.state,
     closed: closedReason(quote),
     workshop: { name: workshop!.name, email: workshop!.email, phone: workshop!.phone, address: workshop!.address },
     customerName: customer!.name,
-    piece: piece?.description ?? estimate.title,
+    piece: lines.length > 1 ? [...new Set(lines.map((l) => l.piece))].join(' and ') : (piece?.description ?? estimate.title),
     message: quote.message,
     validUntil: quote.validUntil,
     work: {
@@ -112,7 +121,7 @@ export async function viewQuote(config: Config, token: string): Promise<PublicQu
         .map((s) => ({ name: s.name, sessions: s.sessions, coats: s.coats > 0 ? s.coats : null, hours: roundHoursForCustomer(s.labourHours) })),
     },
     // The customer's lines only: the labour rate, overhead and margin stay on staff screens.
-    pricing: { ...quote.pricing, lines: customerPriceLines(quote.pricing, r.totals.labourHours) },
+    pricing: { ...shown.pricing, lines: customerPriceLines(shown.pricing, shownHours) },
     schedule: { booked: schedule !== null, start: schedule?.start ?? null, ready: schedule?.ready ?? null, calendarDays: r.totals.calendarDays },
     agreed: agreedOf(quote),
     checkout: { open: openPayment !== null, lastStatus: lastPayment?.status ?? null },
@@ -130,53 +139,118 @@ export async function viewQuote(config: Config, token: string): Promise<PublicQu
   };
 }
 
+/** The quote's lines as the customer reads them (plain work, customer price lines), with each line's exact hours. */
+async function publicLines(rows: readonly QuoteLine[], units: Parameters<typeof formatArea>[1]): Promise<(PublicQuoteLine & { hoursExact: number })[]> {
+  const [estimates, revisions, pieces] = await Promise.all([
+    Estimate.findAll({ where: { id: rows.map((l) => l.estimateId) }, attributes: ['id', 'title'] }),
+    EstimateRevision.findAll({ where: { id: rows.map((l) => l.revisionId) }, attributes: ['id', 'result', 'catalog'] }),
+    Piece.findAll({ where: { id: rows.map((l) => l.pieceId) }, attributes: ['id', 'description'] }),
+  ]);
+  return rows.map((l) => {
+    const rev = revisions.find((x) => x.id === l.revisionId)!;
+    const r = rev.result;
+    return {
+      id: l.id,
+      group: l.optionGroup,
+      groupOptional: l.groupOptional,
+      label: l.label,
+      recommended: l.recommended,
+      piece: pieces.find((x) => x.id === l.pieceId)?.description ?? estimates.find((x) => x.id === l.estimateId)?.title ?? '',
+      work: {
+        systemName: rev.catalog.systems.find((s) => s.key === r.system)?.name ?? r.system,
+        coats: r.totals.coats,
+        labourHours: roundHoursForCustomer(r.totals.labourHours),
+        calendarDays: r.totals.calendarDays,
+        areaText: formatArea(r.totals.areaM2, units),
+        stages: r.stages
+          .filter((s) => s.sessions > 0)
+          .map((s) => ({ name: s.name, sessions: s.sessions, coats: s.coats > 0 ? s.coats : null, hours: roundHoursForCustomer(s.labourHours) })),
+      },
+      pricing: { ...l.pricing, lines: customerPriceLines(l.pricing, r.totals.labourHours) },
+      total: Number(l.total).toFixed(2),
+      chosen: l.chosen,
+      hoursExact: r.totals.labourHours,
+    };
+  });
+}
+
+export function choiceLines(rows: readonly QuoteLine[]): ChoiceLine[] {
+  return rows.map((l) => ({ id: l.id, group: l.optionGroup, groupOptional: l.groupOptional, total: Number(l.total).toFixed(2) }));
+}
+
 export async function publicPdf(config: Config, token: string): Promise<{ number: string; doc: Awaited<ReturnType<typeof buildDocument>> }> {
   const quote = await byToken(config, token);
   return { number: quote.number, doc: await buildDocument(quote.id, config.uploadsDir) };
 }
 
 /**
- * The customer accepts, with the extras they ticked. Under the estimate's row lock: no other quote for the estimate
- * may be accepted already (409 naming it), the other open quotes are withdrawn, and the database's one-agreement
- * index refuses a second acceptance whatever the interleaving.
+ * The customer accepts, with the lines they chose (one a group; none where a group is optional) and the extras they
+ * ticked. Under the rows of every estimate the quote names, then the quote's: none of the chosen pieces may be agreed
+ * already (409 naming the quote), the other open quotes naming a chosen piece are withdrawn, and the database's
+ * one-agreement index on the chosen lines' pieces refuses a second acceptance whatever the interleaving.
  */
 export async function acceptQuote(sequelize: Sequelize, config: Config, token: string, input: AcceptInput, ip: string): Promise<PublicQuote> {
   try {
     await sequelize.transaction(async (transaction) => {
-      const { quote, estimate } = await lockByToken(config, token, transaction);
+      const { quote, estimates, lines } = await lockByToken(config, token, transaction);
       if (closedReason(quote)) throw closedProblem(quote);
-      const agreed = await agreementOf(estimate.id, transaction);
-      if (agreed && agreed.id !== quote.id) throw alreadyAgreed(estimate.number, agreed);
+      const choice = choiceLines(lines);
+      const chosenIds = input.lines ?? onlyChoice(choice);
+      if (!chosenIds) throw new HttpProblem(400, 'choice_required', 'Choose the options', 'lines: choose one option for each piece before accepting', { field: 'lines' });
+      const wrong = choiceProblem(choice, chosenIds);
+      if (wrong) throw new HttpProblem(400, 'invalid_choice', 'Invalid choice', `lines: ${wrong}`, { field: 'lines' });
+      if (chosenIds.length === 0) {
+        throw new HttpProblem(400, 'nothing_chosen', 'Nothing chosen', 'lines: choose at least one piece of work to accept the quote, or decline it', { field: 'lines' });
+      }
+      const chosen = lines.filter((l) => chosenIds.includes(l.id));
+      const agreed = await pieceAgreement(chosen.map((l) => l.pieceId), transaction);
+      if (agreed && agreed.quote.id !== quote.id) throw await alreadyAgreed(agreed, lines.map((l) => l.estimateId), transaction);
       const unknown = input.extras.filter((id) => !quote.extras.some((x) => x.id === id));
       if (unknown.length) throw new HttpProblem(400, 'unknown_extra', 'Unknown extra', `extras: ${unknown.join(', ')} is not offered on this quote`, { field: 'extras' });
       const extras = quote.extras.filter((x) => input.extras.includes(x.id)).map((x) => x.id);
-      const amounts = acceptedAmounts(quote, extras);
+      const amounts = choiceFigures({ lines: choice, depositPct: Number(quote.depositPct), extras: quote.extras }, chosenIds, extras);
       await quote.update(
         { state: 'accepted', acceptedAt: new Date(), acceptedName: input.name, acceptedIp: ip, acceptedExtras: extras, acceptedTotal: amounts.total, acceptedDeposit: amounts.deposit },
         { transaction },
       );
+      for (const l of lines) {
+        const taken = chosenIds.includes(l.id);
+        await l.update({ chosen: taken, agreed: taken }, { transaction });
+      }
+      // Other open quotes naming a piece now agreed can no longer be answered.
+      const pieces = chosen.map((l) => l.pieceId);
+      const others = pieces.length
+        ? await QuoteLine.findAll({ where: { pieceId: { [Op.in]: pieces }, quoteId: { [Op.ne]: quote.id } }, attributes: ['quoteId'], transaction })
+        : [];
       const [, withdrawn] = await Quote.update(
         { state: 'withdrawn', revoked: true },
-        { where: { estimateId: estimate.id, id: { [Op.ne]: quote.id }, state: { [Op.in]: ['draft', 'quoted', 'viewed'] } }, transaction, returning: ['id', 'number'] },
+        { where: { id: { [Op.in]: [...new Set(others.map((o) => o.quoteId))] }, state: { [Op.in]: ['draft', 'quoted', 'viewed'] } }, transaction, returning: ['id', 'number'] },
       );
-      await estimate.update({ state: 'accepted' }, { transaction });
+      for (const estimate of estimates) {
+        if (chosen.some((l) => l.estimateId === estimate.id)) await estimate.update({ state: 'accepted' }, { transaction });
+        else if (['quoted', 'viewed'].includes(estimate.state) && (await openQuotesNaming(estimate.id, quote.id, transaction)) === 0) {
+          // An option not taken, with no other quote open for it.
+          await estimate.update({ state: 'declined' }, { transaction });
+        }
+      }
       await audit(
         {
           userId: null,
           action: 'quote.accept',
           entityType: 'quote',
           entityId: quote.id,
-          after: { name: input.name, ip, extras, total: amounts.total, deposit: amounts.deposit, withdrawn: (withdrawn as unknown as Quote[]).map((q) => q.number) },
+          after: { name: input.name, ip, lines: chosen.map((l) => l.position), extras, total: amounts.total, deposit: amounts.deposit, withdrawn: (withdrawn as unknown as Quote[]).map((q) => q.number) },
         },
         transaction,
       );
     });
   } catch (err) {
     if (err instanceof UniqueConstraintError) {
+      // Another quote's acceptance of one of these pieces committed first.
       const quote = await byToken(config, token);
-      const agreed = await agreementOf(quote.estimateId);
-      const estimate = await Estimate.findByPk(quote.estimateId);
-      if (agreed && estimate) throw alreadyAgreed(estimate.number, agreed);
+      const lines = await linesOf(quote.id);
+      const agreed = await pieceAgreement(lines.map((l) => l.pieceId));
+      if (agreed && agreed.quote.id !== quote.id) throw await alreadyAgreed(agreed, lines.map((l) => l.estimateId));
     }
     throw err;
   }
@@ -185,12 +259,13 @@ export async function acceptQuote(sequelize: Sequelize, config: Config, token: s
 
 export async function declineQuote(sequelize: Sequelize, config: Config, token: string, reason: string, ip: string): Promise<PublicQuote> {
   await sequelize.transaction(async (transaction) => {
-    const { quote, estimate } = await lockByToken(config, token, transaction);
+    const { quote, estimates } = await lockByToken(config, token, transaction);
     if (closedReason(quote)) throw closedProblem(quote);
     await quote.update({ state: 'declined', declinedAt: new Date(), declineReason: reason || null }, { transaction });
-    // The estimate is declined only when no other quote for it is still open.
-    const open = await Quote.count({ where: { estimateId: estimate.id, id: { [Op.ne]: quote.id }, state: { [Op.in]: ['quoted', 'viewed'] } }, transaction });
-    if (open === 0) await estimate.update({ state: 'declined' }, { transaction });
+    // An estimate is declined only when no other quote naming it is still open.
+    for (const estimate of estimates) {
+      if ((await openQuotesNaming(estimate.id, quote.id, transaction)) === 0) await estimate.update({ state: 'declined' }, { transaction });
+    }
     await audit({ userId: null, action: 'quote.decline', entityType: 'quote', entityId: quote.id, after: { reason, ip } }, transaction);
   });
   return viewQuote(config, token);

@@ -59,6 +59,8 @@ const dateOrDateTime = dateOrDateTimeSchema({ ...DATE_RULES.planning, example: '
 export const CreateJobSchema = z
   .object({
     quoteId: IdSchema,
+    /** The chosen line (piece) of a quote of several pieces; the first chosen line not yet a job when left out. */
+    quoteLineId: IdSchema.optional(),
     /** Bays taken when the room counts bays; 1 when left out. */
     bays: z.number({ message: 'must be a whole number of bays' }).int().min(1).max(50).optional(),
     /** Rack area taken, m², when the room counts area; the piece's largest face when left out. */
@@ -279,6 +281,8 @@ export interface SessionDoneResult {
 
 export interface ReadyQuote {
   quoteId: number;
+  /** The chosen line (piece) this job would be made from. */
+  quoteLineId: number;
   quoteNumber: string;
   estimateId: number;
   estimateNumber: string;

@@ -39,10 +39,32 @@ export interface QuoteExtra {
   priceWithTax: string;
 }
 
+/**
+ * One line of a quote of several pieces: an estimate (of one of the customer's pieces) at a revision. Lines with the
+ * same group number are options for one piece; one of them is recommended; an optional group may be left out.
+ */
+export const QuoteLineInputSchema = z
+  .object({
+    estimateId: z.number({ message: 'must be an estimate id' }).int().positive().max(2_147_483_647),
+    /** The estimate's revision; its current one when left out. */
+    revision: z.number().int().min(1).optional(),
+    /** Lines sharing a group number are alternatives; a line without one stands alone. */
+    group: z.number({ message: 'must be a group number' }).int().min(1).max(24).optional(),
+    /** The option's name as the customer reads it ("Full repolish"). */
+    label: z.string().trim().max(120).default(''),
+    recommended: z.boolean().optional(),
+    /** The customer may take none of this line's group. */
+    optional: z.boolean().optional(),
+  })
+  .strict();
+export type QuoteLineInput = z.input<typeof QuoteLineInputSchema>;
+
 export const CreateQuoteSchema = z
   .object({
     /** The estimate's revision to quote; the current one when left out. */
     revision: z.number().int().min(1).optional(),
+    /** Several pieces and options; the estimate of the address alone (at `revision`) when left out. */
+    lines: z.array(QuoteLineInputSchema).min(1, { message: 'give at least one line' }).max(12).optional(),
     message: z.string().trim().max(4000).default(''),
     extras: z.array(QuoteExtraInputSchema).max(12).default([]),
     /** The estimate's own discount when left out. */
@@ -92,6 +114,42 @@ export function agreedFigures(q: { total: string; depositPct: number; extras: Qu
     extras: chosen,
     extraHours: Math.round(chosen.reduce((t, x) => t + x.hours, 0) * 100) / 100,
   };
+}
+
+/** A quote line's place among the options, as the choice rules need it. */
+export interface ChoiceLine {
+  id: number;
+  group: number;
+  groupOptional: boolean;
+  total: string;
+}
+
+/** Why a choice of lines is not a valid answer (null when it is): exactly one line a group, none only where optional. */
+export function choiceProblem(lines: readonly ChoiceLine[], chosen: readonly number[]): string | null {
+  const unknown = chosen.filter((id) => !lines.some((l) => l.id === id));
+  if (unknown.length) return `${unknown.join(', ')} is not a line of this quote`;
+  if (new Set(chosen).size !== chosen.length) return 'a line is chosen twice';
+  const groups = [...new Set(lines.map((l) => l.group))];
+  for (const g of groups) {
+    const of = lines.filter((l) => l.group === g);
+    const taken = of.filter((l) => chosen.includes(l.id)).length;
+    if (taken > 1) return `choose one option for piece ${g}, not ${taken}`;
+    if (taken === 0 && !of[0]!.groupOptional) return `choose one option for piece ${g}`;
+  }
+  return null;
+}
+
+/** The lines the customer takes when nothing has to be chosen (every group one line, none optional); else null. */
+export function onlyChoice(lines: readonly ChoiceLine[]): number[] | null {
+  const groups = new Set(lines.map((l) => l.group));
+  if (groups.size !== lines.length || lines.some((l) => l.groupOptional)) return null;
+  return lines.map((l) => l.id);
+}
+
+/** The total, deposit and balance for a choice of lines and extras (decimal to the cent, as at acceptance). */
+export function choiceFigures(q: { lines: readonly ChoiceLine[]; depositPct: number; extras: QuoteExtra[] }, chosen: readonly number[], extraIds: readonly string[]): AgreedFigures {
+  const cents = q.lines.filter((l) => chosen.includes(l.id)).reduce((t, l) => t + Math.round(Number(l.total) * 100), 0);
+  return agreedFigures({ total: (cents / 100).toFixed(2), depositPct: q.depositPct, extras: q.extras }, extraIds);
 }
 
 /** Hours as the customer reads them: quarters under an hour, halves under ten, whole hours above. */
@@ -176,7 +234,25 @@ export interface QuoteSummary {
   updatedAt: string;
 }
 
+/** A quote line on staff screens: the full build-up of its price. */
+export interface QuoteLineDto {
+  id: number;
+  position: number;
+  group: number;
+  groupOptional: boolean;
+  label: string;
+  recommended: boolean;
+  estimate: { id: number; number: string; title: string; revision: number };
+  piece: { id: number; description: string };
+  pricing: QuotePricing;
+  total: string;
+  labourHours: number;
+  /** Taken at acceptance (null before). */
+  chosen: boolean | null;
+}
+
 export interface QuoteDetail extends QuoteSummary {
+  lines: QuoteLineDto[];
   message: string;
   discountPct: number;
   depositPct: number;
@@ -198,8 +274,26 @@ export interface QuoteDetail extends QuoteSummary {
   delivery?: { delivered: boolean; outboxId: number; error: string | null };
 }
 
+/** A line as the customer reads it: the piece, the option, the work in plain words and its price. */
+export interface PublicQuoteLine {
+  id: number;
+  group: number;
+  groupOptional: boolean;
+  label: string;
+  recommended: boolean;
+  piece: string;
+  work: PublicQuote['work'];
+  pricing: QuotePricing;
+  total: string;
+  chosen: boolean | null;
+}
+
 /** What the customer sees through their link. */
 export interface PublicQuote {
+  /** The pieces and options; one line for a quote of one piece. */
+  lines: PublicQuoteLine[];
+  /** The quote's total for the recommended choice (the quote's `pricing.total`). */
+  recommended: number[];
   number: string;
   state: QuoteState;
   /** Why the link cannot be acted on, if so. */
@@ -244,6 +338,8 @@ export const AcceptQuoteSchema = z
     name: z.string({ message: 'is required' }).trim().min(2, { message: 'type your full name' }).max(160),
     acceptTerms: z.literal(true, { message: 'tick to accept the terms' }),
     extras: z.array(z.string().max(40)).max(12).default([]),
+    /** The lines taken, one a group (none where the group is optional); may be left out when there is nothing to choose. */
+    lines: z.array(z.number({ message: 'must be line ids' }).int().positive().max(2_147_483_647)).max(24).optional(),
   })
   .strict();
 export type AcceptQuoteInput = z.input<typeof AcceptQuoteSchema>;
@@ -266,6 +362,18 @@ export interface PipelineRow {
   count: number;
   value: string;
   currency: string;
+}
+
+/** How often customers take the lighter option of a group (the cheaper line), for deciding what to recommend. */
+export interface OptionReport {
+  /** Option groups (two lines or more) in accepted quotes. */
+  groups: number;
+  lighterChosen: number;
+  heavierChosen: number;
+  noneChosen: number;
+  recommendedChosen: number;
+  /** Per month of acceptance (YYYY-MM), oldest first. */
+  months: { month: string; groups: number; lighterChosen: number }[];
 }
 
 export interface OutboxSummary {

@@ -14,7 +14,7 @@ import path from 'node:path';
 import request from 'supertest';
 import { afterAll, beforeAll, describe, expect, it } from 'vitest';
 import { UniqueConstraintError } from 'sequelize';
-import { Estimate, Job, OutboxMessage, Payment, Quote } from '../../server/models';
+import { Estimate, Job, OutboxMessage, Payment, Quote, QuoteLine } from '../../server/models';
 import { closeTestApp, getTestApp, signInAs, startServices, type Session } from '../helpers/app';
 
 const { app, config } = getTestApp();
@@ -126,15 +126,13 @@ describe('one agreement per estimate', () => {
     expect((await Estimate.findByPk(estimateId))!.state).toBe('accepted');
   });
 
-  it('the database itself refuses a second accepted quote for an estimate', async () => {
+  it('the database itself refuses a second accepted quote for an estimate (its piece, on the quote lines)', async () => {
     const estimateId = await pricedEstimate();
     const a = await sentQuote(estimateId);
     const b = await sentQuote(estimateId);
     await accept(a.token).expect(200);
-    const qb = (await Quote.findByPk(b.id))!;
-    await expect(
-      Quote.update({ state: 'accepted', acceptedAt: new Date(), acceptedTotal: qb.total, acceptedDeposit: qb.deposit, acceptedExtras: [] }, { where: { id: b.id } }),
-    ).rejects.toBeInstanceOf(UniqueConstraintError);
+    // The one agreement sits on the chosen quote lines' piece (quote_lines_one_agreement).
+    await expect(QuoteLine.update({ chosen: true, agreed: true }, { where: { quoteId: b.id } })).rejects.toBeInstanceOf(UniqueConstraintError);
     // And an accepted deposit that is not the deposit percentage of the accepted total.
     await expect(Quote.update({ acceptedDeposit: '1.00' }, { where: { id: a.id } })).rejects.toThrow(/quotes_accepted_deposit/);
   });

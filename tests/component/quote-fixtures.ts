@@ -27,6 +27,7 @@ export const QUOTE: QuoteDetail = {
   state: 'draft',
   estimate: { id: 1, number: 'E-0001', title: 'Full repolish', revision: 1 },
   customer: { id: 3, name: 'Hester Quillfeather', email: 'hester@example.com' },
+  lines: [],
   total: PRICING.total,
   deposit: PRICING.deposit,
   currency: 'GBP',
@@ -56,6 +57,8 @@ export const QUOTE: QuoteDetail = {
 };
 
 export const PUBLIC_QUOTE: PublicQuote = {
+  lines: [],
+  recommended: [],
   number: 'Q-2027-0012',
   state: 'viewed',
   closed: null,

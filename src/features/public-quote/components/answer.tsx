@@ -1,7 +1,7 @@
 import { CircleCheck, CircleX } from 'lucide-react';
 import { useId, useState, type FormEvent } from 'react';
 import { percentOf, sumMoney } from '@shared/money';
-import { AcceptQuoteSchema, type PublicQuote } from '@shared/schemas/quotes';
+import { AcceptQuoteSchema, choiceFigures, type PublicQuote } from '@shared/schemas/quotes';
 import { Alert } from '@/components/alert';
 import { Button } from '@/components/button';
 import { TextField } from '@/components/field';
@@ -33,11 +33,20 @@ export function Answer({ token, quote }: { token: string; quote: PublicQuote }) 
   const termsId = useId();
   const reasonId = useId();
   const c = quote.pricing.currency;
-  const amounts = withExtras(quote, chosen);
+  // A quote of several pieces or with options: one choice a piece, starting from what the workshop recommends.
+  const several = quote.lines.length > 1;
+  const groups = [...new Set(quote.lines.map((l) => l.group))];
+  const [picked, setPicked] = useState<Record<number, number | null>>(() =>
+    Object.fromEntries(groups.map((g) => [g, quote.lines.find((l) => l.group === g && l.recommended)?.id ?? null])),
+  );
+  const lines = Object.values(picked).filter((x): x is number => x !== null);
+  const figures = several ? choiceFigures({ lines: quote.lines, depositPct: quote.pricing.depositPct, extras: quote.extras }, lines, chosen) : null;
+  const amounts = figures ?? withExtras(quote, chosen);
+  const balance = figures?.balance ?? (Math.round(Number(amounts.total) * 100 - Number(amounts.deposit) * 100) / 100).toFixed(2);
 
   const submit = (e: FormEvent) => {
     e.preventDefault();
-    const input = { name, acceptTerms: terms, extras: chosen };
+    const input = { name, acceptTerms: terms, extras: chosen, ...(several ? { lines } : {}) };
     const parsed = AcceptQuoteSchema.safeParse(input);
     if (!parsed.success) {
       setErrors(zodFieldErrors(parsed.error));
@@ -52,6 +61,36 @@ export function Answer({ token, quote }: { token: string; quote: PublicQuote }) 
     <section aria-labelledby="answer-heading" className={box} data-testid="answer">
       <h2 id="answer-heading" className="font-serif text-2xl font-semibold text-walnut-900">Your answer</h2>
       <p className="mt-1 text-sm text-walnut-600">Nothing is booked until you accept. After accepting you can pay the deposit by card; we then book the work into the drying room and confirm the dates with you.</p>
+
+      {several && (
+        <div className="mt-5 space-y-4" data-testid="choices">
+          {groups.map((g, gi) => {
+            const of = quote.lines.filter((l) => l.group === g);
+            if (of.length === 1 && !of[0]!.groupOptional) return null;
+            const options = [...of.map((l, i) => ({ id: l.id as number | null, label: `${of.length > 1 ? `Option ${String.fromCharCode(65 + i)}: ` : ''}${l.label || l.work.systemName}`, total: l.total, recommended: l.recommended && of.length > 1 })), ...(of[0]!.groupOptional ? [{ id: null, label: 'Leave this piece out', total: null, recommended: false }] : [])];
+            return (
+              <fieldset key={g}>
+                <legend className="text-base font-semibold text-walnut-900">Piece {gi + 1}: {of[0]!.piece}</legend>
+                <ul className="mt-2 space-y-2">
+                  {options.map((o) => (
+                    <li key={o.id ?? 'none'}>
+                      <label className={`flex cursor-pointer items-center gap-3 rounded-lg border px-4 py-3 ${picked[g] === o.id ? 'border-amber-500 bg-amber-50' : 'border-parchment-200 bg-parchment-50 hover:bg-parchment-100'}`}>
+                        <input type="radio" name={`piece-${g}`} className="h-5 w-5 shrink-0 accent-amber-600" checked={picked[g] === o.id} onChange={() => setPicked((p) => ({ ...p, [g]: o.id }))} />
+                        <span className="min-w-0 flex-1 font-medium text-walnut-900">
+                          {o.label}
+                          {o.recommended && <span className="ml-2 text-xs font-normal text-amber-800">(we recommend)</span>}
+                        </span>
+                        {o.total && <span className="num shrink-0 font-semibold text-walnut-900">{formatMoney(o.total, c)}</span>}
+                      </label>
+                    </li>
+                  ))}
+                </ul>
+              </fieldset>
+            );
+          })}
+          {errors.lines && <p className="text-sm text-brick-700" role="alert"><span aria-hidden>▲</span> {errors.lines}</p>}
+        </div>
+      )}
 
       {quote.extras.length > 0 && (
         <fieldset className="mt-5">
@@ -77,15 +116,21 @@ export function Answer({ token, quote }: { token: string; quote: PublicQuote }) 
 
       {!declining && (
         <form onSubmit={submit} noValidate className="mt-6 space-y-4" aria-label="Accept the quote">
-          <dl className="grid gap-px overflow-hidden rounded-lg border border-walnut-800 bg-walnut-800 text-parchment-50 sm:grid-cols-2" data-testid="accept-amounts">
+          <dl className={`grid gap-px overflow-hidden rounded-lg border border-walnut-800 bg-walnut-800 text-parchment-50 ${several ? 'sm:grid-cols-3' : 'sm:grid-cols-2'}`} data-testid="accept-amounts">
             <div className="bg-walnut-900 px-4 py-3">
-              <dt className="text-xs uppercase tracking-wide text-parchment-200">Total{chosen.length > 0 ? ' with the extras you chose' : ''}</dt>
+              <dt className="text-xs uppercase tracking-wide text-parchment-200">Total{several ? ' for your choice' : ''}{chosen.length > 0 ? ' with the extras you chose' : ''}</dt>
               <dd className="num font-serif text-2xl font-semibold text-amber-300" data-testid="accept-total">{formatMoney(amounts.total, c)}</dd>
             </div>
             <div className="bg-walnut-900 px-4 py-3">
               <dt className="text-xs uppercase tracking-wide text-parchment-200">Deposit to pay now ({quote.pricing.depositPct} %)</dt>
               <dd className="num font-serif text-2xl font-semibold text-parchment-50" data-testid="accept-deposit">{formatMoney(amounts.deposit, c)}</dd>
             </div>
+            {several && (
+              <div className="bg-walnut-900 px-4 py-3">
+                <dt className="text-xs uppercase tracking-wide text-parchment-200">Balance when ready</dt>
+                <dd className="num font-serif text-2xl font-semibold text-parchment-50" data-testid="accept-balance">{formatMoney(balance, c)}</dd>
+              </div>
+            )}
           </dl>
           <TextField label="Your full name" autoComplete="name" value={name} onChange={(e) => setName(e.target.value)} error={errors.name} hint="Typing your name counts as your signature on this quote." />
           <div>

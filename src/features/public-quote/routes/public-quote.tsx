@@ -125,6 +125,77 @@ function Outcome({ token, q, returned }: { token: string; q: PublicQuote; return
   );
 }
 
+/** The pieces of a quote of several, each with its options: the work in plain words and the price of each. */
+function Pieces({ q }: { q: PublicQuote }) {
+  const groups = [...new Set(q.lines.map((l) => l.group))];
+  return (
+    <Section id="work-heading" title="The pieces and the work">
+      <div className="space-y-6">
+        {groups.map((g, gi) => {
+          const of = q.lines.filter((l) => l.group === g);
+          return (
+            <div key={g} data-testid={`piece-${gi + 1}`}>
+              <h3 className="font-serif text-xl font-semibold text-walnut-900">Piece {gi + 1}: {of[0]!.piece}</h3>
+              {(of.length > 1 || of[0]!.groupOptional) && (
+                <p className="text-sm text-walnut-600">
+                  {of.length > 1 ? `${of.length} ways of doing it: you choose one below, before accepting` : 'You may include it or leave it out'}
+                  {of.length > 1 && of[0]!.groupOptional ? ', or leave the piece out' : ''}.
+                </p>
+              )}
+              <div className="mt-3 space-y-4">
+                {of.map((l, i) => (
+                  <div key={l.id} className={`rounded-lg border p-4 ${l.chosen ? 'border-moss-600/50' : 'border-parchment-200'}`}>
+                    <div className="flex flex-wrap items-baseline justify-between gap-2">
+                      <p className="font-semibold text-walnut-900">
+                        {of.length > 1 ? `Option ${String.fromCharCode(65 + i)}: ` : ''}
+                        {l.label || l.work.systemName}
+                        {l.recommended && of.length > 1 && <span className="ml-2 rounded-full border border-amber-400 bg-amber-50 px-2 py-0.5 text-xs text-amber-800">We recommend</span>}
+                        {l.chosen !== null && <span className="ml-2 rounded-full border border-walnut-200 px-2 py-0.5 text-xs text-walnut-600">{l.chosen ? 'Your choice' : 'Not chosen'}</span>}
+                      </p>
+                      <p className="num font-serif text-lg font-semibold text-walnut-900">{formatMoney(l.total, q.pricing.currency)}</p>
+                    </div>
+                    <WorkBody w={l.work} />
+                  </div>
+                ))}
+              </div>
+            </div>
+          );
+        })}
+      </div>
+      <p className="mt-4 text-sm text-walnut-700" data-testid="schedule">
+        {q.schedule.booked && q.schedule.start && q.schedule.ready
+          ? `Booked: we start on ${formatDate(q.schedule.start)}.`
+          : 'The time each piece stays with us is an estimate: the dates are fixed when we book the work into the drying room, after the deposit is paid.'}
+      </p>
+    </Section>
+  );
+}
+
+function WorkBody({ w }: { w: PublicQuote['work'] }) {
+  const facts: [string, string][] = [
+    ['Surface', w.areaText],
+    ['Coats of shellac', `${w.coats} ${w.coats === 1 ? 'coat' : 'coats'}`],
+    ['Hands-on work', `${w.labourHours.toLocaleString('en-GB', { maximumFractionDigits: 1 })} h`],
+    ['With the workshop', `${w.calendarDays} ${w.calendarDays === 1 ? 'day' : 'days'}`],
+  ];
+  return (
+    <>
+      <p className="mt-1 text-sm text-walnut-700">
+        {w.systemName}: we finish {w.areaText} of surface in {w.coats} thin coats over {w.stages.length} stages, with rests between them so each layer hardens.
+      </p>
+      <dl className="mt-2 grid grid-cols-2 gap-2 sm:grid-cols-4">
+        {facts.map(([label, value]) => (
+          <div key={label} className="rounded-lg border border-parchment-200 bg-parchment-50 px-3 py-1.5">
+            <dt className="text-xs uppercase tracking-wide text-walnut-500">{label}</dt>
+            <dd className="num font-semibold text-walnut-900">{value}</dd>
+          </div>
+        ))}
+      </dl>
+      <p className="mt-2 text-xs text-walnut-600">Stages: {w.stages.map((s) => `${s.name} (${s.hours.toLocaleString('en-GB')} h)`).join(', ')}.</p>
+    </>
+  );
+}
+
 function Work({ q }: { q: PublicQuote }) {
   const w = q.work;
   const facts: [string, string][] = [
@@ -304,8 +375,13 @@ export function PublicQuotePage() {
       </section>
 
       {!answerable && <Outcome token={token} q={q} returned={returned} />}
-      <Work q={q} />
+      {q.lines.length > 1 ? <Pieces q={q} /> : <Work q={q} />}
       <Section id="price-heading" title="The price">
+        {q.lines.length > 1 && (
+          <p className="mb-2 text-sm italic text-walnut-600">
+            {q.agreed ? 'For the options you chose, added together.' : 'For the options we recommend, added together; your total follows your choice below.'}
+          </p>
+        )}
         <PriceBreakdown pricing={q.pricing} pricesIncludeTax={q.pricesIncludeTax} agreed={q.agreed} />
         <p className="mt-3 text-sm italic text-walnut-600">This quote is valid until {formatDate(q.validUntil)}.</p>
       </Section>

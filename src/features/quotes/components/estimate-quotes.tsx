@@ -13,6 +13,7 @@ import { formatDate, formatMoney } from '@/lib/format';
 import { quotePdfUrl, useEstimateQuotes, useQuote } from '../api/quotes';
 import { canSell } from '../lib/permissions';
 import { PriceBreakdown } from './price-breakdown';
+import { QuoteLines } from './quote-lines';
 import { QuoteDates } from './quote-timeline';
 import { QuoteForm } from './quote-form';
 import { QuoteStateBadge } from './quote-state-badge';
@@ -48,6 +49,7 @@ function PreparedQuote({ id }: { id: number }) {
         Revision {q.estimate.revision} · valid until <span className="num">{formatDate(q.validUntil)}</span>
         {q.discountPct > 0 && <> · discount <span className="num">{q.discountPct} %</span></>}
       </p>
+      <div className="mt-3"><QuoteLines quote={q} /></div>
       <div className="mt-3 grid gap-6 lg:grid-cols-2">
         <PriceBreakdown pricing={q.pricing} extras={q.extras} />
         <div className="space-y-3">
@@ -115,6 +117,8 @@ export function EstimateQuotes({ estimate }: { estimate: EstimateDetail }) {
         {formOpen && role && settings && (
           <QuoteForm
             estimateId={estimate.id}
+            customerId={estimate.customer.id}
+            estimateTitle={estimate.title}
             revisions={estimate.revisions}
             role={role}
             onCreated={onCreated}

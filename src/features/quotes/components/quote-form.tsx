@@ -9,7 +9,20 @@ import { SelectField, TextField } from '@/components/field';
 import { ApiError } from '@/lib/api';
 import { serverFieldErrors, zodFieldErrors } from '@/lib/form-errors';
 import { formatMoney } from '@/lib/format';
+import { useEstimates } from '@/features/estimates/api/estimates';
 import { useCreateQuote } from '../api/quotes';
+
+/** A further line of the quote: another estimate of the customer's (another piece, or another way with this one). */
+interface LineRow {
+  key: number;
+  estimateId: number;
+  group: number;
+  label: string;
+  recommended: boolean;
+  optional: boolean;
+}
+
+const QUOTABLE_STATES = ['priced', 'quoted', 'viewed', 'expired', 'declined'];
 
 interface ExtraRow {
   key: number;
@@ -46,6 +59,8 @@ function withoutField(errors: Record<string, string>): Record<string, string> {
  */
 export function QuoteForm({
   estimateId,
+  customerId,
+  estimateTitle,
   revisions,
   defaults,
   role,
@@ -53,6 +68,9 @@ export function QuoteForm({
   onCancel,
 }: {
   estimateId: number;
+  /** The customer whose other priced estimates may join the quote as further pieces or options. */
+  customerId?: number;
+  estimateTitle?: string;
   revisions: RevisionSummary[];
   defaults: QuoteFormDefaults;
   role: Role;
@@ -70,6 +88,14 @@ export function QuoteForm({
   const [validUntil, setValidUntil] = useState(defaults.validUntil);
   const [recipient, setRecipient] = useState(defaults.recipient);
   const [errors, setErrors] = useState<Record<string, string>>({});
+  // Line 1 is this estimate; further lines are the customer's other estimates, each a piece of its own (group) or an
+  // option of another line's piece.
+  const [first, setFirst] = useState({ label: '', recommended: true, optional: false });
+  const [lines, setLines] = useState<LineRow[]>([]);
+  const others = useEstimates({ customerId, pageSize: 100 }, { enabled: customerId !== undefined });
+  const candidates = (others.data?.rows ?? []).filter((e) => e.id !== estimateId && !e.archived && QUOTABLE_STATES.includes(e.state));
+  const setLine = (key: number, patch: Partial<LineRow>) => setLines((rows) => rows.map((r) => (r.key === key ? { ...r, ...patch } : r)));
+  const groupCount = Math.max(1, ...lines.map((l) => l.group));
 
   const capped = role !== 'owner';
   const setExtra = (key: number, patch: Partial<ExtraRow>) => setExtras((rows) => rows.map((r) => (r.key === key ? { ...r, ...patch } : r)));
@@ -85,6 +111,14 @@ export function QuoteForm({
       depositPct: num(deposit),
       validUntil: validUntil || undefined,
       recipient: recipient.trim() || undefined,
+      ...(lines.length > 0
+        ? {
+            lines: [
+              { estimateId, revision, group: 1, label: first.label.trim(), recommended: first.recommended, optional: first.optional },
+              ...lines.map((l) => ({ estimateId: l.estimateId, group: l.group, label: l.label.trim(), recommended: l.recommended, optional: l.optional })),
+            ],
+          }
+        : {}),
     };
     const parsed = CreateQuoteSchema.safeParse(input);
     if (!parsed.success) {
@@ -137,6 +171,67 @@ export function QuoteForm({
         />
         {errors.message ? <p className="text-sm text-brick-700" role="alert">▲ {errors.message}</p> : <p className="text-xs text-walnut-500">Opens the e-mail and the PDF; blank lines start new paragraphs.</p>}
       </div>
+
+      {customerId !== undefined && (
+        <fieldset className="rounded-lg border border-parchment-200 bg-parchment-50 px-4 py-3" data-testid="quote-lines">
+          <legend className="px-1 text-sm font-semibold text-walnut-800">Pieces and options</legend>
+          <p className="text-xs text-walnut-500">
+            Add the customer’s other priced estimates: a different piece goes in a piece of its own; another way of doing the same piece goes in that piece’s group, as an option the
+            customer chooses between. Mark one option of each piece as recommended; the quote’s total is for the recommended choice.
+          </p>
+          {errors.lines && <p className="mt-1 text-sm text-brick-700" role="alert">▲ {errors.lines}</p>}
+          <ol className="mt-3 space-y-3">
+            <li className="grid gap-3 rounded-md border border-parchment-200 bg-white p-3 sm:grid-cols-[3fr_8rem_2fr_auto_auto]" aria-label="Line 1">
+              <div className="text-sm">
+                <p className="font-medium text-walnut-800">Line 1: this estimate</p>
+                <p className="text-walnut-600">{estimateTitle ?? ''} (revision {revision})</p>
+              </div>
+              <p className="self-end text-sm text-walnut-700">Piece 1</p>
+              <TextField label="Line 1: option name" value={first.label} onChange={(e) => setFirst({ ...first, label: e.target.value })} placeholder="Full repolish" />
+              <label className="flex items-end gap-2 text-sm"><input type="checkbox" checked={first.recommended} onChange={(e) => setFirst({ ...first, recommended: e.target.checked })} aria-label="Line 1: recommended" /> Recommended</label>
+              <label className="flex items-end gap-2 text-sm"><input type="checkbox" checked={first.optional} onChange={(e) => setFirst({ ...first, optional: e.target.checked })} aria-label="Line 1: piece may be left out" /> May be left out</label>
+            </li>
+            {lines.map((l, i) => (
+              <li key={l.key} className="grid gap-3 rounded-md border border-parchment-200 bg-white p-3 sm:grid-cols-[3fr_8rem_2fr_auto_auto_auto]" aria-label={`Line ${i + 2}`}>
+                <SelectField
+                  label={`Line ${i + 2}: estimate`}
+                  value={String(l.estimateId)}
+                  onChange={(e) => setLine(l.key, { estimateId: Number(e.target.value) })}
+                  error={errors[`lines.${i + 1}.estimateId`]}
+                  options={candidates.map((e) => ({ value: String(e.id), label: `${e.number}: ${e.title} (${e.piece.description}), ${formatMoney(e.total, e.currency)}` }))}
+                />
+                <SelectField
+                  label={`Line ${i + 2}: piece`}
+                  value={String(l.group)}
+                  onChange={(e) => setLine(l.key, { group: Number(e.target.value) })}
+                  options={Array.from({ length: groupCount + 1 }, (_, g) => ({ value: String(g + 1), label: g + 1 > groupCount ? `Piece ${g + 1} (new)` : `Piece ${g + 1}` }))}
+                />
+                <TextField label={`Line ${i + 2}: option name`} value={l.label} onChange={(e) => setLine(l.key, { label: e.target.value })} placeholder="Re-body and refresh" />
+                <label className="flex items-end gap-2 text-sm"><input type="checkbox" checked={l.recommended} onChange={(e) => setLine(l.key, { recommended: e.target.checked })} aria-label={`Line ${i + 2}: recommended`} /> Recommended</label>
+                <label className="flex items-end gap-2 text-sm"><input type="checkbox" checked={l.optional} onChange={(e) => setLine(l.key, { optional: e.target.checked })} aria-label={`Line ${i + 2}: piece may be left out`} /> May be left out</label>
+                <div className="flex items-end">
+                  <Button size="sm" variant="ghost" aria-label={`Remove line ${i + 2}`} onClick={() => setLines((rows) => rows.filter((r) => r.key !== l.key))}>
+                    <Trash2 className="h-4 w-4" aria-hidden /> Remove
+                  </Button>
+                </div>
+              </li>
+            ))}
+          </ol>
+          <Button
+            size="sm"
+            variant="secondary"
+            className="mt-3"
+            disabled={lines.length >= 11 || candidates.length === 0}
+            onClick={() => {
+              setLines((rows) => [...rows, { key: nextKey, estimateId: candidates[0]!.id, group: groupCount + 1, label: '', recommended: false, optional: false }]);
+              setNextKey((k) => k + 1);
+            }}
+          >
+            <Plus className="h-3.5 w-3.5" aria-hidden /> Add another estimate
+          </Button>
+          {others.data && candidates.length === 0 && <p className="mt-2 text-xs text-walnut-500">The customer has no other priced estimate to add.</p>}
+        </fieldset>
+      )}
 
       <fieldset className="rounded-lg border border-parchment-200 bg-parchment-50 px-4 py-3">
         <legend className="px-1 text-sm font-semibold text-walnut-800">Optional extras</legend>

@@ -11,6 +11,7 @@ import { useMe } from '@/features/auth/api/get-me';
 import { formatDate, formatDateTime, formatMoney, todayIso } from '@/lib/format';
 import { acceptancePdfUrl, quotePdfUrl, useQuote, useWithdrawQuote } from '../api/quotes';
 import { PriceBreakdown } from '../components/price-breakdown';
+import { QuoteLines } from '../components/quote-lines';
 import { QuoteStateBadge } from '../components/quote-state-badge';
 import { MILESTONE_ICONS } from '../components/quote-timeline';
 import { SendQuote } from '../components/send-quote';
@@ -191,6 +192,7 @@ export function QuotePage() {
       )}
       <div className="grid items-start gap-6 xl:grid-cols-[minmax(0,3fr)_minmax(0,2fr)]">
         <div className="space-y-6">
+          <QuoteLines quote={q} />
           <section aria-labelledby="price-heading" className="rounded-xl border border-parchment-200 bg-white px-5 py-4 shadow-card">
             <h2 id="price-heading" className="mb-3 text-lg font-semibold text-walnut-800">The price</h2>
             <PriceBreakdown pricing={q.pricing} extras={q.extras} agreed={q.agreed} />

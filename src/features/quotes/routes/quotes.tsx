@@ -11,6 +11,7 @@ import { useCalcCatalog } from '@/features/estimates/api/catalog';
 import { formatDate, formatMoney } from '@/lib/format';
 import { useTableState } from '@/lib/use-table-state';
 import { useFlaggedPayments, useQuotes, type QuoteListQuery } from '../api/quotes';
+import { OptionReport } from '../components/option-report';
 import { Pipeline } from '../components/pipeline';
 import { QuoteStateBadge } from '../components/quote-state-badge';
 import { canSell } from '../lib/permissions';
@@ -119,6 +120,7 @@ export function QuotesPage() {
     <>
       <PageHeader title="Quotes" description="Priced estimates offered to customers: what was sent, opened, accepted and paid." />
       <FlaggedPayments enabled={seller} />
+      <OptionReport enabled={seller} />
       {seller && calc.data && (
         <Pipeline currency={calc.data.settings.pricing.currency} active={table.state.filters.state ?? ''} onPick={(s) => table.setFilter('state', s)} />
       )}
