@@ -56,6 +56,12 @@ export function authRoutes(config: Config, _sequelize: Sequelize, table: RouteIn
       res.status(204).end();
     });
   });
+  // Who is signed in, or `{ user: null }`: the client's first call, answered 200 either way so that a signed-out first
+  // visit logs no failed request in the browser's console.
+  r.get('/session', 'public', async (req, res) => {
+    const user = req.user ? await User.findByPk(req.user.id) : null;
+    res.json({ user: user?.active ? user.toDto() : null });
+  });
   r.get('/me', 'signed-in', async (req, res) => {
     const user = await User.findByPk(req.user!.id);
     if (!user) throw new HttpProblem(401, 'unauthenticated', 'Sign in required');

@@ -1,4 +1,5 @@
 import { createBrowserRouter } from 'react-router-dom';
+import { Spinner } from '@/components/spinner';
 import { paths } from '@/config/paths';
 import { SignInPage } from '@/features/auth/routes/sign-in';
 import { OverviewPage } from '@/features/home/routes/overview';
@@ -18,11 +19,12 @@ export function createRouter() {
   return createBrowserRouter([
     { path: paths.signIn, element: <SignInPage />, errorElement: <RouteError /> },
     // The customer's quote page: reached from the e-mailed link, no sign-in, outside the staff layout.
-    { path: paths.publicQuote, errorElement: <RouteError />, lazy: () => import('@/features/public-quote/routes/public-quote') },
+    { path: paths.publicQuote, errorElement: <RouteError />, hydrateFallbackElement: <Spinner label="Opening your quote…" />, lazy: () => import('@/features/public-quote/routes/public-quote') },
     {
       path: '/',
       element: <AppLayout />,
       errorElement: <RouteError />,
+      hydrateFallbackElement: <Spinner label="Opening Shellwright…" />,
       children: [
         { index: true, element: <OverviewPage /> },
         {

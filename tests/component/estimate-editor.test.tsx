@@ -7,7 +7,7 @@ import { fakeFetch, json, renderWithApp } from './render';
 
 beforeEach(() => {
   window.localStorage.clear();
-  vi.stubGlobal('fetch', fakeFetch({ '/api/auth/me': () => json(ME) }).fn);
+  vi.stubGlobal('fetch', fakeFetch({ '/api/auth/session': () => json(ME) }).fn);
 });
 afterEach(() => vi.unstubAllGlobals());
 
