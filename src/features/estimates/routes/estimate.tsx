@@ -140,7 +140,7 @@ export function EstimatePage() {
       <div className="space-y-4">
         {saved !== undefined && saved === d.current.number && (
           <Alert tone="info" title={`Revision ${saved} saved`}>
-            The figures below are the server's own, worked out again from your inputs with the price list in force ({d.current.catalogVersion}).
+            The figures below are the server's own, worked out again from your inputs with the price list in force ({d.current.priceList || "today's prices"}).
           </Alert>
         )}
         {actionError && <Alert tone="error" title="That did not work">{actionError.message}</Alert>}

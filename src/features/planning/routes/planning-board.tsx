@@ -92,7 +92,7 @@ function DueList({ board, canMark, onMark }: { board: PlanningBoard; canMark: bo
                   </div>
                   {canMark &&
                     (s.next ? (
-                      <Button size="sm" variant="secondary" onClick={() => onMark(s)} aria-label={`Mark ${s.jobNumber} ${s.label} done`}>
+                      <Button size="sm" variant="secondary" className="min-h-11 w-full sm:min-h-0 sm:w-auto" onClick={() => onMark(s)} aria-label={`Mark ${s.jobNumber} ${s.label} done`}>
                         <CircleCheck className="h-3.5 w-3.5" aria-hidden /> Mark done
                       </Button>
                     ) : (
