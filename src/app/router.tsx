@@ -18,6 +18,18 @@ const SELLERS = ['owner', 'sales'] as const;
 export function createRouter() {
   return createBrowserRouter([
     { path: paths.signIn, element: <SignInPage />, errorElement: <RouteError /> },
+    {
+      path: paths.forgotPassword,
+      errorElement: <RouteError />,
+      hydrateFallbackElement: <Spinner />,
+      lazy: async () => ({ Component: (await import('@/features/auth/routes/reset-password')).ForgotPasswordPage }),
+    },
+    {
+      path: paths.resetPassword,
+      errorElement: <RouteError />,
+      hydrateFallbackElement: <Spinner />,
+      lazy: async () => ({ Component: (await import('@/features/auth/routes/reset-password')).ChooseNewPasswordPage }),
+    },
     // The customer's quote page: reached from the e-mailed link, no sign-in, outside the staff layout.
     { path: paths.publicQuote, errorElement: <RouteError />, hydrateFallbackElement: <Spinner label="Opening your quote…" />, lazy: () => import('@/features/public-quote/routes/public-quote') },
     {

@@ -42,6 +42,8 @@ const WHOLE_ACTIONS: Record<string, string> = {
   'stock.update': 'counted the stock of',
   'quote.accept': 'the customer accepted',
   'quote.decline': 'the customer declined',
+  'user.password_reset_requested': 'a password link was asked for',
+  'user.password_reset_by_link': 'set a new password by link:',
 };
 
 function describeAction(action: string): string {
