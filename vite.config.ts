@@ -20,7 +20,8 @@ export default defineConfig({
     projects: [
       {
         extends: true,
-        test: { name: 'unit', environment: 'node', include: ['tests/unit/**/*.test.ts', 'tests/reference/**/*.test.ts'] },
+        // PDF rendering and property runs take seconds on a busy 2-core machine: no tight timeout.
+        test: { name: 'unit', environment: 'node', include: ['tests/unit/**/*.test.ts', 'tests/reference/**/*.test.ts'], testTimeout: 30_000 },
       },
       {
         extends: true,

@@ -8,7 +8,7 @@ import sharp from 'sharp';
 import type { QuoteDocument } from './quote-document';
 import { LORA, registerLora } from './pdf-fonts';
 import { formatDate, formatDays, formatHours, formatMoney, formatNumber, formatPercent, paragraphs, pdfText } from './pdf-format';
-import { Flow, INK, STYLE, drawTable, tableHeight, type TableRow, type TableSpec, type TextStyle } from './pdf-layout';
+import { Flow, INK, STYLE, TAGGED_PDF, drawTable, tableHeight, type TableRow, type TableSpec, type TextStyle } from './pdf-layout';
 
 const MARGIN = { top: 66, bottom: 70, left: 56, right: 56 };
 
@@ -17,6 +17,7 @@ export async function renderQuotePdf(q: QuoteDocument): Promise<Buffer> {
   const photo = q.piece.photo ? await preparePhoto(q.piece.photo) : null;
 
   const doc = new PDFDocument({
+    ...TAGGED_PDF,
     size: q.paperSize === 'Letter' ? 'LETTER' : 'A4',
     margins: { ...MARGIN },
     bufferPages: true,

@@ -87,6 +87,8 @@ export interface QuoteSummary {
 }
 
 export interface QuoteDetail extends QuoteSummary {
+  /** The piece the work is on, as the customer knows it (not the estimate's working title). */
+  piece?: { id: number; description: string } | null;
   message: string;
   discountPct: number;
   depositPct: number;

@@ -159,7 +159,7 @@ export function QuotePage() {
         <dl className="mt-4 grid grid-cols-2 gap-x-6 gap-y-1 text-sm sm:grid-cols-3 lg:grid-cols-5">
           <div><dt className={meta}>Customer</dt><dd><Link className={link} to={pathTo.customer(q.customer.id)}>{q.customer.name}</Link></dd></div>
           <div><dt className={meta}>Estimate</dt><dd><Link className={link} to={pathTo.estimate(q.estimate.id)}>{q.estimate.number}</Link> <span className="text-walnut-500">rev. {q.estimate.revision}</span></dd></div>
-          <div><dt className={meta}>Piece</dt><dd>{q.estimate.title}</dd></div>
+          <div><dt className={meta}>Piece</dt><dd>{q.piece ? <Link className={link} to={pathTo.piece(q.piece.id)}>{q.piece.description}</Link> : q.estimate.title}</dd></div>
           <div><dt className={meta}>Valid until</dt><dd className="num">{formatDate(q.validUntil)}</dd></div>
           <div><dt className={meta}>Recipient</dt><dd className="truncate" title={q.recipient ?? undefined}>{q.recipient ?? '—'}</dd></div>
         </dl>
