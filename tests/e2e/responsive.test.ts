@@ -111,6 +111,7 @@ describe('every page fits a phone and a tablet', () => {
         await page.getByRole('button', { name: 'Sign in' }).click();
         await page.waitForURL((u) => !u.pathname.startsWith('/signin'));
         await page.getByRole('heading', { level: 1 }).first().waitFor();
+        await settle(page);
         const routes = await routesFor(page, role);
         for (const route of routes) {
           await page.goto(`${server.baseUrl}${route}`);
@@ -184,5 +185,53 @@ describe('every page fits a phone and a tablet', () => {
       await context.close();
     }
     expect(problems).toEqual([]);
+  });
+
+  it('at 1440 \u00d7 900 the price list\u2019s notes and the parts table\u2019s drop-downs show their text whole', { timeout: 300_000 }, async () => {
+    const context = await browser.newContext({ viewport: { width: 1440, height: 900 } });
+    const page = await context.newPage();
+    const errors = watchConsole(page);
+    await page.goto(`${server.baseUrl}/signin`);
+    await page.getByLabel('E-mail').fill(demoEmail('owner'));
+    await page.getByLabel('Password').fill(DEMO_PASSWORD);
+    await page.getByRole('button', { name: 'Sign in' }).click();
+    await page.waitForURL((u) => !u.pathname.startsWith('/signin'));
+    await settle(page);
+
+    await page.goto(`${server.baseUrl}/price-list`);
+    await page.getByRole('heading', { level: 1, name: 'Price list' }).waitFor();
+    await settle(page);
+    // The notes column is wide enough that a note reads as lines of words, not a word per line.
+    const notes = await page.evaluate(() => {
+      const head = Array.from(document.querySelectorAll('th')).find((th) => th.textContent?.trim().toLowerCase() === 'notes');
+      return head ? head.getBoundingClientRect().width : 0;
+    });
+    expect(notes).toBeGreaterThanOrEqual(250);
+    expect((await overflow(page)).excess).toBeLessThanOrEqual(0);
+    await screenshot(page, 'responsive-owner-desktop-price-list');
+
+    const estimates = await getJson<{ rows: { piece: { id: number } }[] }>(page, '/api/estimates?pageSize=1');
+    await page.goto(`${server.baseUrl}/estimates/new?pieceId=${estimates.rows[0]!.piece.id}`);
+    await page.getByRole('heading', { level: 1, name: 'New estimate' }).waitFor();
+    await page.getByRole('button', { name: 'Edit the parts table' }).click();
+    await page.getByRole('heading', { name: 'Parts' }).first().waitFor().catch(() => undefined);
+    await settle(page);
+    // Every drop-down is wide enough for its chosen option, arrow included.
+    const cut = await page.evaluate(() => {
+      const ctx = document.createElement('canvas').getContext('2d')!;
+      const out: string[] = [];
+      for (const sel of Array.from(document.querySelectorAll<HTMLSelectElement>('form[aria-label="Estimate"] select'))) {
+        const cs = getComputedStyle(sel);
+        ctx.font = `${cs.fontWeight} ${cs.fontSize} ${cs.fontFamily}`;
+        const text = sel.options[sel.selectedIndex]?.text ?? '';
+        const need = ctx.measureText(text).width + parseFloat(cs.paddingLeft) + parseFloat(cs.paddingRight) + 20;
+        if (need > sel.clientWidth) out.push(`${text} (${Math.round(need)} > ${sel.clientWidth})`);
+      }
+      return out;
+    });
+    expect(cut).toEqual([]);
+    await screenshot(page, 'responsive-owner-desktop-parts-table');
+    expect(errors).toEqual([]);
+    await context.close();
   });
 });
