@@ -59,7 +59,8 @@ export function plainMessage(issue: Issue): string {
     case 'not_multiple_of':
       return `must be a multiple of ${String(issue.divisor)}`;
     case 'unrecognized_keys':
-      return `has ${issue.keys.length === 1 ? 'a field' : 'fields'} we do not use: ${list(issue.keys)}`;
+      // The names come from the request: quoted, a few and short, so a message never carries much of someone's input.
+      return `has ${issue.keys.length === 1 ? 'a field' : 'fields'} we do not use: ${list(issue.keys.slice(0, 5).map((k) => JSON.stringify(k.slice(0, 40))))}${issue.keys.length > 5 ? ' and more' : ''}`;
     case 'invalid_value':
       return `must be ${issue.values.length === 1 ? list(issue.values) : `one of ${list(issue.values)}`}`;
     case 'invalid_union':

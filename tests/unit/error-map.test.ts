@@ -31,7 +31,7 @@ describe('the shared validation messages', () => {
     expect(messages(z.array(z.string()).min(1), [])).toEqual(['needs at least 1 item']);
     expect(messages(z.enum(['grand', 'upright']), 'harp')).toEqual(['must be one of grand or upright']);
     expect(messages(z.email(), 'nope')).toEqual(['must be an e-mail address']);
-    expect(messages(z.object({ a: z.string() }).strict(), { a: 'x', b: 1 })).toEqual(['has a field we do not use: b']);
+    expect(messages(z.object({ a: z.string() }).strict(), { a: 'x', b: 1 })).toEqual(['has a field we do not use: "b"']);
   });
 
   it('a schema\u2019s own message still wins', () => {
@@ -42,9 +42,10 @@ describe('the shared validation messages', () => {
     const schemas = [CustomerInputSchema, LoginSchema, EstimateInputSchema];
     fc.assert(
       fc.property(fc.constantFrom(...schemas), fc.anything(), (schema, value) => {
-        for (const m of messages(schema, value)) expect(m).not.toMatch(RAW);
+        // Field names quoted back from the input are the input's words, not the library's.
+        for (const m of messages(schema, value)) expect(m.replace(/"(?:[^"\\]|\\.)*"/g, '""')).not.toMatch(RAW);
       }),
-      { numRuns: 300 },
+      { numRuns: 2000 },
     );
   });
 });

@@ -53,7 +53,9 @@ function describeAction(action: string): string {
 }
 
 /** Internal working the log keeps for the record but never shows: payment-session ids, outbox ids, price-list hashes. */
-const HIDDEN = new Set(['session', 'outbox', 'catalogVersion', 'photos', 'photo', 'copiedFrom', 'key']);
+const HIDDEN = new Set(['outbox', 'catalogVersion', 'photos', 'photo', 'copiedFrom', 'key']);
+/** A value that is a machine's reference (a payment session "cs_…"), not words: kept, not shown. */
+const MACHINE_ID = /^[a-z]{2,6}_[A-Za-z0-9_]{8,}$/;
 
 function show(v: unknown, key = '', currency = ''): string {
   if (v === null || v === undefined) return '—';
@@ -112,7 +114,7 @@ export function ChangeSummary({ before, after, currency }: { before: unknown; af
   // JSONB keeps keys in its own order: put the naming fields and the price first.
   const context = CONTEXT_KEYS.filter((k) => keys.includes(k) && JSON.stringify(a[k] ?? b[k]) === JSON.stringify(b[k] ?? a[k]));
   const rank = (k: string) => (FIRST.includes(k) ? FIRST.indexOf(k) : FIRST.length);
-  const changed = keys.filter((k) => !context.includes(k) && !HIDDEN.has(k) && JSON.stringify(a[k]) !== JSON.stringify(b[k])).sort((x, y) => rank(x) - rank(y));
+  const changed = keys.filter((k) => !context.includes(k) && !HIDDEN.has(k) && !MACHINE_ID.test(String(a[k] ?? b[k])) && JSON.stringify(a[k]) !== JSON.stringify(b[k])).sort((x, y) => rank(x) - rank(y));
   return (
     <div className="max-w-xl text-sm">
       {context.length > 0 && <p className="font-medium text-walnut-800">{context.map((k) => show(a[k] ?? b[k], k, currency)).join(', ')}</p>}
