@@ -187,7 +187,7 @@ export function EstimateEditor({ calc, pieceKind, initial, saveLabel, saving = f
           </ul>
         </Alert>
       )}
-      <div className="grid items-start gap-6 xl:grid-cols-[minmax(0,1fr)_26rem]">
+      <div className="grid grid-cols-1 items-start gap-6 xl:grid-cols-[minmax(0,1fr)_26rem]">
         <div className="min-w-0 space-y-6">
           <Panel
             title="The piece"

@@ -148,7 +148,7 @@ export function EstimatePage() {
       <div className="mb-3 mt-4 flex justify-end">
         <UnitsToggle value={units} onChange={setUnits} />
       </div>
-      <div className="grid items-start gap-6 xl:grid-cols-2">
+      <div className="grid grid-cols-1 items-start gap-6 xl:grid-cols-2">
         <div className="space-y-6">
           <ResultsSummary result={result} units={units} heading={`Revision ${d.current.number}: the server's figures`} />
           <RevisionsList estimateId={d.id} revisions={d.revisions} current={d.current.number} currency={d.currency} />

@@ -284,7 +284,7 @@ export function JobPage() {
         </Card>
       )}
 
-      <div className="grid gap-6 xl:grid-cols-2">
+      <div className="grid grid-cols-1 gap-6 xl:grid-cols-2">
         <Card title="Why it could not start sooner">
           {j.startMode === 'earliest' ? (
             <WhyNotSooner reasons={j.whyNotSooner} />

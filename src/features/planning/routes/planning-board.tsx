@@ -177,7 +177,7 @@ export function PlanningBoardPage() {
         <OverbookedDays board={b} />
       </Card>
 
-      <div className="grid gap-6 xl:grid-cols-2">
+      <div className="grid grid-cols-1 gap-6 xl:grid-cols-2">
         <Card title="Due today and tomorrow">
           <DueList
             board={b}

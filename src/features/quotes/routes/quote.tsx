@@ -165,7 +165,7 @@ export function QuotePage() {
         </dl>
       </div>
       {withdraw.error && <div className="mb-4"><Alert tone="error" title="Not withdrawn">{withdraw.error.message}</Alert></div>}
-      <div className="grid items-start gap-6 xl:grid-cols-[minmax(0,3fr)_minmax(0,2fr)]">
+      <div className="grid grid-cols-1 items-start gap-6 xl:grid-cols-[minmax(0,3fr)_minmax(0,2fr)]">
         <div className="space-y-6">
           <section aria-labelledby="price-heading" className="rounded-xl border border-parchment-200 bg-white px-5 py-4 shadow-card">
             <h2 id="price-heading" className="mb-3 text-lg font-semibold text-walnut-800">The price</h2>
