@@ -5,6 +5,7 @@ import session from 'express-session';
 import helmet from 'helmet';
 import pg from 'pg';
 import type { Sequelize } from 'sequelize';
+import '@shared/schemas/error-map';
 import { rootDir, type Config } from './config';
 import { configurePassport } from './auth/passport';
 import { ThrottledPgStore } from './auth/session-store';

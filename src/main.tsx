@@ -2,6 +2,7 @@ import '@fontsource/lora/400.css';
 import '@fontsource/lora/600.css';
 import '@fontsource/lora/700.css';
 import './index.css';
+import '@shared/schemas/error-map';
 import { StrictMode } from 'react';
 import { createRoot } from 'react-dom/client';
 import { RouterProvider } from 'react-router-dom';

@@ -46,3 +46,23 @@ export function loginLimits(config: Pick<Config, 'loginAttempts' | 'loginAddress
     },
   };
 }
+
+/**
+ * Password-reset requests and completions per address, in the same shared table: a few in the sign-in window, like
+ * sign-in itself, so that no instance can be used to flood an inbox or guess a token.
+ */
+export function resetLimits(config: Pick<Config, 'loginAttempts' | 'loginWindowMs'>, pool: pg.Pool): { attempt(address: string): Promise<number> } {
+  const duration = Math.max(1, Math.ceil(config.loginWindowMs / 1000));
+  const limiter = new RateLimiterPostgres({ storeClient: pool, storeType: 'pool', tableName: 'login_attempts', tableCreated: true, clearExpiredByTimeout: true, duration, keyPrefix: 'reset', points: config.loginAttempts });
+  return {
+    async attempt(address) {
+      try {
+        await limiter.consume(address);
+        return 0;
+      } catch (e) {
+        if (e instanceof RateLimiterRes) return Math.max(1, Math.ceil(e.msBeforeNext / 1000));
+        throw e;
+      }
+    },
+  };
+}

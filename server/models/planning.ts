@@ -137,6 +137,8 @@ export class JobSession extends Model<InferAttributes<JobSession>, InferCreation
   declare temperatureC: string | number | null;
   declare humidityPct: string | number | null;
   declare notes: string | null;
+  declare materialsUsed: CreationOptional<string | null>;
+  declare problem: CreationOptional<string | null>;
   declare doneBy: number | null;
   declare doneAt: Date | null;
 
@@ -167,6 +169,8 @@ export class JobSession extends Model<InferAttributes<JobSession>, InferCreation
         temperatureC: { type: DataTypes.DECIMAL(4, 1), allowNull: true },
         humidityPct: { type: DataTypes.DECIMAL(4, 1), allowNull: true },
         notes: { type: DataTypes.TEXT, allowNull: true },
+        materialsUsed: { type: DataTypes.TEXT, allowNull: true },
+        problem: { type: DataTypes.TEXT, allowNull: true },
         doneBy: { type: DataTypes.INTEGER, allowNull: true },
         doneAt: { type: DataTypes.DATE, allowNull: true },
       },

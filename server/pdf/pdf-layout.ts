@@ -51,8 +51,44 @@ export interface TextBoxOptions {
   ellipsis?: boolean;
 }
 
+/**
+ * What makes a document accessible to a screen reader: a tagged PDF (every piece of text in a structure element, in
+ * the order it is read), its language, and the title shown instead of the file name. Spread into `new PDFDocument`.
+ */
+export const TAGGED_PDF = { tagged: true, lang: 'en-GB', displayTitle: true, pdfVersion: '1.7' } as const satisfies PDFKit.PDFDocumentOptions;
+
+/**
+ * Lays out text and rules on the pages. On a tagged document every text it draws becomes a structure element (a
+ * paragraph, or a heading) under one Document element, in the order drawn, which is the reading order; rules and
+ * fills are marked as layout artifacts that a screen reader skips.
+ */
 export class Flow {
-  constructor(readonly doc: PDFKit.PDFDocument) {}
+  private readonly root: PDFKit.PDFStructureElement | undefined;
+  /** The structure type of the next text drawn (a heading sets it for its title). */
+  private role: 'P' | 'H1' | 'H2' = 'P';
+
+  constructor(readonly doc: PDFKit.PDFDocument) {
+    if ((doc.options as PDFKit.PDFDocumentOptions).tagged) {
+      this.root = doc.struct('Document');
+      doc.addStructure(this.root);
+    }
+  }
+
+  /** Draws text inside a structure element of the current role (untagged documents just draw). */
+  private tag(draw: () => void): void {
+    if (!this.root) return draw();
+    const element = this.doc.struct(this.role, {}, [draw]);
+    this.root.add(element);
+    element.end();
+  }
+
+  /** Draws decoration (rules, fills, bars) as a layout artifact, which a screen reader skips. */
+  artifact(draw: () => void): void {
+    if (!this.root) return draw();
+    this.doc.markContent('Artifact', { type: 'Layout' });
+    draw();
+    this.doc.endMarkedContent();
+  }
 
   get left(): number {
     return this.doc.page.margins.left;
@@ -152,7 +188,7 @@ export class Flow {
     // With a height pdfkit stops instead of adding a page; one-line text with an ellipsis is cut at the width.
     box.height = opts.oneLine ? h * 1.5 : h + this.doc.page.height;
     const { x: keepX, y: keepY } = this.doc;
-    this.doc.text(clean, x, y, box);
+    this.tag(() => this.doc.text(clean, x, y, box));
     this.doc.x = keepX;
     this.doc.y = keepY;
     return h;
@@ -179,22 +215,22 @@ export class Flow {
     } else {
       // Too long for what is left of the page: let pdfkit flow it on, line by line.
       this.use(style);
-      this.doc.text(clean, x, this.doc.y, this.textOptions(style, width, { align: opts.align }));
+      this.tag(() => this.doc.text(clean, x, this.doc.y, this.textOptions(style, width, { align: opts.align })));
     }
     this.doc.x = this.left;
     this.gap(opts.after ?? 0);
   }
 
   hRule(x1: number, x2: number, y: number, color: string = INK.rule, width = 0.5): void {
-    this.doc.save().moveTo(x1, y).lineTo(x2, y).lineWidth(width).strokeColor(color).stroke().restore();
+    this.artifact(() => this.doc.save().moveTo(x1, y).lineTo(x2, y).lineWidth(width).strokeColor(color).stroke().restore());
   }
 
   vRule(x: number, y1: number, y2: number, color: string = INK.rule, width = 0.5): void {
-    this.doc.save().moveTo(x, y1).lineTo(x, y2).lineWidth(width).strokeColor(color).stroke().restore();
+    this.artifact(() => this.doc.save().moveTo(x, y1).lineTo(x, y2).lineWidth(width).strokeColor(color).stroke().restore());
   }
 
   fillRect(x: number, y: number, w: number, h: number, color: string): void {
-    this.doc.save().rect(x, y, w, h).fill(color).restore();
+    this.artifact(() => this.doc.save().rect(x, y, w, h).fill(color).restore());
   }
 
   /** A section title: a short amber bar, then the title. Kept with at least `keepWith` points of what follows. */
@@ -203,7 +239,12 @@ export class Flow {
     this.ensure(10 + h + keepWith);
     const y = this.doc.y;
     this.fillRect(this.left, y, 22, 1.8, INK.amber);
-    this.textAt(title, this.left, y + 8, this.width, STYLE.heading);
+    this.role = 'H2';
+    try {
+      this.textAt(title, this.left, y + 8, this.width, STYLE.heading);
+    } finally {
+      this.role = 'P';
+    }
     this.doc.y = y + 8 + h + 8;
   }
 

@@ -9,7 +9,7 @@ import { pdfJob } from '../services/image-jobs';
 import type { QuoteDocument, QuoteDocumentLine } from './quote-document';
 import { LORA, registerLora } from './pdf-fonts';
 import { formatDate, formatDays, formatHours, formatMoney, formatNumber, formatPercent, paragraphs, pdfText } from './pdf-format';
-import { Flow, INK, STYLE, drawTable, tableHeight, type TableRow, type TableSpec, type TextStyle } from './pdf-layout';
+import { Flow, INK, STYLE, TAGGED_PDF, drawTable, tableHeight, type TableRow, type TableSpec, type TextStyle } from './pdf-layout';
 
 const MARGIN = { top: 66, bottom: 70, left: 56, right: 56 };
 
@@ -25,6 +25,7 @@ export async function renderQuotePdf(q: QuoteDocument): Promise<Buffer> {
 function layOut(q: QuoteDocument, photo: Photo | null, linePhotos: (Photo | null)[]): Promise<Buffer> {
   const several = (q.lines?.length ?? 0) > 1;
   const doc = new PDFDocument({
+    ...TAGGED_PDF,
     size: q.paperSize === 'Letter' ? 'LETTER' : 'A4',
     margins: { ...MARGIN },
     bufferPages: true,

@@ -2,17 +2,18 @@ import { ipKeyGenerator } from 'express-rate-limit';
 import type { RequestHandler } from 'express';
 import type pg from 'pg';
 import type { Sequelize } from 'sequelize';
-import { LoginSchema } from '@shared/schemas/auth';
+import { LoginSchema, PasswordResetCompleteSchema, PasswordResetRequestSchema } from '@shared/schemas/auth';
 import type { Config } from '../config';
-import { loginLimits } from '../auth/login-limits';
+import { loginLimits, resetLimits } from '../auth/login-limits';
 import { configurePassport } from '../auth/passport';
 import { csrf } from '../http/csrf';
 import { secureRouter, type RouteInfo } from '../http/guard';
 import { HttpProblem, parseOr400, sendProblem } from '../http/problem';
 import { User } from '../models';
+import { completePasswordReset, requestPasswordReset } from '../services/password-reset';
 
-/** Sign-in, sign-out and who is signed in. `pool` holds the shared failed-sign-in counters (login_attempts). */
-export function authRoutes(config: Config, _sequelize: Sequelize, table: RouteInfo[], pool: pg.Pool) {
+/** Sign-in, sign-out, password resets and who is signed in. `pool` holds the shared failed-sign-in counters (login_attempts). */
+export function authRoutes(config: Config, sequelize: Sequelize, table: RouteInfo[], pool: pg.Pool) {
   const r = secureRouter('/api/auth', table);
   const passport = configurePassport();
   const limits = loginLimits(config, pool);
@@ -52,6 +53,31 @@ export function authRoutes(config: Config, _sequelize: Sequelize, table: RouteIn
       if (err) return next(err);
       res.status(204).end();
     });
+  });
+  // Who is signed in, or `{ user: null }`: the client's first call, answered 200 either way so that a signed-out first
+  // visit logs no failed request in the browser's console.
+  r.get('/session', 'public', async (req, res) => {
+    const user = req.user ? await User.findByPk(req.user.id) : null;
+    res.json({ user: user?.active ? user.toDto() : null });
+  });
+  // Password reset by e-mailed link. The request answers 202 whatever the address, so it tells no one who has an
+  // account; a few requests per address and e-mail in the sign-in window, like sign-in itself.
+  const resets = resetLimits(config, pool);
+  const resetLimit: RequestHandler = async (req, res, next) => {
+    const wait = await resets.attempt(ipKeyGenerator(req.ip ?? ''));
+    if (wait === 0) return next();
+    res.setHeader('Retry-After', String(wait));
+    sendProblem(res, new HttpProblem(429, 'too_many_attempts', 'Too many requests', 'Too many password reset requests. Wait a few minutes and try again.'));
+  };
+  r.post('/password-reset', 'public', resetLimit, async (req, res) => {
+    const { email } = parseOr400(PasswordResetRequestSchema, req.body);
+    await requestPasswordReset(sequelize, config, email);
+    res.status(202).json({ message: 'If that address belongs to an account here, a link to set a new password is on its way. It works once, within the hour.' });
+  });
+  r.post('/password-reset/complete', 'public', resetLimit, async (req, res) => {
+    const { token, password } = parseOr400(PasswordResetCompleteSchema, req.body);
+    await completePasswordReset(sequelize, token, password);
+    res.status(204).end();
   });
   r.get('/me', 'signed-in', async (req, res) => {
     const user = await User.findByPk(req.user!.id);

@@ -38,7 +38,11 @@ export function estimateRoutes(sequelize: Sequelize, table: RouteInfo[]) {
     const { ids } = parseOr400(RepriceSchema, req.body);
     const done = [];
     for (const id of ids) done.push(await repriceEstimate(sequelize, req.user!.id, id));
-    res.json({ repriced: done.map((e) => ({ id: e.id, number: e.number, total: e.total, revision: e.revisionCount })) });
+    res.json({
+      repriced: done.filter((e) => e.changed).map((e) => ({ id: e.id, number: e.number, total: e.total, revision: e.revisionCount })),
+      // Estimates today's price list leaves exactly as they were: no new revision.
+      unchanged: done.filter((e) => !e.changed).map((e) => ({ id: e.id, number: e.number, total: e.total, revision: e.revisionCount })),
+    });
   });
   r.get('/:id', 'signed-in', async (req, res) => {
     res.json(await getEstimate(parseOr400(IdParam, req.params).id));

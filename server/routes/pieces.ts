@@ -5,7 +5,9 @@ import { IdSchema, PHOTO_LIMITS, PhotoCaptionSchema, PieceInputSchema, PieceList
 import type { Config } from '../config';
 import { secureRouter, type RouteInfo } from '../http/guard';
 import { multipart } from '../http/input';
-import { parseOr400 } from '../http/problem';
+import { parseOr400, problems } from '../http/problem';
+import { Estimate, Job } from '../models';
+import { FINISHERS } from '@shared/schemas/planning';
 import { addPhotos, deletePhoto, photoFile, updateCaption } from '../services/photos';
 import { createPiece, getPiece, listPieces, updatePiece } from '../services/pieces';
 
@@ -58,5 +60,18 @@ export function pieceRoutes(config: Config, sequelize: Sequelize, table: RouteIn
       res.type(file.mime).sendFile(file.path, { dotfiles: 'allow' });
     });
   }
-  return [r.router, p.router];
+  // A photo taken at the bench while marking a session done: it joins the photos of the job's piece.
+  const j = secureRouter('/api/jobs', table);
+  j.post('/:id/photos', FINISHERS, upload.array('photos', PHOTO_LIMITS.maxFiles), async (req, res) => {
+    const { id } = parseOr400(IdParam, req.params);
+    const job = await Job.findByPk(id, { attributes: ['id', 'estimateId'] });
+    if (!job) throw problems.notFound('Job');
+    const estimate = await Estimate.findByPk(job.estimateId, { attributes: ['id', 'pieceId'] });
+    if (!estimate) throw problems.notFound('Estimate');
+    const files = (req.files as Express.Multer.File[] | undefined) ?? [];
+    const raw = (req.body as Record<string, unknown> | undefined)?.captions;
+    const captions = Array.isArray(raw) ? raw.map(String) : raw === undefined ? [] : [String(raw)];
+    res.status(201).json(await addPhotos(sequelize, config.uploadsDir, req.user!.id, estimate.pieceId, files, captions));
+  });
+  return [r.router, p.router, j.router];
 }

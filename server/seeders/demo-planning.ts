@@ -38,32 +38,32 @@ interface DemoPlanned {
 
 const JOBS: DemoPlanned[] = [
   {
-    customer: { name: 'Philippa Ravensworth', email: 'philippa.ravensworth@example.com', phone: '01632 960 301', address: '9 Weaver\u2019s Row\nCalderbrook CB3 4RT' },
-    piece: { kind: 'grand', description: 'Boudoir grand in figured rosewood', maker: 'Ashdown & Crale (invented)', year: 1911, dimensions: { length: '5 ft 8 in', width: '145 cm', rimHeight: '32 cm' }, conditionNotes: 'Finish perished on the lid; old repairs on the rim.' },
+    customer: { name: 'Philippa Ravensworth', email: 'philippa.ravensworth@example.com', phone: '01632 960 301', address: '9 Weaver\u2019s Row\nCalderbrook CB3 4CK' },
+    piece: { kind: 'grand', description: 'Boudoir grand in figured rosewood', maker: 'Ashdown & Crale', year: 1911, dimensions: { length: '5 ft 8 in', width: '145 cm', rimHeight: '32 cm' }, conditionNotes: 'Finish perished on the lid; old repairs on the rim.' },
     input: { piece: { template: 'grand', dimensions: { length: '5 ft 8 in', width: '145 cm', rimHeight: '32 cm' }, species: 'rosewood', veneered: true }, system: 'full-repolish' },
     plan: { kind: 'finished', startDaysAgo: 84 },
   },
   {
-    customer: { name: 'Tobias Fairweather-Lund', email: 'tobias.fairweatherlund@example.com', phone: '01632 960 662', address: 'Glebe Cottage\nOsterleigh OS7 2PN' },
-    piece: { kind: 'square', description: 'Mahogany square piano with satinwood banding', maker: 'Pellworth of Candle Lane (invented)', year: 1815, dimensions: { length: '165 cm', width: '60 cm', height: '85 cm' }, conditionNotes: 'Dull, ring-marked top; sound veneer.' },
+    customer: { name: 'Tobias Fairweather-Lund', email: 'tobias.fairweatherlund@example.com', phone: '01632 960 662', address: 'Glebe Cottage\nOsterleigh OS7 2MV' },
+    piece: { kind: 'square', description: 'Mahogany square piano with satinwood banding', maker: 'Pellworth of Candle Lane', year: 1815, dimensions: { length: '165 cm', width: '60 cm', height: '85 cm' }, conditionNotes: 'Dull, ring-marked top; sound veneer.' },
     input: { piece: { template: 'square', dimensions: { length: '165 cm', width: '60 cm', height: '85 cm' }, species: 'mahogany', veneered: true }, system: 'full-repolish' },
     plan: { kind: 'finished', startDaysAgo: 63 },
   },
   {
-    customer: { name: 'Imogen Blackthorn', email: 'imogen.blackthorn@example.com', phone: '01632 960 774', address: '22 Chandlery Walk\nHarrowgate Quay HQ1 8SB' },
-    piece: { kind: 'grand', description: 'Burr walnut baby grand', maker: 'Vossberg & Lyle (invented)', year: 1927, dimensions: { length: '5 ft 2 in', width: '142 cm', rimHeight: '31 cm' }, conditionNotes: 'Crazed lacquer over the original shellac; to come back to a full gloss.' },
+    customer: { name: 'Imogen Blackthorn', email: 'imogen.blackthorn@example.com', phone: '01632 960 774', address: '22 Chandlery Walk\nHarrowgate Quay HQ1 8KO' },
+    piece: { kind: 'grand', description: 'Burr walnut baby grand', maker: 'Vossberg & Lyle', year: 1927, dimensions: { length: '5 ft 2 in', width: '142 cm', rimHeight: '31 cm' }, conditionNotes: 'Crazed lacquer over the original shellac; to come back to a full gloss.' },
     input: { piece: { template: 'grand', dimensions: { length: '5 ft 2 in', width: '142 cm', rimHeight: '31 cm' }, species: 'walnut', veneered: true }, system: 'full-repolish' },
     plan: { kind: 'in-progress', startDaysAgo: 4 },
   },
   {
-    customer: { name: 'Rufus Amberley', email: 'rufus.amberley@example.com', phone: '01632 960 519', address: 'The Granary, Mill End\nWhitlow WH4 6JJ' },
-    piece: { kind: 'furniture', description: 'Mahogany bow-front cabinet', maker: 'Unknown (invented piece)', year: 1800, dimensions: { height: '92 cm', width: '110 cm', depth: '48 cm' }, conditionNotes: 'Blackened old polish; some lifting cross-banding, already glued.' },
+    customer: { name: 'Rufus Amberley', email: 'rufus.amberley@example.com', phone: '01632 960 519', address: 'The Granary, Mill End\nWhitlow WH4 6VI' },
+    piece: { kind: 'furniture', description: 'Mahogany bow-front cabinet', maker: 'Unknown', year: 1800, dimensions: { height: '92 cm', width: '110 cm', depth: '48 cm' }, conditionNotes: 'Blackened old polish; some lifting cross-banding, already glued.' },
     input: { piece: { template: 'cabinet', dimensions: { height: '92 cm', width: '110 cm', depth: '48 cm' }, species: 'mahogany', veneered: true }, system: 'full-repolish' },
     plan: { kind: 'booked' },
   },
   {
-    customer: { name: 'Clemency Hartigan', email: 'clemency.hartigan@example.com', phone: '01632 960 147', address: '5 Lantern Yard\nBrisley BR2 5AU' },
-    piece: { kind: 'upright', description: 'Rosewood cottage upright', maker: 'Dunmore Brothers (invented)', year: 1898, dimensions: { height: '122 cm', width: '140 cm', depth: '60 cm' }, conditionNotes: 'Finish worn through on the top and cheeks.' },
+    customer: { name: 'Clemency Hartigan', email: 'clemency.hartigan@example.com', phone: '01632 960 147', address: '5 Lantern Yard\nBrisley BR2 5OC' },
+    piece: { kind: 'upright', description: 'Rosewood cottage upright', maker: 'Dunmore Brothers', year: 1898, dimensions: { height: '122 cm', width: '140 cm', depth: '60 cm' }, conditionNotes: 'Finish worn through on the top and cheeks.' },
     input: { piece: { template: 'upright', dimensions: { height: '122 cm', width: '140 cm', depth: '60 cm' }, species: 'rosewood', veneered: true }, system: 're-body' },
     plan: { kind: 'accepted' },
   },

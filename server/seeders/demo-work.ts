@@ -21,11 +21,11 @@ interface DemoJob {
 
 const JOBS: DemoJob[] = [
   {
-    customer: { name: 'Araminta Coldstream', email: 'araminta.coldstream@example.com', phone: '01632 960 233', address: '3 Orchard Rise\nHebbleton HB2 9LX', notes: 'Prefers contact by e-mail. Collection by arrangement.' },
+    customer: { name: 'Araminta Coldstream', email: 'araminta.coldstream@example.com', phone: '01632 960 233', address: '3 Orchard Rise\nHebbleton HB2 9IK', notes: 'Prefers contact by e-mail. Collection by arrangement.' },
     piece: {
       kind: 'grand',
       description: 'Medium grand in rosewood veneer',
-      maker: 'Hartwell & Fenn (invented)',
+      maker: 'Hartwell & Fenn',
       year: 1904,
       serial: '41 207',
       dimensions: { length: '6 ft 3 in', width: '148 cm', rimHeight: '33 cm' },
@@ -37,11 +37,11 @@ const JOBS: DemoJob[] = [
     state: 'priced',
   },
   {
-    customer: { name: 'Barnaby Quillfeather', email: 'b.quillfeather@example.com', phone: '01632 960 547', address: 'The Old Forge\nStavenby ST9 1QE' },
+    customer: { name: 'Barnaby Quillfeather', email: 'b.quillfeather@example.com', phone: '01632 960 547', address: 'The Old Forge\nStavenby ST9 1MC' },
     piece: {
       kind: 'upright',
       description: 'Walnut upright, overstrung',
-      maker: 'Ellingham Piano Co. (invented)',
+      maker: 'Ellingham Piano Co.',
       year: 1923,
       serial: null,
       dimensions: { height: '127 cm', width: '150 cm', depth: '64 cm' },
@@ -52,11 +52,11 @@ const JOBS: DemoJob[] = [
     state: 'draft',
   },
   {
-    customer: { name: 'Cordelia Ashgrove', email: 'cordelia.ashgrove@example.com', phone: '01632 960 812', address: '17 Mill Lane\nPennock PK5 3DA' },
+    customer: { name: 'Cordelia Ashgrove', email: 'cordelia.ashgrove@example.com', phone: '01632 960 812', address: '17 Mill Lane\nPennock PK5 3VO' },
     piece: {
       kind: 'square',
       description: 'Mahogany square piano',
-      maker: 'Whitcombe of Tallow Street (invented)',
+      maker: 'Whitcombe of Tallow Street',
       year: 1828,
       serial: null,
       dimensions: { length: '168 cm', width: '61 cm', height: '86 cm' },
@@ -67,11 +67,11 @@ const JOBS: DemoJob[] = [
     state: 'priced',
   },
   {
-    customer: { name: 'Desmond Larkin-Vale', email: 'desmond.larkinvale@example.com', phone: '01632 960 095', address: 'Flat 2, 40 Quay Street\nBrackwater BW1 6TN' },
+    customer: { name: 'Desmond Larkin-Vale', email: 'desmond.larkinvale@example.com', phone: '01632 960 095', address: 'Flat 2, 40 Quay Street\nBrackwater BW1 6CM' },
     piece: {
       kind: 'furniture',
       description: 'Satinwood side table, oval top',
-      maker: 'Unknown (invented piece)',
+      maker: 'Unknown',
       year: 1790,
       serial: null,
       dimensions: { length: '76 cm', width: '52 cm', height: '71 cm' },

@@ -2,6 +2,8 @@
  * The invented demo workshop: its details and settings, one user per role, the demo price list (invented
  * suppliers and prices, with an older price for history) and labour rates. Idempotent: a second run adds nothing
  * twice. Demo users exist only through this loader, which production runs only with SHELLWRIGHT_DEMO=1.
+ * Demo addresses carry postcodes that cannot exist: their last two letters use C, I, K, M, O or V, letters the
+ * postal service never puts there. Nothing in the demo data is tagged "(invented)": it would print on a customer's PDF.
  */
 import type { Sequelize } from 'sequelize';
 import { DEMO_LABOUR_RATES, DEMO_MATERIALS, DEMO_PRICING, DEMO_SAFETY } from '@shared/calc/presets/demo-materials';
@@ -77,7 +79,7 @@ export async function loadDemo(sequelize: Sequelize, log: (m: string) => void = 
           name: 'Larkspur Lane Polishing Workshop',
           email: 'hello@larkspur-polishing.example',
           phone: '01632 960 418',
-          address: 'Unit 4, Tannery Yard\nLarkspur Lane\nMiddlecombe MC4 7QT',
+          address: 'Unit 4, Tannery Yard\nLarkspur Lane\nMiddlecombe MC4 7KV',
           settings: DEMO_SETTINGS,
         },
         { transaction },

@@ -16,6 +16,7 @@ import {
   type Revision,
   type RevisionSummary,
 } from '@shared/schemas/estimates';
+import { isDeepStrictEqual } from 'node:util';
 import { HttpProblem, problems } from '../http/problem';
 import { Customer, Estimate, EstimateRevision, Piece, User } from '../models';
 import { withAgreements } from './agreements';
@@ -154,8 +155,14 @@ export async function getEstimate(id: number, transaction?: Transaction): Promis
   });
   const current = rows.find((r) => r.id === e.current_revision_id);
   if (!current || current.input === null || current.result === null) throw new HttpProblem(500, 'estimate_without_revision', 'Estimate has no revision');
+  const labels = await priceListLabels(rows.map((r) => r.catalog_version), undefined, transaction);
+  const named = <T extends RevisionSummary>(r: T): T => {
+    const priceList = labels.get(r.catalogVersion) ?? '';
+    // Notes written before price lists had names spoke of the hash.
+    return { ...r, priceList, note: r.note.replace(/price list pl-[0-9a-f]{6,}/g, priceList) };
+  };
   const [summary] = await withAgreements([summaryFromRow(e)]);
-  return { ...summary!, revisions: rows.map(summaryOf), current: { ...summaryOf(current), input: current.input, result: current.result } };
+  return { ...summary!, revisions: rows.map((r) => named(summaryOf(r))), current: named({ ...summaryOf(current), input: current.input, result: current.result }) };
 }
 
 export async function getRevision(estimateId: number, number: number): Promise<Revision> {
@@ -223,17 +230,59 @@ export async function reviseEstimate(sequelize: Sequelize, actorId: number, id: 
   });
 }
 
-/** Prices an open estimate's current inputs again with today's price list, as a new revision. */
-export async function repriceEstimate(sequelize: Sequelize, actorId: number, id: number, loaded?: LoadedCatalog): Promise<EstimateDetail> {
+/**
+ * What a price list means to a customer's estimate: its prices, quantities, labour, stages and cautions, leaving out
+ * the price list's own name and the calendar's dates, so that two pricings can be compared.
+ */
+function pricedContent(result: unknown): unknown {
+  if (!result || typeof result !== 'object') return result;
+  const { catalogVersion: _version, calendar: _calendar, ...rest } = result as Record<string, unknown>;
+  return JSON.parse(JSON.stringify(rest));
+}
+
+/** True when pricing the inputs with `loaded` would change nothing the estimate shows. */
+function samePricing(stored: { catalogVersion: string; result: unknown }, loaded: LoadedCatalog, fresh: () => unknown): boolean {
+  if (stored.catalogVersion === loaded.catalog.version) return true;
+  return isDeepStrictEqual(pricedContent(stored.result), pricedContent(fresh()));
+}
+
+/**
+ * A price list as people name it: "prices of 2 Dec 2026", the day it was first used to price an estimate (or
+ * "today's prices" for one not used yet), never its content hash.
+ */
+export async function priceListLabels(versions: string[], current?: string, transaction?: Transaction): Promise<Map<string, string>> {
+  const labels = new Map<string, string>();
+  const unique = [...new Set(versions.filter(Boolean))];
+  if (unique.length) {
+    const rows = (await EstimateRevision.sequelize!.query(
+      'SELECT catalog_version AS version, min(created_at) AS first FROM estimate_revisions WHERE catalog_version IN (:versions) GROUP BY catalog_version',
+      { replacements: { versions: unique }, type: QueryTypes.SELECT, transaction },
+    )) as { version: string; first: Date }[];
+    for (const r of rows) {
+      const day = new Date(r.first).toLocaleDateString('en-GB', { day: 'numeric', month: 'short', year: 'numeric', timeZone: 'UTC' });
+      labels.set(r.version, r.version === current ? `today's prices (in use since ${day})` : `prices of ${day}`);
+    }
+  }
+  for (const v of unique) if (!labels.has(v)) labels.set(v, v === current ? "today's prices" : 'an earlier price list');
+  return labels;
+}
+
+/**
+ * Prices an open estimate's current inputs again with today's price list, as a new revision. When today's list
+ * changes nothing the estimate shows, no revision is written and `changed` is false.
+ */
+export async function repriceEstimate(sequelize: Sequelize, actorId: number, id: number, loaded?: LoadedCatalog): Promise<EstimateDetail & { changed: boolean }> {
   return sequelize.transaction(async (transaction) => {
     const estimate = await lockOpen(id, transaction);
     const current = await EstimateRevision.findByPk(estimate.currentRevisionId!, { transaction });
     if (!current) throw new HttpProblem(500, 'estimate_without_revision', 'Estimate has no revision');
     const catalog = loaded ?? (await loadCatalog(sequelize, { transaction }));
+    if (samePricing(current, catalog, () => priced(current.input, catalog).result)) return { ...(await getEstimate(id, transaction)), changed: false };
     const before = { total: estimate.total, revision: estimate.revisionCount, catalogVersion: current.catalogVersion };
-    await writeRevision(estimate, estimate.revisionCount + 1, current.input, catalog, actorId, `Repriced with price list ${catalog.catalog.version}`, transaction);
+    const today = new Date().toLocaleDateString('en-GB', { day: 'numeric', month: 'short', year: 'numeric', timeZone: 'UTC' });
+    await writeRevision(estimate, estimate.revisionCount + 1, current.input, catalog, actorId, `Repriced with prices of ${today}`, transaction);
     await audit({ userId: actorId, action: 'estimate.reprice', entityType: 'estimate', entityId: id, before, after: { total: estimate.total, revision: estimate.revisionCount, catalogVersion: catalog.catalog.version } }, transaction);
-    return getEstimate(id, transaction);
+    return { ...(await getEstimate(id, transaction)), changed: true };
   });
 }
 
@@ -244,13 +293,15 @@ export interface RepriceRow {
   customer: string;
   state: EstimateState;
   catalogVersion: string;
+  /** The price list it was priced with, as people name it ("prices of 2 Dec 2026"). */
+  priceList: string;
   oldTotal: string;
   newTotal: string;
   currency: string;
 }
 
 /** Open estimates priced with another price list than today's, with their total now. */
-export async function repriceCandidates(sequelize: Sequelize): Promise<{ catalogVersion: string; rows: RepriceRow[] }> {
+export async function repriceCandidates(sequelize: Sequelize): Promise<{ catalogVersion: string; priceList: string; rows: RepriceRow[] }> {
   const loaded = await loadCatalog(sequelize);
   const estimates = await Estimate.findAll({
     where: { state: { [Op.in]: [...OPEN_STATES] }, archived: false },
@@ -260,7 +311,7 @@ export async function repriceCandidates(sequelize: Sequelize): Promise<{ catalog
   });
   const revisions = await EstimateRevision.findAll({
     where: { id: estimates.map((e) => e.currentRevisionId!).filter(Boolean) },
-    attributes: ['id', 'input', 'catalogVersion'],
+    attributes: ['id', 'input', 'result', 'catalogVersion'],
   });
   const byId = new Map(revisions.map((r) => [r.id, r]));
   const rows: RepriceRow[] = [];
@@ -268,6 +319,8 @@ export async function repriceCandidates(sequelize: Sequelize): Promise<{ catalog
     const r = byId.get(e.currentRevisionId!);
     if (!r || r.catalogVersion === loaded.catalog.version) continue;
     const { result } = priced(r.input, loaded);
+    // Today's list changes nothing this estimate shows: nothing to reprice.
+    if (samePricing(r, loaded, () => result)) continue;
     rows.push({
       id: e.id,
       number: e.number,
@@ -275,12 +328,15 @@ export async function repriceCandidates(sequelize: Sequelize): Promise<{ catalog
       customer: e.customer?.name ?? '',
       state: e.state,
       catalogVersion: r.catalogVersion,
+      priceList: '',
       oldTotal: Number(e.total).toFixed(2),
       newTotal: result.totals.price,
       currency: result.totals.currency,
     });
   }
-  return { catalogVersion: loaded.catalog.version, rows };
+  const labels = await priceListLabels([...rows.map((r) => r.catalogVersion), loaded.catalog.version], loaded.catalog.version);
+  for (const row of rows) row.priceList = labels.get(row.catalogVersion) ?? '';
+  return { catalogVersion: loaded.catalog.version, priceList: labels.get(loaded.catalog.version) ?? "today's prices", rows };
 }
 
 export async function setEstimateState(sequelize: Sequelize, actorId: number, id: number, state: 'draft' | 'priced'): Promise<EstimateDetail> {

@@ -123,6 +123,8 @@ function sessionDto(s: JobSession, polishers: ReadonlyMap<number, string>, users
     temperatureC: num(s.temperatureC),
     humidityPct: num(s.humidityPct),
     notes: s.notes,
+    materialsUsed: s.materialsUsed ?? null,
+    problem: s.problem ?? null,
     doneBy: s.doneBy === null ? null : { id: s.doneBy, name: users.get(s.doneBy) ?? 'former user' },
     doneAt: s.doneAt?.toISOString() ?? null,
   };
@@ -569,6 +571,8 @@ export async function markSessionDone(sequelize: Sequelize, actorId: number, job
       temperatureC: input.temperatureC.toFixed(1),
       humidityPct: input.humidityPct.toFixed(1),
       notes: input.notes,
+      materialsUsed: input.materialsUsed || null,
+      problem: input.problem || null,
       doneBy: actorId,
       doneAt: new Date(),
     });
@@ -597,7 +601,7 @@ export async function markSessionDone(sequelize: Sequelize, actorId: number, job
         action: 'job.session-done',
         entityType: 'job',
         entityId: jobId,
-        after: { session: sessionLabel(session), actualEnd: input.actualEnd, actualHours: input.actualHours, estimatedHours: Number(session.estimatedHours), slipMin: Math.max(0, actualEnd - plannedEnd), moved: result?.moved ?? 0 },
+        after: { session: sessionLabel(session), actualEnd: input.actualEnd, actualHours: input.actualHours, ...(input.problem ? { problem: input.problem } : {}), estimatedHours: Number(session.estimatedHours), slipMin: Math.max(0, actualEnd - plannedEnd), moved: result?.moved ?? 0 },
       },
       transaction,
     );

@@ -292,9 +292,11 @@ export async function getQuote(id: number, transaction?: Transaction): Promise<Q
   const { quote: q, estimate, customer } = await load(id, transaction);
   const payments = await Payment.findAll({ where: { quoteId: id }, order: [['id', 'ASC']], transaction });
   const lineRows = await linesOf(id, transaction);
+  const piece = await Piece.findByPk(estimate.pieceId, { attributes: ['id', 'description'], transaction });
   return {
     ...summary(q, estimate, customer, await revisionNumber(q.revisionId, transaction)),
     lines: await lineDtos(lineRows, transaction),
+    piece: piece ? { id: piece.id, description: piece.description } : null,
     message: q.message,
     discountPct: Number(q.discountPct),
     depositPct: Number(q.depositPct),

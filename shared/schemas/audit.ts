@@ -13,6 +13,13 @@ export const AUDIT_ENTITY_LABELS: Record<string, string> = {
   'finishing-system': 'Finishing system',
   species: 'Wood species',
   user: 'User',
+  customer: 'Customer',
+  piece: 'Piece',
+  estimate: 'Estimate',
+  quote: 'Quote',
+  job: 'Job',
+  polisher: 'Polisher',
+  photo: 'Photo',
 };
 
 export const AuditQuerySchema = z
@@ -37,6 +44,8 @@ export interface AuditEntryDto {
   action: string;
   entityType: string;
   entityId: string | null;
+  /** The record as people name it (EST-…, Q-…, JOB-…, a customer's or material's name) and its page; null once gone. */
+  subject: { label: string; path: string } | null;
   before: unknown;
   after: unknown;
 }

@@ -78,6 +78,19 @@ export type UpdateUserInput = z.infer<typeof UpdateUserSchema>;
 
 export const ResetPasswordSchema = z.object({ password: PasswordSchema }).strict();
 
+/** "Forgot your password?" from the sign-in page: the address to send the link to. */
+export const PasswordResetRequestSchema = z.object({ email: z.string({ message: 'is required' }).trim().min(1, { message: 'is required' }).pipe(email) }).strict();
+export type PasswordResetRequestInput = z.input<typeof PasswordResetRequestSchema>;
+
+/** The e-mailed link's token and the new password. */
+export const PasswordResetCompleteSchema = z
+  .object({
+    token: z.string({ message: 'is required' }).regex(/^[A-Za-z0-9_-]{20,100}$/, { message: 'is not a link we sent' }),
+    password: PasswordSchema,
+  })
+  .strict();
+export type PasswordResetCompleteInput = z.input<typeof PasswordResetCompleteSchema>;
+
 export const UserListQuerySchema = z.object({
   q: z.string().trim().max(100).optional(),
   role: z.enum(ROLES).optional(),

@@ -93,7 +93,10 @@ export interface RevisionSummary {
   number: number;
   total: string;
   labourHours: number;
+  /** The price list's internal version (a content hash): compare with it, never show it. */
   catalogVersion: string;
+  /** The price list as people name it: "prices of 2 Dec 2026". */
+  priceList?: string;
   note: string;
   createdBy: PersonRef;
   createdAt: string;

@@ -106,6 +106,10 @@ export const SessionDoneSchema = z
     temperatureC: z.number({ message: 'must be degrees Celsius' }).min(-10).max(50),
     humidityPct: z.number({ message: 'must be a percentage' }).min(0).max(100),
     notes: z.string({ message: 'is required' }).trim().min(1, { message: 'is required: say how the session went' }).max(2000),
+    /** What went on, as the polisher writes it. */
+    materialsUsed: z.string({ message: 'must be text' }).trim().max(1000, { message: 'must be at most 1000 characters' }).optional(),
+    /** A problem met in the session (blush, a cut-through edge); empty when none. */
+    problem: z.string({ message: 'must be text' }).trim().max(2000, { message: 'must be at most 2000 characters' }).optional(),
   })
   .strict();
 export type SessionDoneInput = z.input<typeof SessionDoneSchema>;
@@ -190,6 +194,8 @@ export interface JobSessionDto {
   temperatureC: number | null;
   humidityPct: number | null;
   notes: string | null;
+  materialsUsed: string | null;
+  problem: string | null;
   doneBy: Ref | null;
   doneAt: string | null;
 }

@@ -253,6 +253,8 @@ export interface QuoteLineDto {
 
 export interface QuoteDetail extends QuoteSummary {
   lines: QuoteLineDto[];
+  /** The piece the work is on, as the customer knows it (not the estimate's working title). */
+  piece?: { id: number; description: string } | null;
   message: string;
   discountPct: number;
   depositPct: number;

@@ -1,4 +1,5 @@
-import { LogOut } from 'lucide-react';
+import { LogOut, Menu, X } from 'lucide-react';
+import { useState } from 'react';
 import { NavLink, Navigate, Outlet, useLocation, useNavigate } from 'react-router-dom';
 import { ROLE_LABELS, type User } from '@shared/schemas/auth';
 import { Logo } from '@/components/logo';
@@ -9,14 +10,24 @@ import { paths } from '@/config/paths';
 import { useMe } from '@/features/auth/api/get-me';
 import { useSignOut } from '@/features/auth/api/sign-out';
 
-function Sidebar({ user }: { user: User }) {
+/**
+ * The role's navigation. From tablet width up it stands beside the page; on a phone it is folded behind the menu
+ * button of the top bar and opens over the page (`open`), closing again when a page is chosen.
+ */
+function Sidebar({ user, open, onClose }: { user: User; open: boolean; onClose: () => void }) {
   const signOut = useSignOut();
   const navigate = useNavigate();
   return (
-    <aside className="flex w-60 shrink-0 flex-col bg-walnut-900 text-parchment-100">
+    <aside
+      id="main-menu"
+      className={`${open ? 'fixed inset-0 z-40 flex overflow-y-auto' : 'hidden'} flex-col bg-walnut-900 text-parchment-100 md:static md:flex md:w-52 md:shrink-0 lg:w-60`}
+    >
       <div className="flex items-center gap-2.5 px-5 py-5">
         <Logo />
         <span className="font-serif text-xl font-semibold tracking-wide text-parchment-50">Shellwright</span>
+        <button type="button" onClick={onClose} className="ml-auto rounded-md p-2 text-parchment-200 hover:bg-walnut-800 md:hidden" aria-label="Close the menu">
+          <X className="h-5 w-5" aria-hidden />
+        </button>
       </div>
       <nav aria-label="Main" className="flex-1 px-3">
         <ul className="space-y-0.5">
@@ -25,8 +36,9 @@ function Sidebar({ user }: { user: User }) {
               <NavLink
                 to={to}
                 end={to === paths.home}
+                onClick={onClose}
                 className={({ isActive }) =>
-                  `flex items-center gap-3 rounded-md px-3 py-2 text-sm transition-colors ${
+                  `flex items-center gap-3 rounded-md px-3 py-3 text-base md:py-2 md:text-sm transition-colors ${
                     isActive ? 'bg-amber-400 font-semibold text-walnut-950' : 'text-parchment-200 hover:bg-walnut-800 hover:text-parchment-50'
                   }`
                 }
@@ -61,6 +73,7 @@ function Sidebar({ user }: { user: User }) {
 export function AppLayout() {
   const me = useMe();
   const location = useLocation();
+  const [menuOpen, setMenuOpen] = useState(false);
   if (me.isPending) return <Spinner label="Opening Shellwright…" />;
   if (me.isError) {
     return (
@@ -76,9 +89,22 @@ export function AppLayout() {
     return <Navigate to={`${paths.signIn}${next !== '/' ? `?next=${encodeURIComponent(next)}` : ''}`} replace />;
   }
   return (
-    <div className="flex min-h-screen">
-      <Sidebar user={me.data} />
-      <main className="min-w-0 flex-1 px-8 py-7">
+    <div className="min-h-screen md:flex">
+      <header className="sticky top-0 z-30 flex items-center gap-2.5 bg-walnut-900 px-4 py-2 text-parchment-50 md:hidden">
+        <Logo />
+        <span className="font-serif text-lg font-semibold tracking-wide">Shellwright</span>
+        <button
+          type="button"
+          onClick={() => setMenuOpen(true)}
+          aria-expanded={menuOpen}
+          aria-controls="main-menu"
+          className="ml-auto inline-flex items-center gap-2 rounded-md px-3 py-2 text-parchment-100 hover:bg-walnut-800"
+        >
+          <Menu className="h-5 w-5" aria-hidden /> Menu
+        </button>
+      </header>
+      <Sidebar user={me.data} open={menuOpen} onClose={() => setMenuOpen(false)} />
+      <main className="min-w-0 flex-1 px-4 py-5 md:px-6 lg:px-8 lg:py-7">
         <Outlet />
       </main>
     </div>

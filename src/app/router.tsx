@@ -1,4 +1,5 @@
 import { createBrowserRouter } from 'react-router-dom';
+import { Spinner } from '@/components/spinner';
 import { paths } from '@/config/paths';
 import { SignInPage } from '@/features/auth/routes/sign-in';
 import { OverviewPage } from '@/features/home/routes/overview';
@@ -17,12 +18,25 @@ const SELLERS = ['owner', 'sales'] as const;
 export function createRouter() {
   return createBrowserRouter([
     { path: paths.signIn, element: <SignInPage />, errorElement: <RouteError /> },
+    {
+      path: paths.forgotPassword,
+      errorElement: <RouteError />,
+      hydrateFallbackElement: <Spinner />,
+      lazy: async () => ({ Component: (await import('@/features/auth/routes/reset-password')).ForgotPasswordPage }),
+    },
+    {
+      path: paths.resetPassword,
+      errorElement: <RouteError />,
+      hydrateFallbackElement: <Spinner />,
+      lazy: async () => ({ Component: (await import('@/features/auth/routes/reset-password')).ChooseNewPasswordPage }),
+    },
     // The customer's quote page: reached from the e-mailed link, no sign-in, outside the staff layout.
-    { path: paths.publicQuote, errorElement: <RouteError />, lazy: () => import('@/features/public-quote/routes/public-quote') },
+    { path: paths.publicQuote, errorElement: <RouteError />, hydrateFallbackElement: <Spinner label="Opening your quote…" />, lazy: () => import('@/features/public-quote/routes/public-quote') },
     {
       path: '/',
       element: <AppLayout />,
       errorElement: <RouteError />,
+      hydrateFallbackElement: <Spinner label="Opening Shellwright…" />,
       children: [
         { index: true, element: <OverviewPage /> },
         {

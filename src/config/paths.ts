@@ -1,6 +1,9 @@
 /** Every client path in one place. */
 export const paths = {
   signIn: '/signin',
+  /** "Forgot your password?": ask for a link, then choose a new password from it. */
+  forgotPassword: '/reset-password',
+  resetPassword: '/reset-password/:token',
   home: '/',
   users: '/users',
   customers: '/customers',

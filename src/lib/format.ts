@@ -12,7 +12,8 @@ export function formatMoney(amount: string, currency: string): string {
     fmt = new Intl.NumberFormat('en-GB', { style: 'currency', currency, minimumFractionDigits: 2, maximumFractionDigits: 4 });
     moneyFormats.set(currency, fmt);
   }
-  return fmt.format(amount as Intl.StringNumericLiteral);
+  // One minus sign everywhere: the typographic one (U+2212), as the estimate pages write it.
+  return fmt.format(amount as Intl.StringNumericLiteral).replace(/^-/, '\u2212');
 }
 
 /** A change in percent with its sign: "+8.7 %", "−5.0 %", "0.0 %". */

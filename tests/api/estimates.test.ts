@@ -253,3 +253,38 @@ describe('estimates and revisions', () => {
     expect(archived.body.rows.map((r: { id: number }) => r.id)).toContain(dup.body.id);
   });
 });
+
+describe('repricing when nothing changed', () => {
+  it('makes no new revision, leaves the estimate off the list, and names price lists by date, never by hash', async () => {
+    const owner = await signInAs(app, 'owner');
+    const made = await post(estimator, '/api/estimates', { customerId, pieceId, input: grand }).expect(201);
+    const id = made.body.id as number;
+    const day = /^(today's prices|prices of \d{1,2} [A-Z][a-z]{2} \d{4})/;
+    expect(made.body.revisions[0].priceList).toMatch(day);
+    expect(made.body.current.priceList).toMatch(day);
+
+    // Priced with today's list: repricing changes nothing.
+    const same = await post(owner, '/api/estimates/reprice', { ids: [id] }).expect(200);
+    expect(same.body.repriced).toEqual([]);
+    expect(same.body.unchanged.map((e: { id: number }) => e.id)).toEqual([id]);
+
+    // A new price for a material this estimate does not use: the price list moves on, but prices this estimate exactly
+    // as before, so it is not listed and repricing it still makes no revision.
+    const used = JSON.stringify(made.body.current.result);
+    const materials = await owner.agent.get('/api/price-list/materials?pageSize=100').expect(200);
+    const unused = (materials.body.rows as { key: string; packs: { id: number; price: string | null }[] }[]).find((m) => !used.includes(`"${m.key}"`) && m.packs[0]?.price);
+    expect(unused, 'a demo material the grand does not use').toBeDefined();
+    const pack = unused!.packs[0]!;
+    const moved = await post(owner, `/api/price-list/packs/${pack.id}/prices`, { price: (Number(pack.price) + 1.37).toFixed(2), effectiveFrom: new Date().toISOString().slice(0, 10) }).expect(201);
+    expect(moved.body.catalogVersion.changed).toBe(true);
+    const candidates = await owner.agent.get('/api/estimates/reprice').expect(200);
+    expect(candidates.body.rows.map((r: { id: number }) => r.id)).not.toContain(id);
+    expect(candidates.body.priceList).toMatch(day);
+    const again = await post(owner, '/api/estimates/reprice', { ids: [id] }).expect(200);
+    expect(again.body.unchanged.map((e: { id: number }) => e.id)).toEqual([id]);
+    const after = await estimator.agent.get(`/api/estimates/${id}`).expect(200);
+    expect(after.body.revisionCount).toBe(1);
+    expect(after.body.revisions[0].priceList).toMatch(/^prices of \d{1,2} [A-Z][a-z]{2} \d{4}$/);
+    expect(JSON.stringify(after.body.revisions)).not.toMatch(/price list pl-/);
+  });
+});

@@ -4,6 +4,7 @@
  * material forecast. Jobs here are booked from dates far ahead so the demo workshop's own jobs stay out of the way.
  */
 import request from 'supertest';
+import sharp from 'sharp';
 import { fromMinutes, toMinutes } from '../../shared/calc';
 import { afterAll, beforeAll, describe, expect, it, vi } from 'vitest';
 import type { BookingPreview, JobDetail, MaterialForecast, PlanningBoard, SessionDoneResult, ActualsReport } from '../../shared/schemas/planning';
@@ -365,5 +366,40 @@ describe('polishers', () => {
     const bad = await post(planner, '/api/polishers', { name: 'Too many hours', hoursPerDay: 30 });
     expect(JSON.parse(bad.text).field).toBe('hoursPerDay');
     expect(await Job.count()).toBeGreaterThan(0);
+  });
+});
+
+describe('the polisher at the bench', () => {
+  it('marks a session done with the materials used and a problem, and adds a camera photo to the piece', async () => {
+    const job = await book(planner, (await newJob()).id, { mode: 'earliest', notBefore: '2029-09-03' });
+    const first = job.sessions[0]!;
+    const done = await post(planner, `/api/jobs/${job.id}/sessions/${first.id}/done`, {
+      actualEnd: first.end,
+      actualHours: first.handsOnHours,
+      temperatureC: 19,
+      humidityPct: 78,
+      notes: 'Stripped the lid and the rim.',
+      materialsUsed: '2 L of stripper, a roll of wadding',
+      problem: 'Blush on the lid after the damp morning.',
+    });
+    expect(done.status, done.text).toBe(200);
+    const read = (await planner.agent.get(`/api/jobs/${job.id}`).expect(200)).body as JobDetail;
+    expect(read.sessions[0]).toMatchObject({ done: true, materialsUsed: '2 L of stripper, a roll of wadding', problem: 'Blush on the lid after the damp morning.' });
+    // A session without a problem keeps none.
+    const second = read.sessions[1]!;
+    await post(planner, `/api/jobs/${job.id}/sessions/${second.id}/done`, { actualEnd: second.end, actualHours: 1, temperatureC: 20, humidityPct: 50, notes: 'Fine.' }).expect(200);
+    expect(((await planner.agent.get(`/api/jobs/${job.id}`).expect(200)).body as JobDetail).sessions[1]).toMatchObject({ problem: null, materialsUsed: null });
+    const tooLong = await post(planner, `/api/jobs/${job.id}/sessions/${read.sessions[2]!.id}/done`, { actualEnd: read.sessions[2]!.end, actualHours: 1, temperatureC: 20, humidityPct: 50, notes: 'x', problem: 'p'.repeat(2001) });
+    expect(JSON.parse(tooLong.text)).toMatchObject({ status: 400, field: 'problem' });
+
+    // The workshop's photo from the phone joins the photos of the job's piece.
+    const png = await sharp({ create: { width: 40, height: 30, channels: 3, background: '#7a4a2a' } }).png().toBuffer();
+    const photo = await planner.agent.post(`/api/jobs/${job.id}/photos`).set('x-csrf-token', planner.csrf).attach('photos', png, 'lid.png').field('captions', `${job.number}, session 1`);
+    expect(photo.status, photo.text).toBe(201);
+    const estimate = await planner.agent.get(`/api/estimates/${job.estimate.id}`).expect(200);
+    const piece = await planner.agent.get(`/api/pieces/${estimate.body.piece.id}`).expect(200);
+    expect(piece.body.photos.map((p: { caption: string }) => p.caption)).toContain(`${job.number}, session 1`);
+    // Sales do not work at the bench.
+    expect((await sales.agent.post(`/api/jobs/${job.id}/photos`).set('x-csrf-token', sales.csrf).attach('photos', png, 'lid.png')).status).toBe(403);
   });
 });

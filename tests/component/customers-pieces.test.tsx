@@ -15,7 +15,7 @@ const customer = { id: 3, name: 'Hester Quillfeather', email: 'hester@example.co
 describe('CustomersPage', () => {
   it('searches, sorts and pages on the server', async () => {
     const net = fakeFetch({
-      '/api/auth/me': () => json(ME),
+      '/api/auth/session': () => json(ME),
       '/api/customers': () => json({ rows: [customer], total: 10_000, page: 1, pageSize: 25 }),
     });
     vi.stubGlobal('fetch', net.fn);
@@ -54,7 +54,7 @@ describe('CustomerFormDialog', () => {
 describe('PiecePage', () => {
   it('reads sizes with units and names a bad one beside its field', async () => {
     const net = fakeFetch({
-      '/api/auth/me': () => json(ME),
+      '/api/auth/session': () => json(ME),
       '/api/workshop': () => json({ id: 1, name: 'Workshop', email: null, phone: null, address: null, settings: SETTINGS }),
       '/api/pieces/7': () => json(PIECE),
     });

@@ -13,7 +13,7 @@ beforeAll(async () => {
 
 beforeEach(() => {
   window.localStorage.clear();
-  vi.stubGlobal('fetch', fakeFetch({ '/api/auth/me': () => json(ME) }).fn);
+  vi.stubGlobal('fetch', fakeFetch({ '/api/auth/session': () => json(ME) }).fn);
 });
 afterEach(() => vi.unstubAllGlobals());
 
@@ -136,5 +136,50 @@ describe('EstimateEditor', () => {
     fireEvent.click(screen.getByRole('button', { name: 'Save estimate' }));
     expect(onSave).not.toHaveBeenCalled();
     expect(screen.getByText(/Fix the fields marked ▲ first/)).toBeTruthy();
+  });
+});
+
+describe('EstimateEditor keeps unsaved work in the browser', () => {
+  const renderKept = () => {
+    const initial = { ...newDraft(PIECE, CALC.catalog, CALC.settings), startDate: '2026-03-02' };
+    return renderWithApp(<EstimateEditor calc={CALC} pieceKind="grand" initial={initial} saveLabel="Save estimate" onSave={() => {}} today="2026-03-02" draftKey="new-estimate:piece:1" />);
+  };
+
+  it('offers what was typed again after the page is closed, and restores it on request', async () => {
+    const first = renderKept();
+    expect(screen.queryByText('Unsaved work on this device')).toBeNull();
+    fireEvent.change(screen.getByLabelText('Length'), { target: { value: '250 cm' } });
+    await waitFor(() => expect(window.localStorage.getItem('shellwright:draft:new-estimate:piece:1')).toContain('250 cm'));
+    first.unmount();
+
+    renderKept();
+    expect(await screen.findByText('Unsaved work on this device')).toBeTruthy();
+    expect((screen.getByLabelText('Length') as HTMLInputElement).value).not.toBe('250 cm');
+    fireEvent.click(screen.getByRole('button', { name: 'Restore my unsaved work' }));
+    await waitFor(() => expect((screen.getByLabelText('Length') as HTMLInputElement).value).toBe('250 cm'));
+    expect(screen.queryByText('Unsaved work on this device')).toBeNull();
+  });
+
+  it('discarding forgets the draft, and an unchanged form keeps nothing', async () => {
+    const first = renderKept();
+    fireEvent.change(screen.getByLabelText('Length'), { target: { value: '250 cm' } });
+    await waitFor(() => expect(window.localStorage.getItem('shellwright:draft:new-estimate:piece:1')).not.toBeNull());
+    first.unmount();
+    const second = renderKept();
+    fireEvent.click(await screen.findByRole('button', { name: 'Discard it' }));
+    expect(window.localStorage.getItem('shellwright:draft:new-estimate:piece:1')).toBeNull();
+    second.unmount();
+    renderKept();
+    expect(screen.queryByText('Unsaved work on this device')).toBeNull();
+  });
+
+  it('says so when the connection drops', async () => {
+    renderKept();
+    const online = vi.spyOn(navigator, 'onLine', 'get').mockReturnValue(false);
+    window.dispatchEvent(new Event('offline'));
+    expect(await screen.findByText('No connection')).toBeTruthy();
+    online.mockRestore();
+    window.dispatchEvent(new Event('online'));
+    await waitFor(() => expect(screen.queryByText('No connection')).toBeNull());
   });
 });

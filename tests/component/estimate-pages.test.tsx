@@ -31,7 +31,7 @@ describe('StateBadge', () => {
 describe('EstimatePage', () => {
   it("shows the server's figures, the cautions, the revisions and the estimator's actions", async () => {
     const net = fakeFetch({
-      '/api/auth/me': () => json(ME),
+      '/api/auth/session': () => json(ME),
       '/api/calc/catalog': () => json(CALC),
       '/api/estimates/1': () => json(detail([rev1, rev2])),
     });
@@ -54,7 +54,7 @@ describe('EstimatePage', () => {
 
   it('hides what sales may not do', async () => {
     vi.stubGlobal('fetch', fakeFetch({
-      '/api/auth/me': () => json({ user: { ...ME.user, role: 'sales' } }),
+      '/api/auth/session': () => json({ user: { ...ME.user, role: 'sales' } }),
       '/api/calc/catalog': () => json(CALC),
       '/api/estimates/1': () => json(detail([rev1])),
     }).fn);
@@ -77,7 +77,7 @@ describe('EditEstimatePage', () => {
     let current = detail([rev1]);
     const posts: unknown[] = [];
     const net = fakeFetch({
-      '/api/auth/me': () => json(ME),
+      '/api/auth/session': () => json(ME),
       '/api/auth/csrf': () => json({ csrfToken: 't' }),
       '/api/calc/catalog': () => json(CALC),
       '/api/estimates/1/revisions': (init) => {
@@ -115,7 +115,7 @@ describe('EditEstimatePage', () => {
 describe('CompareRevisionsPage', () => {
   it('shows what changed in the inputs, hours, materials and price', async () => {
     vi.stubGlobal('fetch', fakeFetch({
-      '/api/auth/me': () => json(ME),
+      '/api/auth/session': () => json(ME),
       '/api/calc/catalog': () => json(CALC),
       '/api/estimates/1/revisions/1': () => json(rev1),
       '/api/estimates/1/revisions/2': () => json(rev2),
@@ -140,7 +140,7 @@ describe('EstimatesPage', () => {
   it('asks the server to search, filter and sort, and shows each row with units', async () => {
     const summary = { ...detail([rev1]), revisions: undefined, current: undefined };
     const net = fakeFetch({
-      '/api/auth/me': () => json(ME),
+      '/api/auth/session': () => json(ME),
       '/api/estimates': () => json({ rows: [summary], total: 1, page: 1, pageSize: 25 }),
       '/api/customers': () => json({ rows: [], total: 0, page: 1, pageSize: 8 }),
     });

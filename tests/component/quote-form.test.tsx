@@ -16,7 +16,7 @@ const problem = (status: number, body: object) => json({ status, title: 'Bad req
 function renderEstimate(handlers: Record<string, (init?: RequestInit) => Response>) {
   const net = fakeFetch({
     '/api/auth/csrf': () => json({ csrfToken: 't' }),
-    '/api/auth/me': () => json(SALES),
+    '/api/auth/session': () => json(SALES),
     '/api/calc/catalog': () => json(CALC),
     '/api/quotes?': () => json({ rows: [], total: 0, page: 1, pageSize: 100 }),
     '/api/customers/3': () => json(customer),

@@ -13,7 +13,7 @@ const SALES = { user: { ...ME.user, id: 3, role: 'sales', name: 'Saskia Threlfal
 function renderQuote(role: string, send: () => Response) {
   const net = fakeFetch({
     '/api/auth/csrf': () => json({ csrfToken: 't' }),
-    '/api/auth/me': () => json({ user: { ...SALES.user, role } }),
+    '/api/auth/session': () => json({ user: { ...SALES.user, role } }),
     '/api/quotes/55/send': send,
     '/api/quotes/55': () => json(QUOTE),
     '/api/outbox?status=failed': () =>

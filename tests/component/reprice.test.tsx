@@ -9,7 +9,7 @@ import { fakeFetch, json, renderWithApp, queriesSettled } from './render';
 afterEach(() => vi.unstubAllGlobals());
 
 const row = (id: number, number: string, customer: string, oldTotal: string, newTotal: string, state: RepriceRow['state'] = 'draft'): RepriceRow => ({
-  id, number, title: `Repolish for ${customer}`, customer, state, catalogVersion: 'pl-0ld0ld0ld0ld', oldTotal, newTotal, currency: 'GBP',
+  id, number, title: `Repolish for ${customer}`, customer, state, catalogVersion: 'pl-0ld0ld0ld0ld', priceList: 'prices of 2 Nov 2026', oldTotal, newTotal, currency: 'GBP',
 });
 
 const ROWS: RepriceRow[] = [
@@ -24,7 +24,7 @@ function repriceServer({ fail = false }: { fail?: boolean } = {}) {
   const net = fakeFetch({
     '/api/auth/csrf': () => json({ csrfToken: 'tok' }),
     '/api/estimates/reprice': (init) => {
-      if (init?.method !== 'POST') return json({ catalogVersion: 'pl-t0day0t0day', rows } satisfies RepriceCandidates);
+      if (init?.method !== 'POST') return json({ catalogVersion: 'pl-t0day0t0day', priceList: "today's prices (in use since 2 Dec 2026)", rows } satisfies RepriceCandidates);
       if (fail) return json({ type: 'x', title: 'Conflict', status: 409, code: 'estimate_closed', detail: 'Estimate E-2027-0005 is quoted: it can no longer be revised.' }, 409, 'application/problem+json');
       const { ids } = JSON.parse(String(init.body)) as { ids: number[] };
       const done = rows.filter((r) => ids.includes(r.id));
@@ -123,7 +123,7 @@ describe('RepricePage', () => {
   });
 
   it('says so when every open estimate is on today’s prices', async () => {
-    vi.stubGlobal('fetch', fakeFetch({ '/api/estimates/reprice': () => json({ catalogVersion: 'pl-t0day0t0day', rows: [] }) }).fn);
+    vi.stubGlobal('fetch', fakeFetch({ '/api/estimates/reprice': () => json({ catalogVersion: 'pl-t0day0t0day', priceList: "today's prices", rows: [] }) }).fn);
     renderWithApp(<RepricePage />);
     expect(await screen.findByText(/Every open estimate uses today's prices/)).toBeTruthy();
     expect(screen.queryByRole('button', { name: /^Reprice selected/ })).toBeNull();
@@ -140,7 +140,7 @@ describe('RepriceNotice', () => {
   });
 
   it('shows nothing when no open estimate is out of date', async () => {
-    const net = fakeFetch({ '/api/estimates/reprice': () => json({ catalogVersion: 'pl-t0day0t0day', rows: [] }) });
+    const net = fakeFetch({ '/api/estimates/reprice': () => json({ catalogVersion: 'pl-t0day0t0day', priceList: "today's prices", rows: [] }) });
     vi.stubGlobal('fetch', net.fn);
     const { container, queryClient } = renderWithApp(<RepriceNotice />);
     // Not a wait for time to pass: the answer has arrived and been rendered, and the notice is still empty.

@@ -1,3 +1,4 @@
+import '../../shared/schemas/error-map';
 import { cleanup, configure } from '@testing-library/react';
 import { afterEach } from 'vitest';
 

@@ -5,11 +5,11 @@ import { fakeFetch, json, renderWithApp } from './render';
 
 afterEach(() => vi.unstubAllGlobals());
 
-const signedOut = () => json({ status: 401, code: 'unauthenticated', title: 'Sign in required' }, 401, 'application/problem+json');
+const signedOut = () => json({ user: null });
 
 describe('SignInPage', () => {
   it('names the empty fields without calling the server', async () => {
-    const net = fakeFetch({ '/api/auth/me': signedOut });
+    const net = fakeFetch({ '/api/auth/session': signedOut });
     vi.stubGlobal('fetch', net.fn);
     renderWithApp(<SignInPage />, { route: '/signin' });
     fireEvent.click(await screen.findByRole('button', { name: 'Sign in' }));
@@ -19,7 +19,7 @@ describe('SignInPage', () => {
 
   it("shows the server's message when the password is wrong", async () => {
     const net = fakeFetch({
-      '/api/auth/me': signedOut,
+      '/api/auth/session': signedOut,
       '/api/auth/csrf': () => json({ csrfToken: 'abc' }),
       '/api/auth/login': () =>
         json({ status: 401, code: 'invalid_credentials', title: 'Sign-in failed', detail: 'That e-mail and password do not match an active account.' }, 401, 'application/problem+json'),

@@ -330,10 +330,13 @@ describe('one job through the whole workshop, in a real browser', () => {
     await expect.poll(() => priceRow.first().textContent()).toMatch(new RegExp(`${story.oldSpiritPrice!.replace('.', '\\.')}£${NEW_SPIRIT_PRICE.replace('.', '\\.')}from`));
     await screenshot(page, 'journey-18-owner-audit-price');
     await page.getByLabel('Record').selectOption('job');
-    const bookingRow = log.getByRole('row').filter({ hasText: new RegExp(`book\\s*job\\s*#${jobId}(?!\\d)`) });
+    // Records are named as people name them: the job's number, linked to its page.
+    const jobNumber = need('jobNumber');
+    const bookingRow = log.getByRole('row').filter({ hasText: new RegExp(`booked\\s*Job\\s*${jobNumber}(?!\\d)`) });
     await expect.poll(() => bookingRow.count()).toBe(1);
     expect(await bookingRow.textContent()).toMatch(/stateunbooked.*booked.*modeearliest/);
-    const doneRow = log.getByRole('row').filter({ hasText: new RegExp(`session done\\s*job\\s*#${jobId}(?!\\d)`) });
+    const doneRow = log.getByRole('row').filter({ hasText: new RegExp(`logged a session of\\s*Job\\s*${jobNumber}(?!\\d)`) });
+    expect(await bookingRow.getByRole('link', { name: jobNumber }).getAttribute('href')).toBe(`/planning/jobs/${jobId}`);
     await expect.poll(() => doneRow.textContent()).toMatch(/sessionStrip the old finish.*actual hours4\.25/);
     await screenshot(page, 'journey-19-owner-audit-booking');
     expect(errors).toEqual([]);

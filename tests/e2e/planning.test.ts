@@ -1,4 +1,5 @@
 import type { Browser, Page } from 'playwright-core';
+import sharp from 'sharp';
 import request from 'supertest';
 import { afterAll, beforeAll, describe, expect, it } from 'vitest';
 import { DEMO_PASSWORD } from '../../server/seeders/demo';
@@ -150,6 +151,51 @@ describe('planning, in a real browser', () => {
     await expect.poll(() => page.getByRole('row').filter({ hasText: /flakes/i }).count()).toBeGreaterThan(0);
     expect(await page.getByTestId('forecast-total').textContent()).toMatch(/^£[\d,]+\.\d{2}$/);
     await screenshot(page, 'planning-forecast');
+    expect(errors).toEqual([]);
+    await context.close();
+  });
+
+  it('the polisher, on a phone, marks today\u2019s session done with the materials used, a problem and a camera photo', async () => {
+    const context = await browser.newContext({ viewport: { width: 390, height: 844 }, isMobile: true, hasTouch: true });
+    const page = await context.newPage();
+    const errors = watchConsole(page);
+    await page.goto(`${server.baseUrl}/signin`);
+    await page.getByLabel('E-mail').fill(demoEmail('workshop'));
+    await page.getByLabel('Password').fill(DEMO_PASSWORD);
+    await page.getByRole('button', { name: 'Sign in' }).click();
+    await page.waitForURL((u) => !u.pathname.startsWith('/signin'));
+    await page.getByRole('button', { name: 'Menu' }).click();
+    await page.getByRole('navigation', { name: 'Main' }).getByRole('link', { name: 'Planning' }).click();
+    const today = page.getByRole('list', { name: 'Sessions due today' });
+    await today.waitFor();
+    const mark = today.getByRole('button', { name: /^Mark JOB-\S+ .* done$/ }).first();
+    // Big enough for a thumb.
+    const box = (await mark.boundingBox())!;
+    expect(box.height).toBeGreaterThanOrEqual(44);
+    const label = (await mark.getAttribute('aria-label'))!;
+    const jobNumber = /^Mark (JOB-\S+)/.exec(label)![1]!;
+    await mark.click();
+    const dialog = page.getByRole('dialog');
+    await dialog.getByLabel('Notes').fill('Second bodying session on the lid; good build.');
+    await dialog.getByLabel('Materials used (optional)').fill('300 mL of 1.5 lb cut, a little pumice');
+    await dialog.getByLabel('Something went wrong').check();
+    await dialog.getByLabel('What went wrong').fill('A ring of blush near the hinge after the damp morning.');
+    const camera = dialog.getByLabel('Photo of the work (optional)');
+    expect(await camera.getAttribute('capture')).toBe('environment');
+    const png = await sharp({ create: { width: 64, height: 48, channels: 3, background: '#5a3520' } }).png().toBuffer();
+    await camera.setInputFiles({ name: 'lid.png', mimeType: 'image/png', buffer: png });
+    // The dialog fits the phone: nothing sticks out sideways.
+    expect(await page.evaluate(() => document.documentElement.scrollWidth)).toBeLessThanOrEqual(390);
+    await screenshot(page, 'planning-phone-mark-done');
+    await dialog.getByRole('button', { name: 'Mark done' }).click();
+    await expect.poll(() => dialog.getByText('The photo is with the piece\u2019s photos.', { exact: false }).count()).toBe(1);
+    await dialog.getByRole('button', { name: 'OK', exact: true }).click();
+
+    await page.getByRole('link', { name: jobNumber }).first().click();
+    await page.getByRole('heading', { level: 1 }).filter({ hasText: jobNumber }).waitFor();
+    await expect.poll(() => page.getByText('Problem: A ring of blush near the hinge after the damp morning.').count()).toBe(1);
+    expect(await page.getByText('Materials: 300 mL of 1.5 lb cut, a little pumice').count()).toBe(1);
+    await screenshot(page, 'planning-phone-job-with-problem');
     expect(errors).toEqual([]);
     await context.close();
   });

@@ -10,7 +10,7 @@ let browser: Browser;
 let server: Awaited<ReturnType<typeof startServer>>;
 
 beforeAll(async () => {
-  server = await startServer();
+  server = await startServer({ services: true });
   browser = await launchBrowser();
 });
 afterAll(async () => {
@@ -77,5 +77,58 @@ describe('signing in, in a real browser', () => {
     await expect.poll(() => page.getByRole('cell', { name: email }).count()).toBe(1);
     await screenshot(page, 'users-added');
     await page.close();
+  });
+
+  it('a person who forgot the password asks for a link from the sign-in page and chooses a new one from the e-mail', async () => {
+    // A person of their own, so the demo accounts the other tests use keep their password.
+    const owner = await browser.newContext();
+    const op = await owner.newPage();
+    await op.goto(`${server.baseUrl}/signin`);
+    await op.getByLabel('E-mail').fill(demoEmail('owner'));
+    await op.getByLabel('Password').fill(DEMO_PASSWORD);
+    await op.getByRole('button', { name: 'Sign in' }).click();
+    await op.getByTestId('current-role').waitFor();
+    const csrf = ((await (await op.request.get(`${server.baseUrl}/api/auth/csrf`)).json()) as { csrfToken: string }).csrfToken;
+    const email = `forgetful-${Date.now()}@example.com`;
+    const made = await op.request.post(`${server.baseUrl}/api/users`, { data: { email, name: 'Ivo Forgetful', role: 'sales', password: 'the first long password' }, headers: { 'x-csrf-token': csrf } });
+    expect(made.status()).toBe(201);
+    await owner.close();
+
+    const context = await browser.newContext({ viewport: { width: 390, height: 844 }, isMobile: true, hasTouch: true });
+    const page = await context.newPage();
+    const errors = watchConsole(page);
+    await page.goto(`${server.baseUrl}/signin`);
+    await page.getByRole('link', { name: 'Forgot your password?' }).click();
+    await page.getByRole('heading', { level: 1, name: 'Set a new password' }).waitFor();
+    const before = server.services!.mail!.messages.length;
+    await page.getByLabel('E-mail').fill(email);
+    await page.getByRole('button', { name: 'E-mail me a link' }).click();
+    await expect.poll(() => page.getByText('a link to set a new password is on its way').count()).toBe(1);
+    await screenshot(page, 'password-reset-asked');
+    await expect.poll(() => server.services!.mail!.messages.length).toBe(before + 1);
+    const raw = server.services!.mail!.messages.at(-1)!.raw.replace(/=\r?\n/g, '').replace(/=3D/g, '=');
+    const path = /\/reset-password\/[A-Za-z0-9_-]+/.exec(raw)![0];
+
+    await page.goto(`${server.baseUrl}${path}`);
+    await page.getByRole('heading', { level: 1, name: 'Choose a new password' }).waitFor();
+    await page.getByLabel('New password', { exact: true }).fill('a second long password');
+    await page.getByLabel('The same password again').fill('a second long password');
+    await page.getByRole('button', { name: 'Set the new password' }).click();
+    await expect.poll(() => page.getByText('Your new password is set').count()).toBe(1);
+    await screenshot(page, 'password-reset-done');
+    await page.getByRole('link', { name: 'Sign in with it now' }).click();
+    await page.getByLabel('E-mail').fill(email);
+    await page.getByLabel('Password').fill('a second long password');
+    await page.getByRole('button', { name: 'Sign in' }).click();
+    // The first visit shows where a seller starts.
+    await page.getByTestId('where-to-start').waitFor();
+    expect(await page.getByTestId('where-to-start').getByRole('link').allTextContents()).toEqual(['Estimates', 'Quotes', 'Outbox']);
+    await screenshot(page, 'first-visit-where-to-start-phone');
+    await page.getByRole('button', { name: 'Close: I know my way' }).click();
+    await page.reload();
+    await page.getByRole('heading', { level: 1 }).waitFor();
+    expect(await page.getByTestId('where-to-start').count()).toBe(0);
+    expect(errors).toEqual([]);
+    await context.close();
   });
 });

@@ -54,12 +54,30 @@ export async function screenshot(page: Page, name: string): Promise<void> {
   await page.screenshot({ path: path.join(artifactsDir, `${name}.png`), fullPage: true });
 }
 
-/** Collects console errors and failed requests other than the expected signed-out 401 from /api/auth/me. */
-export function watchConsole(page: Page): string[] {
+/**
+ * Collects everything the browser complains about: console errors and warnings (a logged 401 or a router warning
+ * included), uncaught page errors and requests that failed (API reads the app cancelled itself excepted). Each journey ends with
+ * `expect(errors).toEqual([])`. `allow` names the few complaints a step provokes on purpose (a wrong password's 401).
+ */
+export function watchConsole(page: Page, allow: RegExp[] = []): string[] {
   const errors: string[] = [];
+  const allowed = (text: string) => allow.some((re) => re.test(text));
   page.on('pageerror', (e) => errors.push(`pageerror: ${e.message}`));
   page.on('console', (m) => {
-    if (m.type() === 'error' && !/401 \(Unauthorized\)/.test(m.text())) errors.push(m.text());
+    if ((m.type() === 'error' || m.type() === 'warning') && !allowed(m.text())) errors.push(`${m.type()}: ${m.text()} (${m.location().url})`);
+  });
+  page.on('requestfailed', (r) => {
+    const text = `request failed: ${r.method()} ${r.url()} ${r.failure()?.errorText ?? ''}`;
+    // A read the app itself cancelled because a newer one replaced it (a filter changed, the page moved on) is the
+    // query cache at work, not a failure; the browser logs nothing for it. A cancelled write still counts.
+    const superseded = r.method() === 'GET' && r.failure()?.errorText === 'net::ERR_ABORTED' && new URL(r.url()).pathname.startsWith('/api/');
+    if (!superseded && !allowed(text)) errors.push(text);
   });
   return errors;
+}
+
+/** Waits until the page has no requests in flight and has painted what they brought. */
+export async function settle(page: Page): Promise<void> {
+  await page.waitForLoadState('networkidle');
+  await page.evaluate(() => new Promise((resolve) => requestAnimationFrame(() => requestAnimationFrame(resolve))));
 }

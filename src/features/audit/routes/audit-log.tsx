@@ -1,4 +1,5 @@
 import { ArrowRight, FilterX } from 'lucide-react';
+import { Link } from 'react-router-dom';
 import { AUDIT_ENTITY_LABELS, type AuditEntryDto, type AuditQuery } from '@shared/schemas/audit';
 import { Button } from '@/components/button';
 import { PageHeader } from '@/components/card';
@@ -18,15 +19,55 @@ const ACTION_WORDS: Record<string, string> = {
   restore: 'restored',
   apply: 'applied',
   password_reset: 'reset the password of',
+  revise: 'revised',
+  reprice: 'repriced',
+  state: 'moved on',
+  calibrate: 'calibrated',
+  cancel: 'cancelled',
+  book: 'booked',
+  move: 'moved',
+  'session-done': 'logged a session of',
+  send: 'sent',
+  accept: 'accepted',
+  decline: 'declined',
+  withdraw: 'withdrew',
+  deposit_paid: 'received the deposit for',
+  caption: 'captioned',
+};
+
+/** Whole actions whose words depend on the record more than on the verb. */
+const WHOLE_ACTIONS: Record<string, string> = {
+  'photo.add': 'added photos to',
+  'photo.delete': 'removed a photo from',
+  'stock.update': 'counted the stock of',
+  'quote.accept': 'the customer accepted',
+  'quote.decline': 'the customer declined',
+  'user.password_reset_requested': 'a password link was asked for',
+  'user.password_reset_by_link': 'set a new password by link:',
 };
 
 function describeAction(action: string): string {
+  if (WHOLE_ACTIONS[action]) return WHOLE_ACTIONS[action];
   const [, verb = action] = action.split('.');
   return ACTION_WORDS[verb] ?? verb.replace(/[-_]/g, ' ');
 }
 
+/** Internal working the log keeps for the record but never shows: payment-session ids, outbox ids, price-list hashes. */
+const HIDDEN = new Set(['outbox', 'catalogVersion', 'photos', 'photo', 'copiedFrom', 'key']);
+/** A value that is a machine's reference (a payment session "cs_…"), not words: kept, not shown. */
+const MACHINE_ID = /^[a-z]{2,6}_[A-Za-z0-9_]{8,}$/;
+
 function show(v: unknown, key = '', currency = ''): string {
   if (v === null || v === undefined) return '—';
+  const leafKey = key.split('.').at(-1) ?? key;
+  // Money the payment provider counts in minor units (pence) reads as money.
+  if (leafKey === 'amountMinor' && currency && /^-?\d+$/.test(String(v))) {
+    const minor = BigInt(String(v));
+    const sign = minor < 0n ? '-' : '';
+    const abs = minor < 0n ? -minor : minor;
+    return formatMoney(`${sign}${abs / 100n}.${String(abs % 100n).padStart(2, '0')}`, currency);
+  }
+  if ((leafKey === 'total' || leafKey === 'deposit' || leafKey === 'amount') && currency && /^-?\d+(\.\d+)?$/.test(String(v))) return formatMoney(String(v), currency);
   if (Array.isArray(v)) return `${v.length} item${v.length === 1 ? '' : 's'}`;
   if (typeof v === 'object') return JSON.stringify(v).slice(0, 60);
   if (typeof v === 'boolean') return v ? 'yes' : 'no';
@@ -39,7 +80,18 @@ function show(v: unknown, key = '', currency = ''): string {
 }
 
 /** Field names as the page says them. */
-const FIELD_WORDS: Record<string, string> = { price: 'price', effectiveFrom: 'from', changePct: 'change', source: 'source', perHour: 'rate', supplierCode: 'supplier code' };
+const FIELD_WORDS: Record<string, string> = {
+  price: 'price',
+  effectiveFrom: 'from',
+  changePct: 'change',
+  source: 'source',
+  perHour: 'rate',
+  supplierCode: 'supplier code',
+  amountMinor: 'amount',
+  ip: 'from the address',
+  to: 'sent to',
+  discountPct: 'discount',
+};
 function fieldWords(k: string): string {
   return (
     FIELD_WORDS[k] ??
@@ -62,7 +114,7 @@ export function ChangeSummary({ before, after, currency }: { before: unknown; af
   // JSONB keeps keys in its own order: put the naming fields and the price first.
   const context = CONTEXT_KEYS.filter((k) => keys.includes(k) && JSON.stringify(a[k] ?? b[k]) === JSON.stringify(b[k] ?? a[k]));
   const rank = (k: string) => (FIRST.includes(k) ? FIRST.indexOf(k) : FIRST.length);
-  const changed = keys.filter((k) => !context.includes(k) && JSON.stringify(a[k]) !== JSON.stringify(b[k])).sort((x, y) => rank(x) - rank(y));
+  const changed = keys.filter((k) => !context.includes(k) && !HIDDEN.has(k) && !MACHINE_ID.test(String(a[k] ?? b[k])) && JSON.stringify(a[k]) !== JSON.stringify(b[k])).sort((x, y) => rank(x) - rank(y));
   return (
     <div className="max-w-xl text-sm">
       {context.length > 0 && <p className="font-medium text-walnut-800">{context.map((k) => show(a[k] ?? b[k], k, currency)).join(', ')}</p>}
@@ -105,7 +157,11 @@ export function AuditLogPage() {
       render: (e) => (
         <span className="whitespace-nowrap">
           {describeAction(e.action)} <span className="rounded bg-parchment-100 px-1.5 py-0.5 text-xs text-walnut-700">{AUDIT_ENTITY_LABELS[e.entityType] ?? e.entityType}</span>
-          {e.entityId && <span className="ml-1 font-mono text-xs text-walnut-400">#{e.entityId.slice(0, 8)}</span>}
+          {e.subject && (
+            <Link to={e.subject.path} className="ml-1.5 font-medium text-walnut-800 underline decoration-walnut-300 underline-offset-2 hover:decoration-walnut-700">
+              {e.subject.label}
+            </Link>
+          )}
         </span>
       ),
     },

@@ -1,18 +1,13 @@
 import { queryOptions, useQuery } from '@tanstack/react-query';
 import type { User } from '@shared/schemas/auth';
-import { api, ApiError } from '@/lib/api';
+import { api } from '@/lib/api';
 
 export const authKeys = { me: ['auth', 'me'] as const };
 
 /** The signed-in user, or null when signed out. */
 export async function getMe(): Promise<User | null> {
-  try {
-    const { user } = await api<{ user: User }>('/api/auth/me');
-    return user;
-  } catch (err) {
-    if (err instanceof ApiError && err.status === 401) return null;
-    throw err;
-  }
+  const { user } = await api<{ user: User | null }>('/api/auth/session');
+  return user;
 }
 
 export const meQueryOptions = queryOptions({ queryKey: authKeys.me, queryFn: getMe, staleTime: 60_000 });

@@ -1,5 +1,5 @@
 import { useState, type FormEvent } from 'react';
-import { Navigate, useNavigate, useSearchParams } from 'react-router-dom';
+import { Link, Navigate, useNavigate, useSearchParams } from 'react-router-dom';
 import { LoginSchema } from '@shared/schemas/auth';
 import { Alert } from '@/components/alert';
 import { Button } from '@/components/button';
@@ -86,6 +86,11 @@ export function SignInPage() {
           <Button type="submit" className="w-full" busy={signIn.isPending}>
             Sign in
           </Button>
+          <p className="text-center text-sm">
+            <Link to={paths.forgotPassword} className="text-walnut-700 underline decoration-walnut-300 underline-offset-2 hover:text-walnut-900">
+              Forgot your password?
+            </Link>
+          </p>
         </form>
       </div>
     </div>

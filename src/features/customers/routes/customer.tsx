@@ -125,7 +125,7 @@ export function CustomerPage() {
         </div>
       </div>
       {archive.isError && <div className="mb-4"><Alert tone="error" title="Not changed">{archive.error.message}</Alert></div>}
-      <div className="grid items-start gap-6 xl:grid-cols-[20rem_minmax(0,1fr)]">
+      <div className="grid grid-cols-1 items-start gap-6 xl:grid-cols-[20rem_minmax(0,1fr)]">
         <Card title="Details">
           <dl className="space-y-3 text-sm">
             <div className="flex gap-2"><dt><Mail className="mt-0.5 h-4 w-4 text-walnut-400" aria-hidden /><span className="sr-only">E-mail</span></dt><dd>{c.email ? <a className="underline" href={`mailto:${c.email}`}>{c.email}</a> : '—'}</dd></div>

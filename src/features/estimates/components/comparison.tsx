@@ -7,7 +7,7 @@ import { formatArea, formatMass, formatQuantity, formatVolume } from '../lib/mea
 
 function Section({ title, children, id, empty }: { title: string; children: ReactNode; id: string; empty?: boolean }) {
   return (
-    <section aria-labelledby={id} className="rounded-xl border border-parchment-200 bg-white shadow-card">
+    <section aria-labelledby={id} className="min-w-0 rounded-xl border border-parchment-200 bg-white shadow-card">
       <h2 id={id} className="border-b border-parchment-200 px-4 py-2.5 text-base font-semibold text-walnut-800">
         {title}
       </h2>

@@ -7,6 +7,7 @@ import { UnitParseError } from '@shared/units';
 import { Alert } from '@/components/alert';
 import { Button } from '@/components/button';
 import { ApiError } from '@/lib/api';
+import { clearBrowserDraft, useBrowserDraft, useOnline } from '@/lib/browser-draft';
 import type { CalcCatalog } from '../api/catalog';
 import { useDisplayUnits } from '../lib/display-units';
 import {
@@ -41,6 +42,11 @@ export interface EstimateEditorProps {
   onCancel?: () => void;
   /** Local date the engine uses when no start date is given (tests pin it). */
   today?: string;
+  /**
+   * Where this browser keeps what is typed until it is saved (one key per new estimate of a piece, or per revision
+   * being edited): offered again on return after a dropped connection or a closed tab. The page clears it on save.
+   */
+  draftKey?: string;
 }
 
 type Outcome = { ok: true; result: EstimateResult } | { ok: false; errors: Record<string, string> };
@@ -74,9 +80,11 @@ function serverErrors(error: unknown): Record<string, string> {
  * The estimate editor: the piece (template or parts table), the finishing system and its stages, the job's
  * climate, start and discount; the shared engine prices it on every change, as the finisher types.
  */
-export function EstimateEditor({ calc, pieceKind, initial, saveLabel, saving = false, saveError, notice, onSave, onCancel, today }: EstimateEditorProps) {
+export function EstimateEditor({ calc, pieceKind, initial, saveLabel, saving = false, saveError, notice, onSave, onCancel, today, draftKey }: EstimateEditorProps) {
   const { catalog, settings } = calc;
   const [draft, setDraft] = useState<EstimateDraft>(initial);
+  const kept = useBrowserDraft(draftKey, draft, initial);
+  const online = useOnline();
   const [units, setUnits] = useDisplayUnits(settings.units);
   const [templateError, setTemplateError] = useState<string>();
   const [submitted, setSubmitted] = useState(false);
@@ -135,6 +143,41 @@ export function EstimateEditor({ calc, pieceKind, initial, saveLabel, saving = f
 
   return (
     <form onSubmit={submit} noValidate className="space-y-6" aria-label="Estimate">
+      {kept.found && (
+        <Alert tone="warning" title="Unsaved work on this device">
+          <p>
+            What you typed here on {new Date(kept.found.savedAt).toLocaleString('en-GB', { dateStyle: 'medium', timeStyle: 'short' })} was never saved to the workshop. Restore it to carry on, or
+            discard it to start from the figures below.
+          </p>
+          <div className="mt-2 flex flex-wrap gap-2">
+            <Button
+              size="sm"
+              variant="accent"
+              onClick={() => {
+                setDraft(kept.found!.value);
+                kept.dismiss();
+              }}
+            >
+              Restore my unsaved work
+            </Button>
+            <Button
+              size="sm"
+              variant="ghost"
+              onClick={() => {
+                if (draftKey) clearBrowserDraft(draftKey);
+                kept.dismiss();
+              }}
+            >
+              Discard it
+            </Button>
+          </div>
+        </Alert>
+      )}
+      {!online && (
+        <Alert tone="warning" title="No connection">
+          What you type is kept on this device and offered again if the page is closed. Save once the connection is back.
+        </Alert>
+      )}
       {calc.warnings.length > 0 && (
         <Alert tone="warning" title="The price list needs attention">
           <ul className="list-disc pl-4">
@@ -144,7 +187,7 @@ export function EstimateEditor({ calc, pieceKind, initial, saveLabel, saving = f
           </ul>
         </Alert>
       )}
-      <div className="grid items-start gap-6 xl:grid-cols-[minmax(0,1fr)_26rem]">
+      <div className="grid grid-cols-1 items-start gap-6 xl:grid-cols-[minmax(0,1fr)_26rem]">
         <div className="min-w-0 space-y-6">
           <Panel
             title="The piece"

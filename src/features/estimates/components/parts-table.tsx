@@ -144,7 +144,7 @@ function PartRowView({ part: p, index: i, errors, areaM2, canRemove, unit, units
           <Trash2 className="h-3.5 w-3.5" aria-hidden />
         </Button>
       </div>
-      <div className="mt-2 grid grid-cols-2 gap-2 pl-8 md:grid-cols-4 xl:grid-cols-6">
+      <div className="mt-2 grid grid-cols-2 gap-2 pl-8 sm:grid-cols-[repeat(auto-fill,minmax(9.5rem,1fr))]">
         <MiniSelect<ShapeKind> showLabel label="Shape" value={p.shape.kind} options={SHAPES} onChange={(kind) => set({ shape: setShapeKind(p.shape, kind) })} />
         {SHAPE_FIELDS[p.shape.kind].map((f) => (
           <LengthInput
@@ -172,7 +172,7 @@ function PartRowView({ part: p, index: i, errors, areaM2, canRemove, unit, units
         />
         {p.shape.kind === 'polygon' && <PointsField part={p} index={i} errors={errors} onPoints={(points) => set({ shape: { ...p.shape, points } })} />}
       </div>
-      <div className="mt-2 grid grid-cols-2 items-start gap-2 pl-8 md:grid-cols-4 xl:grid-cols-6">
+      <div className="mt-2 grid grid-cols-2 items-start gap-2 pl-8 sm:grid-cols-[repeat(auto-fill,minmax(9.5rem,1fr))]">
         <MiniSelect showLabel label="Wood" value={p.species} options={speciesOptions} onChange={(v) => set({ species: v })} error={messageAt(errors, `${at}.species`)} />
         <MiniSelect showLabel label="Complexity" value={p.complexity} options={COMPLEXITIES.map((c) => ({ value: c, label: COMPLEXITY_LABELS[c] }))} onChange={(v) => set({ complexity: v })} />
         <div className="flex flex-col gap-1 pt-4">

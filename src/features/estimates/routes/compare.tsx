@@ -84,7 +84,7 @@ export function CompareRevisionsPage() {
       {failed && <Alert tone="error" title="A revision could not be loaded">{failed.message}</Alert>}
       {!diff && !failed && <Spinner label="Loading both revisions…" />}
       {diff && revB.data && (
-        <div className="grid items-start gap-6 xl:grid-cols-[minmax(0,1fr)_24rem]">
+        <div className="grid grid-cols-1 items-start gap-6 xl:grid-cols-[minmax(0,1fr)_24rem]">
           <Comparison diff={diff} units={units} />
           <CautionsPanel result={revB.data.result} units={units} compact />
         </div>

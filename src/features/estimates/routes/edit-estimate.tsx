@@ -17,6 +17,7 @@ import { estimateQueryOptions, useCreateRevision, useEstimate } from '../api/est
 import { EstimateEditor, type SavePayload } from '../components/estimate-editor';
 import { StateBadge } from '../components/state-badge';
 import { draftFromInput } from '../lib/draft';
+import { clearBrowserDraft } from '@/lib/browser-draft';
 import { formatWhen } from '../lib/format';
 
 function kindOf(kind: string): PieceKind {
@@ -33,10 +34,17 @@ function ReviseForm({ detail, calc }: { detail: EstimateDetail; calc: CalcCatalo
   const [rebased, setRebased] = useState<EstimateDetail | null>(null);
   const conflict = revise.error instanceof ApiError && revise.error.code === 'stale_revision';
 
+  // Kept per revision it started from: a draft typed over an older revision is not offered over a newer one.
+  const draftKey = `estimate:${detail.id}:from-revision:${detail.current.number}`;
   const save = ({ input, title, note }: SavePayload) =>
     revise.mutate(
       { baseRevision: base, input, ...(title ? { title } : {}), ...(note ? { note } : {}) },
-      { onSuccess: (d) => navigate(pathTo.estimate(d.id), { state: { saved: d.current.number } }) },
+      {
+        onSuccess: (d) => {
+          clearBrowserDraft(draftKey);
+          navigate(pathTo.estimate(d.id), { state: { saved: d.current.number } });
+        },
+      },
     );
 
   const reload = async () => {
@@ -75,6 +83,7 @@ function ReviseForm({ detail, calc }: { detail: EstimateDetail; calc: CalcCatalo
       calc={calc}
       pieceKind={kindOf(detail.piece.kind)}
       initial={initial}
+      draftKey={draftKey}
       saveLabel={`Save as revision ${base + 1}`}
       saving={revise.isPending}
       saveError={revise.error ?? undefined}

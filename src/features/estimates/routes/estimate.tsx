@@ -140,7 +140,7 @@ export function EstimatePage() {
       <div className="space-y-4">
         {saved !== undefined && saved === d.current.number && (
           <Alert tone="info" title={`Revision ${saved} saved`}>
-            The figures below are the server's own, worked out again from your inputs with the price list in force ({d.current.catalogVersion}).
+            The figures below are the server's own, worked out again from your inputs with the price list in force ({d.current.priceList || "today's prices"}).
           </Alert>
         )}
         {actionError && <Alert tone="error" title="That did not work">{actionError.message}</Alert>}
@@ -148,7 +148,7 @@ export function EstimatePage() {
       <div className="mb-3 mt-4 flex justify-end">
         <UnitsToggle value={units} onChange={setUnits} />
       </div>
-      <div className="grid items-start gap-6 xl:grid-cols-2">
+      <div className="grid grid-cols-1 items-start gap-6 xl:grid-cols-2">
         <div className="space-y-6">
           <ResultsSummary result={result} units={units} heading={`Revision ${d.current.number}: the server's figures`} />
           <RevisionsList estimateId={d.id} revisions={d.revisions} current={d.current.number} currency={d.currency} />

@@ -10,22 +10,30 @@ import { useCalcCatalog, type CalcCatalog } from '../api/catalog';
 import { useCreateEstimate } from '../api/estimates';
 import { EstimateEditor, type SavePayload } from '../components/estimate-editor';
 import { newDraft } from '../lib/draft';
+import { clearBrowserDraft } from '@/lib/browser-draft';
 import type { Piece } from '@shared/schemas/customers';
 
 function NewEstimateForm({ piece, calc }: { piece: Piece; calc: CalcCatalog }) {
   const navigate = useNavigate();
   const create = useCreateEstimate();
   const [initial] = useState(() => newDraft(piece, calc.catalog, calc.settings));
+  const draftKey = `new-estimate:piece:${piece.id}`;
   const save = ({ input, title, note }: SavePayload) =>
     create.mutate(
       { customerId: piece.customerId, pieceId: piece.id, input, ...(title ? { title } : {}), ...(note ? { note } : {}) },
-      { onSuccess: (detail) => navigate(pathTo.estimate(detail.id), { state: { saved: detail.current.number } }) },
+      {
+        onSuccess: (detail) => {
+          clearBrowserDraft(draftKey);
+          navigate(pathTo.estimate(detail.id), { state: { saved: detail.current.number } });
+        },
+      },
     );
   return (
     <EstimateEditor
       calc={calc}
       pieceKind={piece.kind}
       initial={initial}
+      draftKey={draftKey}
       saveLabel="Save estimate"
       saving={create.isPending}
       saveError={create.error ?? undefined}

@@ -6,6 +6,7 @@ import { Card, PageHeader } from '@/components/card';
 import { Spinner } from '@/components/spinner';
 import { useMe } from '@/features/auth/api/get-me';
 import { useWorkshop } from '@/features/workshop/api/get-workshop';
+import { WhereToStart } from '../components/where-to-start';
 
 const DAY_NAMES: Record<(typeof WEEKDAYS)[number], string> = {
   mon: 'Monday',
@@ -24,10 +25,11 @@ export function OverviewPage() {
   return (
     <>
       <PageHeader title={`Good to see you, ${user.name.split(' ')[0]}`} description={`Signed in as ${ROLE_LABELS[user.role]}. ${ROLE_DUTIES[user.role]}`} />
+      <WhereToStart userId={user.id} role={user.role} />
       {workshop.isPending && <Spinner />}
       {workshop.isError && <Alert tone="error" title="The workshop could not be loaded">{workshop.error.message}</Alert>}
       {workshop.data && (
-        <div className="grid gap-6 lg:grid-cols-2">
+        <div className="grid grid-cols-1 gap-6 lg:grid-cols-2">
           <Card title={<span className="inline-flex items-center gap-2"><Building2 className="h-4 w-4 text-amber-600" aria-hidden /> {workshop.data.name}</span>}>
             <dl className="grid grid-cols-[8rem_1fr] gap-y-2 text-sm">
               <dt className="text-walnut-500">Address</dt>

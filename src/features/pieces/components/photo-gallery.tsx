@@ -15,13 +15,20 @@ interface Pending {
 
 const MB = 1024 * 1024;
 
+/** A file's size as people read it: "340 KB" for a small photo, "2.4 MB" for a large one. */
+export function fileSize(bytes: number): string {
+  if (bytes < 1024) return `${bytes} bytes`;
+  if (bytes < MB) return `${Math.max(1, Math.round(bytes / 1024))} KB`;
+  return `${(bytes / MB).toFixed(1)} MB`;
+}
+
 /** Checks files against what the server accepts, before sending them. */
 export function checkFiles(files: File[], already: number): { ok: File[]; problems: string[] } {
   const ok: File[] = [];
   const problems: string[] = [];
   for (const f of files) {
     if (!(PHOTO_LIMITS.types as readonly string[]).includes(f.type)) problems.push(`${f.name}: not a JPEG, PNG or WebP image.`);
-    else if (f.size > PHOTO_LIMITS.maxBytes) problems.push(`${f.name}: ${(f.size / MB).toFixed(1)} MB is over the ${PHOTO_LIMITS.maxBytes / MB} MB limit.`);
+    else if (f.size > PHOTO_LIMITS.maxBytes) problems.push(`${f.name}: ${fileSize(f.size)} is over the ${PHOTO_LIMITS.maxBytes / MB} MB limit.`);
     else if (already + ok.length >= PHOTO_LIMITS.maxFiles) problems.push(`${f.name}: at most ${PHOTO_LIMITS.maxFiles} photos go in one upload.`);
     else ok.push(f);
   }
@@ -131,7 +138,7 @@ export function PhotoGallery({ pieceId, photos, canEdit }: { pieceId: number; ph
               <li key={p.key} className="flex gap-2">
                 <img src={p.preview} alt="" className="h-16 w-16 shrink-0 rounded object-cover" />
                 <div className="min-w-0 flex-1">
-                  <p className="truncate text-xs text-walnut-600">{p.file.name} · {(p.file.size / MB).toFixed(1)} MB</p>
+                  <p className="truncate text-xs text-walnut-600">{p.file.name} · {fileSize(p.file.size)}</p>
                   <input
                     aria-label={`Caption for ${p.file.name}`}
                     placeholder="Caption (optional)"
@@ -204,7 +211,7 @@ export function PhotoGallery({ pieceId, photos, canEdit }: { pieceId: number; ph
           <figure>
             <img src={viewing.url} alt={viewing.caption || 'Condition photo'} className="max-h-[70vh] w-full rounded object-contain" />
             <figcaption className="num mt-2 text-xs text-walnut-500">
-              {viewing.width} × {viewing.height} px · {(viewing.bytes / MB).toFixed(1)} MB · {new Date(viewing.createdAt).toLocaleString('en-GB', { dateStyle: 'medium', timeStyle: 'short' })}
+              {viewing.width} × {viewing.height} px · {fileSize(viewing.bytes)} · {new Date(viewing.createdAt).toLocaleString('en-GB', { dateStyle: 'medium', timeStyle: 'short' })}
             </figcaption>
           </figure>
         )}

@@ -73,7 +73,7 @@ export function PiecePage() {
           )}
         </div>
       </div>
-      <div className="grid items-start gap-6 2xl:grid-cols-2">
+      <div className="grid grid-cols-1 items-start gap-6 2xl:grid-cols-2">
         <Card title={<span className="inline-flex items-center gap-2"><ClipboardList className="h-4 w-4 text-amber-600" aria-hidden /> Details, sizes and condition</span>}>
           {workshop.isPending ? <Spinner /> : <DetailsForm piece={p} unit={unit} canEdit={can.editPieces} />}
         </Card>

@@ -71,3 +71,15 @@ export function useMarkDone() {
     onSuccess: (result) => settle(result.job),
   });
 }
+
+/** A photo taken at the bench, added to the photos of the job's piece with a caption naming the session. */
+export function useAddJobPhoto() {
+  return useMutation({
+    mutationFn: ({ jobId, file, caption }: { jobId: number; file: File; caption: string }) => {
+      const form = new FormData();
+      form.append('photos', file);
+      form.append('captions', caption.slice(0, 200));
+      return api<unknown>(`/api/jobs/${jobId}/photos`, { method: 'POST', body: form });
+    },
+  });
+}

@@ -161,6 +161,12 @@ function SessionsTable({ job, canMark, onMark }: { job: JobDetail; canMark: bool
               </td>
               <td className="min-w-56 px-3 py-2 text-walnut-700">
                 {s.notes}
+                {s.materialsUsed && <span className="block text-xs text-walnut-600">Materials: {s.materialsUsed}</span>}
+                {s.problem && (
+                  <span className="mt-0.5 flex items-start gap-1 text-xs font-medium text-brick-700">
+                    <AlertTriangle className="mt-0.5 h-3.5 w-3.5 shrink-0" aria-hidden /> Problem: {s.problem}
+                  </span>
+                )}
                 {s.doneBy && <span className="block text-xs text-walnut-500">by {s.doneBy.name}</span>}
               </td>
             </tr>
@@ -286,7 +292,7 @@ export function JobPage() {
         </Card>
       )}
 
-      <div className="grid gap-6 xl:grid-cols-2">
+      <div className="grid grid-cols-1 gap-6 xl:grid-cols-2">
         <Card title="Why it could not start sooner">
           {j.startMode === 'earliest' ? (
             <WhyNotSooner reasons={j.whyNotSooner} />

@@ -92,7 +92,7 @@ function DueList({ board, canMark, onMark }: { board: PlanningBoard; canMark: bo
                   </div>
                   {canMark &&
                     (s.next ? (
-                      <Button size="sm" variant="secondary" onClick={() => onMark(s)} aria-label={`Mark ${s.jobNumber} ${s.label} done`}>
+                      <Button size="sm" variant="secondary" className="min-h-11 w-full sm:min-h-0 sm:w-auto" onClick={() => onMark(s)} aria-label={`Mark ${s.jobNumber} ${s.label} done`}>
                         <CircleCheck className="h-3.5 w-3.5" aria-hidden /> Mark done
                       </Button>
                     ) : (
@@ -177,7 +177,7 @@ export function PlanningBoardPage() {
         <OverbookedDays board={b} />
       </Card>
 
-      <div className="grid gap-6 xl:grid-cols-2">
+      <div className="grid grid-cols-1 gap-6 xl:grid-cols-2">
         <Card title="Due today and tomorrow">
           <DueList
             board={b}

@@ -75,7 +75,7 @@ function PackCard({ pack, unit, currency, history, isOwner, materialName }: { pa
       }
     >
       {update.isError && <div className="mb-3"><Alert tone="error" title="Not saved">{update.error.message}</Alert></div>}
-      <dl className="mb-4 grid gap-x-6 gap-y-2 text-sm sm:grid-cols-[8rem_1fr_8rem_1fr]">
+      <dl className="mb-4 grid gap-x-6 gap-y-2 text-sm sm:grid-cols-[8rem_minmax(0,1fr)_8rem_minmax(0,1fr)]">
         <dt className="text-walnut-500">Price now</dt>
         <dd><PackPrice pack={pack} unit={unit} currency={currency} canEdit={isOwner} materialName={materialName} /></dd>
         <dt className="text-walnut-500">Supplier</dt>

@@ -101,7 +101,7 @@ function ColumnGuide() {
         <tbody className="divide-y divide-parchment-200">
           {PRICE_FILE_COLUMNS.map((c) => (
             <tr key={c.name}>
-              <td className="py-1.5 pr-3 font-mono text-walnut-900">{c.name}</td>
+              <td className="break-all py-1.5 pr-3 font-mono text-walnut-900">{c.name}</td>
               <td className="py-1.5 pr-3">{c.required ? <span className="inline-flex items-center gap-1 text-walnut-800"><CircleCheck className="h-3.5 w-3.5 text-amber-600" aria-hidden /> required</span> : <span className="text-walnut-500">optional</span>}</td>
               <td className="py-1.5 text-walnut-600">{c.text}</td>
             </tr>
@@ -109,8 +109,8 @@ function ColumnGuide() {
         </tbody>
       </table>
       <p className="mt-3 text-xs text-walnut-500">
-        Example: <span className="font-mono">supplier;supplier_code;pack_size;unit;price;effective_date</span> then{' '}
-        <span className="font-mono">Quillby Finishing Supplies;SHELLAC-FLAKES-250;250;g;12,35;2027-01-04</span>
+        Example: <span className="break-all font-mono">supplier;supplier_code;pack_size;unit;price;effective_date</span> then{' '}
+        <span className="break-all font-mono">Quillby Finishing Supplies;SHELLAC-FLAKES-250;250;g;12,35;2027-01-04</span>
       </p>
     </Card>
   );
@@ -152,11 +152,11 @@ export function PriceFilePage() {
         title="Supplier price file"
         description="Read a supplier's price list, check every change it would make, then apply it in one go. Nothing changes until you confirm, and a file with an unreadable row changes nothing."
       />
-      <div className={`grid gap-6 ${preview ? '' : 'xl:grid-cols-[minmax(0,1fr)_28rem]'}`}>
+      <div className={`grid grid-cols-1 gap-6 ${preview ? '' : 'xl:grid-cols-[minmax(0,1fr)_28rem]'}`}>
         <div className="space-y-6">
           <Card title="1. Choose the file">
             <form onSubmit={submit} noValidate className="flex flex-wrap items-end gap-3">
-              <div className="space-y-1">
+              <div className="min-w-0 max-w-full space-y-1">
                 <label htmlFor="price-file" className="block text-sm font-medium text-walnut-800">CSV file</label>
                 <input
                   id="price-file"
@@ -169,7 +169,7 @@ export function PriceFilePage() {
                     setPreview(null);
                     setFileError(undefined);
                   }}
-                  className="block text-sm text-walnut-700 file:mr-3 file:rounded-md file:border file:border-walnut-200 file:bg-parchment-100 file:px-3 file:py-1.5 file:text-sm file:font-medium file:text-walnut-800 hover:file:bg-parchment-200"
+                  className="block w-full max-w-full text-sm text-walnut-700 file:mr-3 file:rounded-md file:border file:border-walnut-200 file:bg-parchment-100 file:px-3 file:py-1.5 file:text-sm file:font-medium file:text-walnut-800 hover:file:bg-parchment-200"
                 />
               </div>
               <Button type="submit" busy={upload.isPending}>

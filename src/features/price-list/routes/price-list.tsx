@@ -98,7 +98,7 @@ export function PriceListPage() {
       key: 'notes',
       header: 'Notes',
       render: (m) => (
-        <div className="max-w-56 text-walnut-600">
+        <div className="w-64 text-walnut-600">
           <InlineText value={m.notes} label={`notes on ${m.name}`} schema={notesSchema} canEdit={isOwner} multiline placeholder={isOwner ? 'Add a note' : '—'} onSave={(notes) => update.mutateAsync({ id: m.id, notes })} />
         </div>
       ),

@@ -177,7 +177,7 @@ export function QuotePage() {
         <dl className="mt-4 grid grid-cols-2 gap-x-6 gap-y-1 text-sm sm:grid-cols-3 lg:grid-cols-5">
           <div><dt className={meta}>Customer</dt><dd><Link className={link} to={pathTo.customer(q.customer.id)}>{q.customer.name}</Link></dd></div>
           <div><dt className={meta}>Estimate</dt><dd><Link className={link} to={pathTo.estimate(q.estimate.id)}>{q.estimate.number}</Link> <span className="text-walnut-500">rev. {q.estimate.revision}</span></dd></div>
-          <div><dt className={meta}>Piece</dt><dd>{q.estimate.title}</dd></div>
+          <div><dt className={meta}>Piece</dt><dd>{q.piece ? <Link className={link} to={pathTo.piece(q.piece.id)}>{q.piece.description}</Link> : q.estimate.title}</dd></div>
           <div><dt className={meta}>Valid until</dt><dd className="num">{formatDate(q.validUntil)}</dd></div>
           <div><dt className={meta}>Recipient</dt><dd className="truncate" title={q.recipient ?? undefined}>{q.recipient ?? '—'}</dd></div>
         </dl>
@@ -190,7 +190,7 @@ export function QuotePage() {
           </Alert>
         </div>
       )}
-      <div className="grid items-start gap-6 xl:grid-cols-[minmax(0,3fr)_minmax(0,2fr)]">
+      <div className="grid grid-cols-1 items-start gap-6 xl:grid-cols-[minmax(0,3fr)_minmax(0,2fr)]">
         <div className="space-y-6">
           <QuoteLines quote={q} />
           <section aria-labelledby="price-heading" className="rounded-xl border border-parchment-200 bg-white px-5 py-4 shadow-card">

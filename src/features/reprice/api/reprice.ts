@@ -9,16 +9,20 @@ export interface RepriceRow {
   title: string;
   customer: string;
   state: EstimateState;
-  /** The price list its current revision was priced with. */
+  /** The price list its current revision was priced with (internal version, to compare with). */
   catalogVersion: string;
+  /** The same, as people name it: "prices of 2 Dec 2026". */
+  priceList: string;
   oldTotal: string;
   newTotal: string;
   currency: string;
 }
 
 export interface RepriceCandidates {
-  /** Today's price list. */
+  /** Today's price list (internal version). */
   catalogVersion: string;
+  /** Today's price list as people name it. */
+  priceList: string;
   rows: RepriceRow[];
 }
 
@@ -32,6 +36,8 @@ export interface RepricedEstimate {
 
 export interface RepriceResult {
   repriced: RepricedEstimate[];
+  /** Estimates today's prices leave as they were: no new revision was made. */
+  unchanged?: RepricedEstimate[];
 }
 
 export const repriceKeys = {

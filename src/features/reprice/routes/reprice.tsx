@@ -89,7 +89,7 @@ function CandidatesTable({ rows, selected, toggle, setAll }: { rows: RepriceRow[
                   </td>
                   <td className="px-4 py-2.5 align-middle text-walnut-800">{r.customer}</td>
                   <td className="px-4 py-2.5 align-middle"><StateBadge state={r.state} /></td>
-                  <td className="px-4 py-2.5 align-middle font-mono text-xs text-walnut-500">{r.catalogVersion}</td>
+                  <td className="whitespace-nowrap px-4 py-2.5 align-middle text-walnut-600">{r.priceList}</td>
                   <td className="num px-4 py-2.5 text-right align-middle text-walnut-600" data-testid="old-total">{formatMoney(r.oldTotal, r.currency)}</td>
                   <td className="num px-4 py-2.5 text-right align-middle font-semibold text-walnut-900" data-testid="new-total">{formatMoney(r.newTotal, r.currency)}</td>
                   <td className="px-4 py-2.5 text-right align-middle"><TotalChange oldTotal={r.oldTotal} newTotal={r.newTotal} currency={r.currency} /></td>
@@ -216,8 +216,8 @@ export function RepricePage() {
             <div className="flex flex-wrap items-center justify-between gap-3 rounded-lg border border-parchment-200 bg-parchment-50 px-4 py-3 text-sm">
               <div className="space-y-0.5 text-walnut-700">
                 <p>
-                  <span className="font-semibold text-walnut-900">{rows.length} open {rows.length === 1 ? 'estimate uses' : 'estimates use'} older prices.</span> Today's price list is{' '}
-                  <span className="font-mono text-xs">{candidates.data.catalogVersion}</span>.
+                  <span className="font-semibold text-walnut-900">{rows.length} open {rows.length === 1 ? 'estimate uses' : 'estimates use'} older prices.</span> Today's price list:{' '}
+                  {candidates.data.priceList}.
                 </p>
                 <p aria-live="polite">
                   {selected.length === 0 ? 'Select the estimates to reprice.' : <><span className="font-medium">{estimates(selected.length)} selected:</span> <Totals rows={selected} /></>}
@@ -233,7 +233,7 @@ export function RepricePage() {
       </div>
       <Dialog title={`Reprice ${estimates(selected.length)}?`} open={confirming} onClose={close}>
         <p className="text-sm text-walnut-700">
-          Each gets a new revision priced with today's price list ({candidates.data?.catalogVersion}). The revisions already saved stay exactly as they are, so
+          Each gets a new revision priced with today's price list ({candidates.data?.priceList}). The revisions already saved stay exactly as they are, so
           the change can be compared and explained to the customer.
         </p>
         <ul className="my-3 max-h-64 divide-y divide-parchment-200 overflow-y-auto rounded-lg border border-parchment-200 text-sm">

@@ -224,6 +224,7 @@ export function SettingsForm({
       <Card title={<span className="inline-flex items-center gap-2"><CalendarDays className="h-4 w-4 text-amber-600" aria-hidden /> Working calendar</span>}>
         <p className="mb-3 text-sm text-walnut-600">Sessions are laid only inside opening hours; rests run through nights, weekends and closed days.</p>
         {err(['settings', 'calendar', 'workingWeek']) && <Alert tone="error" title={`Working week ${err(['settings', 'calendar', 'workingWeek'])}`} />}
+        <div className="overflow-x-auto">
         <table className="w-full max-w-2xl text-sm">
           <caption className="sr-only">Opening hours</caption>
           <thead className="text-left text-xs uppercase tracking-wide text-walnut-500">
@@ -255,6 +256,7 @@ export function SettingsForm({
             })}
           </tbody>
         </table>
+        </div>
         <h3 className="mb-2 mt-5 text-base font-semibold text-walnut-800">Closed dates</h3>
         <div className="flex flex-wrap gap-2">
           {closed.length === 0 && <span className="text-sm text-walnut-500">None</span>}
