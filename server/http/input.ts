@@ -13,6 +13,7 @@
  * middleware so that their text fields meet the same rule.
  */
 import type { RequestHandler } from 'express';
+import { validationSentence } from '@shared/schemas/error-map';
 import { HttpProblem } from './problem';
 
 /** A NUL, a high surrogate not followed by a low one, or a low surrogate not preceded by a high one. */
@@ -27,7 +28,7 @@ export function badTextReason(s: string): string | undefined {
 }
 
 function textProblem(field: string, reason: string): HttpProblem {
-  const detail = `${field}: ${reason}`;
+  const detail = validationSentence(field.split('.'), reason);
   return new HttpProblem(400, 'invalid_text', 'Invalid text', detail, { field, errors: [{ field, message: reason }] });
 }
 

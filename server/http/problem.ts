@@ -3,6 +3,7 @@ import { MulterError } from 'multer';
 import { ConnectionError, UniqueConstraintError } from 'sequelize';
 import { ZodError, type z } from 'zod';
 import type { Problem } from '@shared/schemas/problem';
+import { validationSentence } from '@shared/schemas/error-map';
 
 /** An error that leaves the server as application/problem+json with a stable code. */
 export class HttpProblem extends Error {
@@ -28,14 +29,19 @@ export const problems = {
     new HttpProblem(503, 'database_unavailable', 'Database unavailable', 'The database cannot be reached just now. Try again shortly.'),
 };
 
-/** Turns zod issues into a 400 that names the first field and lists them all. */
+/**
+ * Turns zod issues into a 400: the detail is a whole sentence about the first problem in the product's voice ("The
+ * length of the piece is missing."); `field` names the first field by its path and `errors` lists them all.
+ */
 export function fromZod(error: ZodError): HttpProblem {
-  const errors = error.issues.slice(0, 20).map((issue) => ({
+  const issues = error.issues.slice(0, 20);
+  const errors = issues.map((issue) => ({
     field: issue.path.length ? issue.path.map(String).join('.') : '(body)',
     message: issue.message,
   }));
-  const first = errors[0] ?? { field: '(body)', message: 'is invalid' };
-  return new HttpProblem(400, 'validation_failed', 'Invalid input', `${first.field}: ${first.message}`, {
+  const first = errors[0] ?? { field: '(body)', message: 'is not valid' };
+  const detail = validationSentence(issues[0]?.path ?? [], first.message);
+  return new HttpProblem(400, 'validation_failed', 'Invalid input', detail, {
     field: first.field,
     errors,
   });

@@ -3,6 +3,7 @@
  * stores an immutable revision (inputs, price-list version and snapshot, results, cautions, who and when).
  */
 import { Op, QueryTypes, type Sequelize, type Transaction } from 'sequelize';
+import { validationSentence } from '@shared/schemas/error-map';
 import type { z } from 'zod';
 import type { Page } from '@shared/schemas/auth';
 import {
@@ -55,7 +56,7 @@ function underInput<T>(fn: () => T): T {
       const prefix = (f: string) => (f === '(body)' ? 'input' : `input.${f}`);
       const errors = err.extra.errors?.map((e) => ({ field: prefix(e.field), message: e.message }));
       const field = err.extra.field ? prefix(err.extra.field) : 'input';
-      throw new HttpProblem(400, err.code, err.title, `${field}: ${errors?.[0]?.message ?? err.detail}`, { field, errors });
+      throw new HttpProblem(400, err.code, err.title, err.detail ?? validationSentence(field.split('.'), errors?.[0]?.message ?? 'is not valid'), { field, errors });
     }
     throw err;
   }

@@ -3,6 +3,7 @@
  * always computes for itself: totals sent by a client are never read.
  */
 import type { Sequelize, Transaction } from 'sequelize';
+import { validationSentence } from '@shared/schemas/error-map';
 import { estimate, EstimateError } from '@shared/calc';
 import { EstimateInputSchema, type EstimateResult, type ParsedEstimateInput } from '@shared/schemas/calc';
 import type { WorkshopSettings } from '@shared/schemas/workshop';
@@ -38,7 +39,7 @@ export function runEngine(input: ParsedEstimateInput, loaded: LoadedCatalog, tod
   } catch (err) {
     if (err instanceof EstimateError) {
       const field = err.path.map(String).join('.') || '(body)';
-      throw new HttpProblem(400, 'estimate_invalid', 'Cannot estimate', `${field}: ${err.message}`, { field, errors: [{ field, message: err.message }] });
+      throw new HttpProblem(400, 'estimate_invalid', 'Cannot estimate', validationSentence(err.path, err.message), { field, errors: [{ field, message: err.message }] });
     }
     throw err;
   }

@@ -3,6 +3,7 @@
  * every material a stage uses must be in the price list, so the estimator's catalog stays whole.
  */
 import { Op, type Sequelize, type Transaction, type WhereOptions } from 'sequelize';
+import { validationSentence } from '@shared/schemas/error-map';
 import type { Page } from '@shared/schemas/auth';
 import {
   keyFromName,
@@ -51,11 +52,11 @@ async function checkStageMaterials(stages: z.output<typeof SystemUpdateSchema>['
   const errors: { field: string; message: string }[] = [];
   stages.forEach((stage, si) =>
     stage.materials.forEach((use, mi) => {
-      if (!withPacks.has(use.material)) errors.push({ field: `stages.${si}.materials.${mi}.material`, message: `"${use.material}" is not a material in the price list` });
+      if (!withPacks.has(use.material)) errors.push({ field: `stages.${si}.materials.${mi}.material`, message: `is not a material in the price list: "${use.material}"` });
     }),
   );
   if (errors.length > 0) {
-    throw new HttpProblem(400, 'validation_failed', 'Invalid input', `${errors[0]!.field}: ${errors[0]!.message}`, { field: errors[0]!.field, errors });
+    throw new HttpProblem(400, 'validation_failed', 'Invalid input', validationSentence(errors[0]!.field.split('.'), errors[0]!.message), { field: errors[0]!.field, errors });
   }
 }
 

@@ -4,6 +4,7 @@
  * naming the field, like the schema's own checks.
  */
 import { Op, type Sequelize } from 'sequelize';
+import { validationSentence } from '@shared/schemas/error-map';
 import type { Workshop as WorkshopDto } from '@shared/schemas/workshop';
 import type { LabourRateDto, LabourRateUpdateSchema, WorkshopUpdateSchema } from '@shared/schemas/workshop-admin';
 import type { z } from 'zod';
@@ -17,7 +18,7 @@ type FieldError = { field: string; message: string };
 
 function invalid(errors: FieldError[]): HttpProblem {
   const first = errors[0]!;
-  return new HttpProblem(400, 'validation_failed', 'Invalid input', `${first.field}: ${first.message}`, { field: first.field, errors });
+  return new HttpProblem(400, 'validation_failed', 'Invalid input', validationSentence(first.field.split('.'), first.message), { field: first.field, errors });
 }
 
 /** Flattens nested settings into dotted paths, so the audit log keeps only what changed. */

@@ -74,3 +74,103 @@ export function plainMessage(issue: Issue): string {
 }
 
 z.config({ customError: (issue) => plainMessage(issue) });
+
+/** How people name a field whose key is not already plain words. */
+const FIELD_WORDS: Record<string, string> = {
+  discountPct: 'discount',
+  cutLb: 'cut',
+  email: 'e-mail address',
+  customerId: 'customer',
+  quoteId: 'quote',
+  estimateId: 'estimate',
+  pieceId: 'piece',
+  jobId: 'job',
+  q: 'search',
+  '(body)': 'request',
+  actualEnd: 'actual finish',
+  actualStart: 'actual start',
+  priceMinor: 'price',
+  amountMinor: 'amount',
+  polisherRate: 'polisher’s rate',
+  sha256: 'file’s fingerprint',
+};
+
+/** Lists whose entries are named by their number ("stage 2", "part 1"). */
+const ITEM_WORDS: Record<string, string> = {
+  stages: 'stage',
+  parts: 'part',
+  materials: 'material line',
+  lines: 'line',
+  items: 'item',
+  pieces: 'piece',
+  options: 'option',
+  points: 'point',
+  photos: 'photo',
+  sessions: 'session',
+  rows: 'row',
+};
+
+/** Path steps that only group fields and add nothing a person would say. */
+const WRAPPERS = new Set(['input', 'dimensions', 'shape', 'pricing', 'body', 'data', 'values']);
+
+function words(key: string): string {
+  if (FIELD_WORDS[key]) return FIELD_WORDS[key];
+  const plain = key
+    .replace(/(Id|Pct|Minor|Lb)$/, '')
+    .replace(/([a-z0-9])([A-Z])/g, '$1 $2')
+    .replace(/[_-]+/g, ' ')
+    .toLowerCase()
+    .trim();
+  return plain || key;
+}
+
+/** Entry i of the list named just before it: "stage 2", "part 1", or "entry 3" when the list has no name. */
+function entry(steps: readonly string[], i: number): string {
+  const list = i > 0 && !/^\d+$/.test(steps[i - 1]) ? steps[i - 1] : '';
+  const noun = list ? (ITEM_WORDS[list] ?? words(list).replace(/s$/, '')) : 'entry';
+  return `${noun} ${Number(steps[i]) + 1}`;
+}
+
+/** "stages.1.cutLb" → "the cut of stage 2"; "piece.dimensions.length" → "the length of the piece". */
+export function fieldLabel(path: readonly PropertyKey[]): string {
+  const steps = path.map((p) => (typeof p === 'symbol' ? '' : String(p))).filter(Boolean);
+  if (!steps.length) return 'the request';
+  // The field itself: the last named step, or an entry of a list named by its number.
+  let end = steps.length - 1;
+  let field: string;
+  if (/^\d+$/.test(steps[end])) {
+    field = entry(steps, end);
+    end -= end > 0 && !/^\d+$/.test(steps[end - 1]) ? 2 : 1;
+  } else {
+    field = `the ${words(steps[end])}`;
+    end -= 1;
+  }
+  // What it belongs to: the numbered entries it sits in, or else its nearest plain owner.
+  const owners: string[] = [];
+  for (let i = end; i >= 0; i -= 1) {
+    const step = steps[i];
+    if (/^\d+$/.test(step)) {
+      owners.push(entry(steps, i));
+      if (i > 0 && !/^\d+$/.test(steps[i - 1])) i -= 1;
+    } else if (!owners.length && !WRAPPERS.has(step)) {
+      owners.push(`the ${words(step)}`);
+    }
+  }
+  return [field, ...owners].join(' of ');
+}
+
+/** Words a message may start with that read on after a field's name ("is required", "must be…"). */
+const PREDICATE = /^(is|are|must|needs?|has|have|takes|cannot|can|should|may|does|do)\b/;
+
+/**
+ * A whole sentence for one validation issue, in the product's voice: "The length of the lid is missing.",
+ * "The cut of stage 2 must be more than zero.". Messages that are already sentences of their own keep their words
+ * and name the field after them.
+ */
+export function validationSentence(path: readonly PropertyKey[], message: string): string {
+  const label = fieldLabel(path);
+  const said = message.trim().replace(/^is required$/, 'is missing').replace(/[.\s]+$/, '');
+  const upper = (s: string) => s.charAt(0).toUpperCase() + s.slice(1);
+  if (PREDICATE.test(said)) return `${upper(label)} ${said}.`;
+  return `${upper(said)} (${label}).`;
+}

@@ -68,7 +68,10 @@ describe('POST /api/calc/preview', () => {
       expect(res.status).toBe(400);
       const problem = JSON.parse(res.text);
       expect(problem.field).toBe(field);
-      expect(problem.detail).toContain(field);
+      expect(problem.errors.map((e: { field: string }) => e.field)).toContain(field);
+      // The detail is a whole sentence in plain words, not "path: message".
+      expect(problem.detail).toMatch(/^[A-Z].*\.$/);
+      expect(problem.detail).not.toContain(`${field}:`);
     });
   }
 

@@ -5,7 +5,7 @@
 import fc from 'fast-check';
 import { describe, expect, it } from 'vitest';
 import { z } from 'zod';
-import '../../shared/schemas/error-map';
+import { fieldLabel, validationSentence } from '../../shared/schemas/error-map';
 import { CustomerInputSchema } from '../../shared/schemas/customers';
 import { LoginSchema } from '../../shared/schemas/auth';
 import { EstimateInputSchema } from '../../shared/schemas/calc';
@@ -46,6 +46,34 @@ describe('the shared validation messages', () => {
         for (const m of messages(schema, value)) expect(m.replace(/"(?:[^"\\]|\\.)*"/g, '""')).not.toMatch(RAW);
       }),
       { numRuns: 2000 },
+    );
+  });
+
+  it('a server detail is a whole sentence naming the field in words', () => {
+    const table: [PropertyKey[], string, string][] = [
+      [['lid', 'length'], 'is required', 'The length of the lid is missing.'],
+      [['input', 'piece', 'dimensions', 'length'], 'must be a length such as 190 cm', 'The length of the piece must be a length such as 190 cm.'],
+      [['stages', 1, 'cutLb'], 'must be more than zero', 'The cut of stage 2 must be more than zero.'],
+      [['stages', 1, 'materials', 0, 'material'], 'is required', 'The material of material line 1 of stage 2 is missing.'],
+      [['parts'], 'needs at least one part', 'The parts needs at least one part.'],
+      [['discountPct'], 'must be at most 40', 'The discount must be at most 40.'],
+      [['email'], 'must be an e-mail address', 'The e-mail address must be an e-mail address.'],
+      [[], 'must be a set of fields', 'The request must be a set of fields.'],
+      [['stages', 2], 'duplicate stage key "grain"', 'Duplicate stage key "grain" (stage 3).'],
+      [['date'], 'give the date to book at', 'Give the date to book at (the date).'],
+    ];
+    for (const [path, message, sentence] of table) expect(validationSentence(path, message)).toBe(sentence);
+  });
+
+  it('every sentence starts with a capital, ends with a full stop and never shows a dotted path', () => {
+    const key = fc.oneof(fc.constantFrom('stages', 'parts', 'cutLb', 'name', 'piece', 'dimensions', 'length', 'customerId'), fc.nat(30));
+    fc.assert(
+      fc.property(fc.array(key, { maxLength: 6 }), fc.constantFrom('is required', 'must be a number', 'choose one'), (path, message) => {
+        const s = validationSentence(path, message);
+        expect(s).toMatch(/^[A-Z].*\.$/);
+        expect(s).not.toMatch(/\w\.\w/);
+        expect(fieldLabel(path)).not.toMatch(/undefined|NaN/);
+      }),
     );
   });
 });
