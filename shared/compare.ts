@@ -34,6 +34,9 @@ export interface FigureChange {
 export interface MoneyChange {
   key: string;
   label: string;
+  /** Each revision's own wording of the line (a labour line names its own hours and rate); null when absent. */
+  labelBefore: string | null;
+  labelAfter: string | null;
   before: string | null;
   after: string | null;
   delta: string;
@@ -41,7 +44,11 @@ export interface MoneyChange {
 
 export interface StageChange {
   key: string;
+  /** What the stage is (strip, fill, body…): stages are matched by what they are, never by position. */
+  stageKind: string;
   name: string;
+  /** The earlier revision's name when it differs (a stage renamed, or matched by its kind under another key). */
+  nameBefore: string | null;
   kind: 'added' | 'removed' | 'changed' | 'same';
   coats: { before: number; after: number };
   sessions: { before: number; after: number };
@@ -53,7 +60,8 @@ export interface MaterialChange {
   name: string;
   unit: string;
   kind: 'added' | 'removed' | 'changed' | 'same';
-  need: { before: number; after: number; delta: number };
+  /** Quantities in `unit`; a side without the material has null and counts as 0 in the delta. */
+  need: { before: number | null; after: number | null; delta: number };
   charge: MoneyChange;
 }
 
@@ -227,8 +235,16 @@ function figure(key: string, label: string, unit: string, before: number, after:
   return { key, label, unit, before, after, delta: round(after - before) };
 }
 
-function moneyChange(key: string, label: string, before: string | null, after: string | null): MoneyChange {
-  return { key, label, before, after, delta: formatAmount(money(after ?? '0').minus(money(before ?? '0'))) };
+function moneyChange(key: string, label: string, before: string | null, after: string | null, labels?: { before: string | null; after: string | null }): MoneyChange {
+  return {
+    key,
+    label,
+    labelBefore: labels ? labels.before : before === null ? null : label,
+    labelAfter: labels ? labels.after : after === null ? null : label,
+    before,
+    after,
+    delta: formatAmount(money(after ?? '0').minus(money(before ?? '0'))),
+  };
 }
 
 function totals(a: EstimateResult, b: EstimateResult): FigureChange[] {
@@ -257,16 +273,53 @@ function kindOf(hasA: boolean, hasB: boolean, changed: boolean): 'added' | 'remo
   return changed ? 'changed' : 'same';
 }
 
+type Stage = EstimateResult['stages'][number];
+
+/**
+ * Pairs the stages of two revisions by what they are: the same key first, then the same kind and name, then the same
+ * kind when each side has just one such stage left. Never by position, so a stage added in front shifts nothing.
+ * Order: the later revision's stages, then those only the earlier one had.
+ */
+export function pairStages(a: readonly Stage[], b: readonly Stage[]): Array<{ key: string; a?: Stage; b?: Stage }> {
+  const matchOf = new Map<Stage, Stage>(); // b stage -> a stage
+  const used = new Set<Stage>();
+  const tryMatch = (ok: (x: Stage, y: Stage) => boolean, unique = false): void => {
+    for (const sb of b) {
+      if (matchOf.has(sb)) continue;
+      const left = a.filter((sa) => !used.has(sa) && ok(sa, sb));
+      if (left.length === 0) continue;
+      if (unique) {
+        const rivals = b.filter((y) => !matchOf.has(y) && ok(left[0]!, y));
+        if (left.length !== 1 || rivals.length !== 1) continue;
+      }
+      matchOf.set(sb, left[0]!);
+      used.add(left[0]!);
+    }
+  };
+  tryMatch((x, y) => x.key === y.key);
+  tryMatch((x, y) => x.kind === y.kind && x.name.trim().toLowerCase() === y.name.trim().toLowerCase());
+  tryMatch((x, y) => x.kind === y.kind, true);
+  const keys = new Set(b.map((s) => s.key));
+  return [
+    ...b.map((sb) => ({ key: sb.key, a: matchOf.get(sb), b: sb })),
+    // A stage only the earlier revision had keeps its key unless the later one uses it for another stage.
+    ...a.filter((sa) => !used.has(sa)).map((sa) => ({ key: keys.has(sa.key) ? `${sa.key}~before` : sa.key, a: sa })),
+  ];
+}
+
 function stages(a: EstimateResult, b: EstimateResult): StageChange[] {
-  return keyedUnion(a.stages, b.stages, (s) => s.key).map(({ key, a: sa, b: sb }) => {
+  return pairStages(a.stages, b.stages).map(({ key, a: sa, b: sb }) => {
     const hoursA = sa?.labourHours ?? 0;
     const hoursB = sb?.labourHours ?? 0;
     const coats = { before: sa?.coats ?? 0, after: sb?.coats ?? 0 };
     const sessions = { before: sa?.sessions ?? 0, after: sb?.sessions ?? 0 };
-    const changed = hoursA !== hoursB || coats.before !== coats.after || sessions.before !== sessions.after;
+    const renamed = sa !== undefined && sb !== undefined && sa.name !== sb.name;
+    const changed = hoursA !== hoursB || coats.before !== coats.after || sessions.before !== sessions.after || renamed;
     return {
       key,
+      stageKind: (sb ?? sa)!.kind,
       name: (sb ?? sa)!.name,
+      nameBefore: renamed ? sa.name : null,
       kind: kindOf(sa !== undefined, sb !== undefined, changed),
       coats,
       sessions,
@@ -286,15 +339,24 @@ function materials(a: EstimateResult, b: EstimateResult): MaterialChange[] {
       name: m.name,
       unit: m.unit,
       kind: kindOf(ma !== undefined, mb !== undefined, needA !== needB || !money(charge.delta).isZero()),
-      need: { before: needA, after: needB, delta: round(needB - needA) },
+      need: { before: ma ? needA : null, after: mb ? needB : null, delta: round(needB - needA) },
       charge,
     };
   });
 }
 
+/** Short names for the price lines whose wording carries each revision's own figures (hours, rate, percentage). */
+const LINE_NAMES: Readonly<Record<string, string>> = {
+  labour: 'Labour',
+  overhead: 'Workshop overhead',
+  margin: 'Margin',
+  discount: 'Discount',
+  rounding: 'Rounding',
+};
+
 function price(a: EstimateResult, b: EstimateResult): MoneyChange[] {
   const lines = keyedUnion(a.price.lines, b.price.lines, (l) => l.code).map(({ key, a: la, b: lb }) =>
-    moneyChange(key, (lb ?? la)!.label, la?.amount ?? null, lb?.amount ?? null),
+    moneyChange(key, LINE_NAMES[key] ?? (lb ?? la)!.label, la?.amount ?? null, lb?.amount ?? null, { before: la?.label ?? null, after: lb?.label ?? null }),
   );
   return [
     ...lines,

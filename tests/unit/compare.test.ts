@@ -120,4 +120,68 @@ describe('compareRevisions', () => {
     const b = deepFreeze(revision(2, { ...GRAND, discountPct: 5 }));
     expect(() => compareRevisions(a, b)).not.toThrow();
   });
+
+  it('matches stages by what they are, not by position: a stage put in front shifts nothing', () => {
+    const system = DEMO_CATALOG.systems.find((s) => s.key === 'full-repolish')!;
+    const stages = system.stages.map((s) => ({ ...s }));
+    const extra = { ...stages.find((s) => s.kind === 'body')!, key: 'extra-body', name: 'A first bodying' };
+    const before = revision(1, { ...GRAND, stages });
+    const diff = compareRevisions(before, revision(2, { ...GRAND, stages: [extra, ...stages] }));
+    const changed = diff.stages.filter((s) => s.kind !== 'same');
+    expect(changed.map((s) => [s.key, s.kind])).toEqual([['extra-body', 'added']]);
+    expect(diff.stages).toHaveLength(before.result.stages.length + 1);
+  });
+
+  it('a stage under a new key is the same stage when its kind and name agree, and a renamed one of a lone kind is paired too', () => {
+    const system = DEMO_CATALOG.systems.find((s) => s.key === 'full-repolish')!;
+    const stages = system.stages.map((s) => ({ ...s }));
+    const rekeyed = stages.map((s) => ({ ...s, key: `my-${s.key}` }));
+    const before = revision(1, { ...GRAND, stages });
+    const diff = compareRevisions(before, revision(2, { ...GRAND, stages: rekeyed }));
+    expect(diff.stages).toHaveLength(before.result.stages.length);
+    expect(diff.stages.every((s) => s.kind === 'same')).toBe(true);
+
+    const strip = stages.find((s) => s.kind === 'strip')!;
+    const renamed = stages.map((s) => (s === strip ? { ...s, key: 'take-off', name: 'Taking off the old finish' } : s));
+    const diff2 = compareRevisions(revision(1, { ...GRAND, stages }), revision(2, { ...GRAND, stages: renamed }));
+    const paired = diff2.stages.find((s) => s.key === 'take-off')!;
+    expect(paired).toMatchObject({ kind: 'changed', stageKind: 'strip', nameBefore: strip.name, name: 'Taking off the old finish' });
+    expect(paired.hours.delta).toBe(0);
+    expect(diff2.stages.some((s) => s.kind === 'added' || s.kind === 'removed')).toBe(false);
+  });
+
+  it('lists materials by name with their quantities and unit, and none on the side without them', () => {
+    const system = DEMO_CATALOG.systems.find((s) => s.key === 'full-repolish')!;
+    const stages = system.stages.map((s) => ({ ...s }));
+    const noStrip = stages.filter((s) => s.kind !== 'strip');
+    const a = revision(1, { ...GRAND, stages });
+    const b = revision(2, { ...GRAND, stages: noStrip });
+    const diff = compareRevisions(a, b);
+    for (const m of diff.materials) {
+      const known = [...a.result.materials, ...b.result.materials].find((x) => x.key === m.key)!;
+      expect(m.name).toBe(known.name);
+      expect(m.unit).toBe(known.unit);
+    }
+    const gone = diff.materials.filter((m) => m.kind === 'removed');
+    expect(gone.length).toBeGreaterThan(0);
+    for (const m of gone) {
+      expect(m.need.after).toBeNull();
+      expect(m.need.before).toBe(a.result.materials.find((x) => x.key === m.key)!.need);
+      expect(m.need.delta).toBe(-m.need.before!);
+    }
+  });
+
+  it('puts each revision\u2019s own labour line beside its own price', () => {
+    const longer: EstimateInput = { ...GRAND, piece: { template: 'grand', dimensions: { length: '230 cm' } } };
+    const a = revision(1, GRAND);
+    const b = revision(2, longer);
+    const labour = compareRevisions(a, b).price.find((p) => p.key === 'labour')!;
+    const own = (r: ComparableRevision) => r.result.price.lines.find((l) => l.code === 'labour')!;
+    expect(labour.label).toBe('Labour');
+    expect(labour.labelBefore).toBe(own(a).label);
+    expect(labour.before).toBe(own(a).amount);
+    expect(labour.labelAfter).toBe(own(b).label);
+    expect(labour.after).toBe(own(b).amount);
+    expect(labour.labelBefore).not.toBe(labour.labelAfter);
+  });
 });

@@ -55,6 +55,12 @@ const th = 'px-3 py-2 font-semibold';
 const td = 'px-3 py-1.5';
 const num = 'num px-3 py-1.5 text-right whitespace-nowrap';
 
+/** A revision's own wording of a price line (its hours and rate), shown above its own amount. */
+function OwnLine({ label, line }: { label: string | null; line: string }) {
+  if (!label || label === line) return null;
+  return <span className="block whitespace-normal text-xs font-normal text-walnut-500">{label}</span>;
+}
+
 const KIND_WORD = { added: 'Added', removed: 'Removed', changed: 'Changed', same: 'Same' } as const;
 
 /** Two revisions side by side: inputs that changed, then hours, materials and price, each with its change. */
@@ -145,6 +151,7 @@ export function Comparison({ diff, units }: { diff: RevisionComparison; units: U
               <tr key={s.key}>
                 <td className={td}>
                   {s.name}
+                  {s.nameBefore && <span className="block text-xs text-walnut-500">was “{s.nameBefore}”</span>}
                   {s.kind !== 'changed' && <span className="ml-2 rounded border border-walnut-200 px-1 text-xs text-walnut-600">{KIND_WORD[s.kind]}</span>}
                 </td>
                 <td className={num}>{s.sessions.before} → {s.sessions.after}</td>
@@ -167,15 +174,22 @@ export function Comparison({ diff, units }: { diff: RevisionComparison; units: U
               <th className={th}>Material</th>
               <th className={`${th} text-right`}>{before}</th>
               <th className={`${th} text-right`}>{after}</th>
+              <th className={`${th} text-right`}>Change</th>
               <th className={`${th} text-right`}>Charge change</th>
             </tr>
           </thead>
           <tbody className="divide-y divide-parchment-200">
             {materials.map((m) => (
-              <tr key={m.key}>
-                <td className={td}>{m.name}</td>
-                <td className={num}>{formatQuantity(m.need.before, m.unit, units)}</td>
-                <td className={num}>{formatQuantity(m.need.after, m.unit, units)}</td>
+              <tr key={m.key} data-testid={`material-change-${m.key}`}>
+                <td className={td}>
+                  {m.name}
+                  {m.kind !== 'changed' && <span className="ml-2 rounded border border-walnut-200 px-1 text-xs text-walnut-600">{KIND_WORD[m.kind]}</span>}
+                </td>
+                <td className={num}>{m.need.before === null ? '—' : formatQuantity(m.need.before, m.unit, units)}</td>
+                <td className={num}>{m.need.after === null ? '—' : formatQuantity(m.need.after, m.unit, units)}</td>
+                <td className={num}>
+                  <Change text={`${m.need.delta > 0 ? '+' : '−'}${formatQuantity(Math.abs(m.need.delta), m.unit, units)}`} delta={m.need.delta} />
+                </td>
                 <td className={num}>
                   <Change text={formatMoneyDelta(m.charge.delta, currency)} delta={Number(m.charge.delta)} />
                 </td>
@@ -192,8 +206,14 @@ export function Comparison({ diff, units }: { diff: RevisionComparison; units: U
             {diff.price.map((p) => (
               <tr key={p.key} className={p.key === 'total' ? 'bg-parchment-50 font-semibold' : ''} data-testid={`price-change-${p.key}`}>
                 <td className={td}>{p.label}</td>
-                <td className={num}>{p.before === null ? '—' : formatMoney(p.before, currency)}</td>
-                <td className={num}>{p.after === null ? '—' : formatMoney(p.after, currency)}</td>
+                <td className={num}>
+                  <OwnLine label={p.labelBefore} line={p.label} />
+                  {p.before === null ? '—' : formatMoney(p.before, currency)}
+                </td>
+                <td className={num}>
+                  <OwnLine label={p.labelAfter} line={p.label} />
+                  {p.after === null ? '—' : formatMoney(p.after, currency)}
+                </td>
                 <td className={num}>
                   <Change text={formatMoneyDelta(p.delta, currency)} delta={Number(p.delta)} />
                 </td>
