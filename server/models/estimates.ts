@@ -51,6 +51,8 @@ export class Piece extends Model<InferAttributes<Piece>, InferCreationAttributes
   declare description: string;
   declare maker: string | null;
   declare year: number | null;
+  /** The year as written ("c. 1830", "1890s"); `year` is its sortable best guess. */
+  declare yearText: string | null;
   declare serial: string | null;
   declare dimensions: Record<string, string>;
   declare conditionNotes: string | null;
@@ -68,6 +70,7 @@ export class Piece extends Model<InferAttributes<Piece>, InferCreationAttributes
         description: { type: DataTypes.STRING(200), allowNull: false },
         maker: { type: DataTypes.STRING(120), allowNull: true },
         year: { type: DataTypes.INTEGER, allowNull: true },
+        yearText: { type: DataTypes.STRING(40), allowNull: true },
         serial: { type: DataTypes.STRING(60), allowNull: true },
         dimensions: { type: DataTypes.JSONB, allowNull: false, defaultValue: {} },
         conditionNotes: { type: DataTypes.TEXT, allowNull: true },

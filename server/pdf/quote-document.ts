@@ -24,7 +24,8 @@ export interface QuoteDocument {
     description: string;
     kind: string;
     maker: string | null;
-    year: number | null;
+    /** The year as written ("c. 1830", "1890s"). */
+    year: string | null;
     serial: string | null;
     /** One condition photo (JPEG or PNG bytes), if the piece has one. */
     photo: Buffer | null;

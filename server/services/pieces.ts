@@ -2,6 +2,7 @@ import { Op, type Sequelize, type WhereOptions } from 'sequelize';
 import type { Page } from '@shared/schemas/auth';
 import type { Piece as PieceDto, PieceInputSchema, PieceListQuerySchema } from '@shared/schemas/customers';
 import type { z } from 'zod';
+import { parsePieceYear } from '@shared/piece-year';
 import { problems } from '../http/problem';
 import { Customer, Piece, PiecePhoto } from '../models';
 import { audit } from './audit';
@@ -10,6 +11,14 @@ import { photoDto } from './photos';
 
 type ListQuery = z.output<typeof PieceListQuerySchema>;
 type Input = z.output<typeof PieceInputSchema>;
+
+/** The stored pair for a year as given: a number is exact, text is read as written, empty or null clears it. */
+function yearFields(given: number | string | null | undefined): { year: number | null; yearText: string | null } {
+  if (given === undefined || given === null) return { year: null, yearText: null };
+  if (typeof given === 'number') return { year: given, yearText: String(given) };
+  const parsed = parsePieceYear(given);
+  return parsed ? { year: parsed.year, yearText: parsed.text } : { year: null, yearText: null };
+}
 
 export function pieceDto(p: Piece): PieceDto {
   return {
@@ -20,6 +29,7 @@ export function pieceDto(p: Piece): PieceDto {
     description: p.description,
     maker: p.maker,
     year: p.year,
+    yearText: p.yearText ?? (p.year === null ? null : String(p.year)),
     serial: p.serial,
     dimensions: p.dimensions,
     conditionNotes: p.conditionNotes,
@@ -77,7 +87,7 @@ export async function createPiece(sequelize: Sequelize, actorId: number, input: 
         kind: input.kind,
         description: input.description,
         maker: input.maker ?? null,
-        year: input.year ?? null,
+        ...yearFields(input.year),
         serial: input.serial ?? null,
         dimensions: input.dimensions,
         conditionNotes: input.conditionNotes ?? null,
@@ -98,9 +108,10 @@ export async function updatePiece(sequelize: Sequelize, actorId: number, id: num
       throw problems.badRequest('unknown_customer', 'customerId: no such customer', 'customerId');
     }
     const before = p.toJSON();
-    for (const key of ['customerId', 'kind', 'description', 'maker', 'year', 'serial', 'dimensions', 'conditionNotes'] as const) {
+    for (const key of ['customerId', 'kind', 'description', 'maker', 'serial', 'dimensions', 'conditionNotes'] as const) {
       if (input[key] !== undefined) p.set(key, input[key] as never);
     }
+    if (input.year !== undefined) p.set(yearFields(input.year));
     await p.save({ transaction });
     await audit({ userId: actorId, action: 'piece.update', entityType: 'piece', entityId: id, before, after: p.toJSON() }, transaction);
   });

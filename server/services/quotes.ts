@@ -891,7 +891,7 @@ async function pieceAndWork(
       description: piece?.description ?? title,
       kind: piece?.kind ?? '',
       maker: piece?.maker ?? null,
-      year: piece?.year ?? null,
+      year: piece ? (piece.yearText ?? (piece.year === null ? null : String(piece.year))) : null,
       serial: piece?.serial ?? null,
       photo: photoBytes,
       photoCaption: photo?.caption || null,

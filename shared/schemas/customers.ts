@@ -1,3 +1,4 @@
+import { parsePieceYear, YEAR_HINT, YEAR_MAX, YEAR_MIN } from '../piece-year';
 import { z } from 'zod';
 
 const optionalText = (max: number) =>
@@ -77,7 +78,14 @@ export const PieceInputSchema = z
     kind: z.enum(PIECE_KINDS, { message: `must be one of ${PIECE_KINDS.join(', ')}` }),
     description: z.string({ message: 'is required' }).trim().min(1, { message: 'is required' }).max(200),
     maker: optionalText(120),
-    year: z.number().int().min(1600, { message: 'must be 1600 or later' }).max(2100).nullable().optional(),
+    /** A whole year, or the year as written: "1890", "c. 1830", "about 1900", "1890s"; "" or null clears it. */
+    year: z
+      .union([
+        z.number().int({ message: YEAR_HINT }).min(YEAR_MIN, { message: 'must be 1600 or later' }).max(YEAR_MAX, { message: 'must be 2100 or earlier' }),
+        z.string().refine((t) => t.trim() === '' || parsePieceYear(t) !== null, { message: YEAR_HINT }),
+      ], { message: YEAR_HINT })
+      .nullable()
+      .optional(),
     serial: optionalText(60),
     dimensions: z.record(z.string().max(40), z.string().trim().max(64)).default({}),
     conditionNotes: optionalText(8000),
@@ -105,7 +113,10 @@ export const PieceSchema = z.object({
   kind: z.enum(PIECE_KINDS),
   description: z.string(),
   maker: z.string().nullable(),
+  /** The sortable best guess of the year. */
   year: z.number().nullable(),
+  /** The year as written ("c. 1830", "1890s"); what pages and documents show. */
+  yearText: z.string().nullable(),
   serial: z.string().nullable(),
   dimensions: z.record(z.string(), z.string()),
   conditionNotes: z.string().nullable(),

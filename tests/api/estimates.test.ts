@@ -42,6 +42,22 @@ describe('customers and pieces', () => {
     expect((await post(workshop, '/api/pieces', { customerId, kind: 'grand', description: 'x' })).status).toBe(403);
   });
 
+  it('keeps a piece\u2019s year as written, with a sortable best guess, and refuses what is not a year in plain words', async () => {
+    const made = await post(estimator, '/api/pieces', { customerId, kind: 'upright', description: 'Upright in walnut', year: 'c. 1830' });
+    expect(made.status).toBe(201);
+    expect(made.body).toMatchObject({ year: 1830, yearText: 'c. 1830' });
+    const decade = await estimator.agent.patch(`/api/pieces/${made.body.id}`).set('x-csrf-token', estimator.csrf).send({ year: '1890s' });
+    expect(decade.status).toBe(200);
+    expect(decade.body).toMatchObject({ year: 1895, yearText: '1890s' });
+    const exact = (await estimator.agent.get(`/api/pieces/${pieceId}`).expect(200)).body;
+    expect(exact).toMatchObject({ year: 1898, yearText: '1898' });
+    const bad = await post(estimator, '/api/pieces', { customerId, kind: 'upright', description: 'Upright', year: 'long ago' });
+    expect(bad.status).toBe(400);
+    expect(JSON.parse(bad.text)).toMatchObject({ field: 'year', detail: 'The year must be a year such as 1890, c. 1830, about 1900 or 1890s.' });
+    const cleared = await estimator.agent.patch(`/api/pieces/${made.body.id}`).set('x-csrf-token', estimator.csrf).send({ year: '' });
+    expect(cleared.body).toMatchObject({ year: null, yearText: null });
+  });
+
   it('pages and searches 10 000 customers on the server', async () => {
     await sequelize.query(
       `INSERT INTO customers (name, email, created_at, updated_at)

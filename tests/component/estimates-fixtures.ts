@@ -30,6 +30,7 @@ export const PIECE: Piece = {
   id: 7,
   customerId: 3,
   customerName: 'Hester Quillfeather',
+  yearText: null,
   kind: 'grand',
   description: 'Rosewood grand, about 1895',
   maker: null,

@@ -76,7 +76,7 @@ async function baseQuote(): Promise<QuoteDocument> {
       description: 'Boudoir grand piano in figured rosewood',
       kind: 'Grand piano',
       maker: 'Aldwyn & Petherick',
-      year: 1912,
+      year: 'c. 1912',
       serial: '41 207',
       photo: await photo(),
       photoCaption: 'Lid and fallboard on arrival: crazing and a worn band along the keyslip.',

@@ -47,7 +47,7 @@ export function CustomerPage() {
   const pieceColumns: Column<Piece>[] = [
     { key: 'description', header: 'Piece', sortKey: 'description', render: (p) => <Link className={link} to={pathTo.piece(p.id)}>{p.description}</Link> },
     { key: 'kind', header: 'Kind', sortKey: 'kind', render: (p) => PIECE_KIND_LABELS[p.kind] },
-    { key: 'maker', header: 'Maker and year', render: (p) => [p.maker, p.year].filter(Boolean).join(', ') || '—' },
+    { key: 'maker', header: 'Maker and year', render: (p) => [p.maker, p.yearText ?? p.year].filter(Boolean).join(', ') || '—' },
     { key: 'photos', header: 'Photos', align: 'right', render: (p) => p.photos.length },
     { key: 'updatedAt', header: 'Updated', sortKey: 'updatedAt', render: (p) => <span className="num text-walnut-600">{formatWhen(p.updatedAt)}</span> },
   ];

@@ -41,7 +41,7 @@ export interface PieceForm {
 export const emptyPieceForm = (kind: PieceKind = 'grand'): PieceForm => ({ kind, description: '', maker: '', year: '', serial: '', dimensions: {}, conditionNotes: '' });
 
 export function pieceFormFrom(p: Piece): PieceForm {
-  return { kind: p.kind, description: p.description, maker: p.maker ?? '', year: p.year === null ? '' : String(p.year), serial: p.serial ?? '', dimensions: { ...p.dimensions }, conditionNotes: p.conditionNotes ?? '' };
+  return { kind: p.kind, description: p.description, maker: p.maker ?? '', year: p.yearText ?? (p.year === null ? '' : String(p.year)), serial: p.serial ?? '', dimensions: { ...p.dimensions }, conditionNotes: p.conditionNotes ?? '' };
 }
 
 /**
@@ -61,13 +61,14 @@ export function checkPieceForm(form: PieceForm, customerId: number, unit: Length
       errors[`dimensions.${d.name}`] = e instanceof UnitParseError ? e.message : String(e);
     }
   }
-  const year = form.year.trim() === '' ? null : Number(form.year);
+  // The year as written: "1890", "c. 1830", "about 1900" or "1890s"; the server keeps a sortable best guess beside it.
+  const year = form.year.trim() === '' ? null : form.year.trim();
   const parsed = PieceInputSchema.safeParse({
     customerId,
     kind: form.kind,
     description: form.description,
     maker: form.maker,
-    year: year !== null && Number.isNaN(year) ? form.year : year,
+    year,
     serial: form.serial,
     dimensions,
     conditionNotes: form.conditionNotes,
@@ -99,7 +100,7 @@ export function PieceFields({ form, onChange, errors, unit, disabled = false }: 
       </div>
       <div className="grid gap-4 sm:grid-cols-3">
         <TextField label="Maker" value={form.maker} onChange={(e) => onChange({ ...form, maker: e.target.value })} error={errors.maker} />
-        <TextField label="Year" inputMode="numeric" value={form.year} onChange={(e) => onChange({ ...form, year: e.target.value })} error={errors.year} />
+        <TextField label="Year" hint="1890, c. 1830, about 1900 or 1890s" value={form.year} onChange={(e) => onChange({ ...form, year: e.target.value })} error={errors.year} />
         <TextField label="Serial number" value={form.serial} onChange={(e) => onChange({ ...form, serial: e.target.value })} error={errors.serial} />
       </div>
       <div>
