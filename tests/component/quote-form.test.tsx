@@ -2,6 +2,7 @@ import { fireEvent, screen, waitFor, within } from '@testing-library/react';
 import { Route, Routes } from 'react-router-dom';
 import { afterEach, describe, expect, it, vi } from 'vitest';
 import { EstimatePage } from '../../src/features/estimates/routes/estimate';
+import { QuotePage } from '../../src/features/quotes/routes/quote';
 import { CALC, detail, GRAND_INPUT, ME, revision } from './estimates-fixtures';
 import { QUOTE } from './quote-fixtures';
 import { fakeFetch, json, renderWithApp } from './render';
@@ -27,6 +28,7 @@ function renderEstimate(handlers: Record<string, (init?: RequestInit) => Respons
   renderWithApp(
     <Routes>
       <Route path="/estimates/:estimateId" element={<EstimatePage />} />
+      <Route path="/quotes/:quoteId" element={<QuotePage />} />
     </Routes>,
     { route: '/estimates/1' },
   );
@@ -80,7 +82,7 @@ describe('preparing a quote on the estimate page', () => {
     expect(body).toMatchObject({ discountPct: 40, revision: 1 });
   });
 
-  it('after preparing, shows the price with discount, tax, deposit and extras, the PDF preview and sending', async () => {
+  it('preparing opens the quote it made: its price with discount, tax, deposit and extras, the PDF preview and sending', async () => {
     renderEstimate({
       '/api/estimates/1/quotes': () => json(QUOTE, 201),
       '/api/quotes/55': () => json(QUOTE),
@@ -88,13 +90,16 @@ describe('preparing a quote on the estimate page', () => {
     fireEvent.click(await screen.findByRole('button', { name: /Prepare a quote/ }));
     const form = await screen.findByRole('form', { name: 'Prepare a quote' });
     fireEvent.click(within(form).getByRole('button', { name: 'Prepare the quote' }));
-    const prepared = await screen.findByTestId('prepared-quote');
+    // The quote's own page opens, not a copy of it under the estimate.
+    await screen.findByRole('heading', { level: 1, name: new RegExp(QUOTE.number) });
+    expect(screen.queryByRole('form', { name: 'Prepare a quote' })).toBeNull();
+    const prepared = document.body;
     expect(within(prepared).getByText('Discount (5 %)')).toBeTruthy();
     expect(within(prepared).getByText('VAT (20 %)')).toBeTruthy();
     expect(within(prepared).getByTestId('quote-total').textContent).toBe('£4,546.08');
     expect(within(prepared).getByTestId('quote-deposit').textContent).toBe('£1,363.82');
     expect(within(prepared).getByText('Regulate the action')).toBeTruthy();
-    expect(within(prepared).getByRole('link', { name: /Preview the PDF/ }).getAttribute('href')).toBe('/api/quotes/55/pdf');
+    expect(within(prepared).getByRole('link', { name: /^PDF$/ }).getAttribute('href')).toBe('/api/quotes/55/pdf');
     expect(within(prepared).getByRole('button', { name: /Send to the customer/ })).toBeTruthy();
   });
 });

@@ -185,9 +185,11 @@ describe('one job through the whole workshop, in a real browser', () => {
     await form.getByLabel('Covering message').fill('Thank you for letting us see the grand.\n\nThe work is set out below, stage by stage.');
     await screenshot(page, 'journey-07-sales-quote-form');
     await form.getByRole('button', { name: 'Prepare the quote' }).click();
-    const prepared = page.getByTestId('prepared-quote');
-    await prepared.waitFor();
-    story.quoteNumber = (await prepared.getByRole('link', { name: /^Q-/ }).textContent())!;
+    // "Prepare the quote" opens the quote it made.
+    await page.waitForURL(/\/quotes\/\d+$/);
+    const prepared = page.locator('main');
+    await prepared.getByRole('heading', { level: 1, name: /Q-/ }).waitFor();
+    story.quoteNumber = (await prepared.getByRole('heading', { level: 1 }).textContent())!.match(/Q-[\d-]+/)![0];
 
     const before = mail.messages.length;
     await prepared.getByRole('button', { name: 'Send to the customer' }).click();
@@ -197,7 +199,7 @@ describe('one job through the whole workshop, in a real browser', () => {
     expect(message.to).toEqual([CUSTOMER_EMAIL]);
     story.link = linkFrom(message.raw);
     expect(story.link).toBe(await page.getByLabel('Customer’s link').inputValue());
-    await expect.poll(() => page.getByTestId(`estimate-quote-${story.quoteNumber}`).locator('[data-quote-state]').textContent()).toBe('Sent');
+    await expect.poll(() => page.locator('main').getByRole('heading', { level: 1 }).locator('[data-quote-state]').textContent()).toBe('Sent');
     await screenshot(page, 'journey-08-sales-quote-sent');
     expect(errors).toEqual([]);
     await context.close();

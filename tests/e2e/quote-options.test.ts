@@ -76,15 +76,17 @@ describe('a quote for the whole household', () => {
     await form.getByLabel('Line 3: piece', { exact: true }).selectOption('2');
     await form.getByLabel('Line 3: option name').fill('Full repolish');
     await form.getByRole('button', { name: 'Prepare the quote' }).click();
-    const prepared = page.getByTestId('prepared-quote');
-    await prepared.waitFor();
+    // "Prepare the quote" opens the quote it made.
+    await page.waitForURL(/\/quotes\/\d+$/);
+    const prepared = page.locator('main');
+    await prepared.getByRole('heading', { level: 1, name: /Q-/ }).waitFor();
     await prepared.getByTestId('quote-lines-view').waitFor();
     expect(await prepared.getByTestId('quote-lines-view').getByRole('row').count()).toBe(4);
     await screenshot(page, 'quote-options-prepared');
     await prepared.getByRole('button', { name: 'Send to the customer' }).click();
     await page.getByTestId('quote-link-box').waitFor();
     const link = await page.getByLabel('Customer’s link').inputValue();
-    const quoteId = Number((await prepared.getByRole('link', { name: /^Q-/ }).getAttribute('href'))!.split('/').pop());
+    const quoteId = Number(new URL(page.url()).pathname.split('/').pop());
     const quote = (await sales.agent.get(`/api/quotes/${quoteId}`).expect(200)).body as QuoteDetail;
     expect(quote.lines.map((l) => [l.estimate.id, l.group, l.recommended])).toEqual([
       [full, 1, true],

@@ -85,14 +85,16 @@ describe('quotes, from the salesperson to the customer and back, in a real brows
     await form.getByLabel(/^Price \(GBP/).fill('300.00');
     await screenshot(page, 'quote-form');
     await form.getByRole('button', { name: 'Prepare the quote' }).click();
-    const prepared = page.getByTestId('prepared-quote');
-    await prepared.waitFor();
+    // "Prepare the quote" opens the quote it made.
+    await page.waitForURL(/\/quotes\/\d+$/);
+    const prepared = page.locator('main');
+    await prepared.getByRole('heading', { level: 1, name: /Q-/ }).waitFor();
     expect(await prepared.getByText('Discount (5 %)').count()).toBe(1);
     expect(await prepared.getByTestId('quote-total').textContent()).toMatch(/^£[\d,]+\.\d{2}$/);
     expect(await prepared.getByText('Regulate the action').count()).toBe(1);
-    const pdfHref = await prepared.getByRole('link', { name: 'Preview the PDF' }).getAttribute('href');
+    const pdfHref = await prepared.getByRole('link', { name: 'PDF', exact: true }).getAttribute('href');
     expect(pdfHref).toMatch(/^\/api\/quotes\/\d+\/pdf$/);
-    const quoteNumber = (await prepared.getByRole('link', { name: /^Q-/ }).textContent())!;
+    const quoteNumber = (await prepared.getByRole('heading', { level: 1 }).textContent())!.match(/Q-[\d-]+/)![0];
     await screenshot(page, 'quote-prepared');
 
     // The PDF, as the customer will receive it.
@@ -110,7 +112,7 @@ describe('quotes, from the salesperson to the customer and back, in a real brows
     expect(message.to).toEqual(['araminta.coldstream@example.com']);
     const link = linkFrom(message.raw);
     expect(link).toBe(shown);
-    await expect.poll(() => page.getByTestId(`estimate-quote-${quoteNumber}`).locator('[data-quote-state]').textContent()).toBe('Sent');
+    await expect.poll(() => page.locator('main').getByRole('heading', { level: 1 }).locator('[data-quote-state]').textContent()).toBe('Sent');
     await screenshot(page, 'quote-sent');
 
     // The customer, on a phone, without signing in.
@@ -162,8 +164,8 @@ describe('quotes, from the salesperson to the customer and back, in a real brows
     await wide.close();
     await customer.close();
 
-    // Back to sales: the quote, the estimate, the list and the outbox.
-    await page.getByRole('link', { name: quoteNumber }).first().click();
+    // Back to sales, still on the quote's page: the quote, the estimate, the list and the outbox.
+    await page.reload();
     await page.getByRole('heading', { level: 1, name: new RegExp(quoteNumber) }).waitFor();
     await expect.poll(() => page.locator('h1 [data-quote-state]').textContent()).toBe('Deposit paid');
     expect(await page.getByTestId('step-accepted').textContent()).toMatch(/Accepted by Araminta Coldstream/);

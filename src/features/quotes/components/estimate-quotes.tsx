@@ -1,6 +1,6 @@
-import { FileText, FileSignature, Plus } from 'lucide-react';
+import { FileSignature, Plus } from 'lucide-react';
 import { useState } from 'react';
-import { Link } from 'react-router-dom';
+import { Link, useNavigate } from 'react-router-dom';
 import type { EstimateDetail, EstimateState } from '@shared/schemas/estimates';
 import type { QuoteDetail } from '@shared/schemas/quotes';
 import { Alert } from '@/components/alert';
@@ -10,14 +10,11 @@ import { useMe } from '@/features/auth/api/get-me';
 import { useCustomer } from '@/features/customers/api/customers';
 import { useCalcCatalog } from '@/features/estimates/api/catalog';
 import { formatDate, formatMoney } from '@/lib/format';
-import { quotePdfUrl, useEstimateQuotes, useQuote } from '../api/quotes';
+import { useEstimateQuotes } from '../api/quotes';
 import { canSell } from '../lib/permissions';
-import { PriceBreakdown } from './price-breakdown';
-import { QuoteLines } from './quote-lines';
 import { QuoteDates } from './quote-timeline';
 import { QuoteForm } from './quote-form';
 import { QuoteStateBadge } from './quote-state-badge';
-import { SendQuote } from './send-quote';
 
 /** Estimate states from which a new quote may be made (the server holds the same list). */
 const QUOTABLE: readonly EstimateState[] = ['priced', 'quoted', 'viewed', 'expired', 'declined'];
@@ -25,40 +22,6 @@ const QUOTABLE: readonly EstimateState[] = ['priced', 'quoted', 'viewed', 'expir
 function addDays(days: number): string {
   const d = new Date(Date.now() + days * 86_400_000);
   return `${d.getFullYear()}-${String(d.getMonth() + 1).padStart(2, '0')}-${String(d.getDate()).padStart(2, '0')}`;
-}
-
-const linkClass = 'inline-flex items-center gap-1.5 rounded-md border border-walnut-200 bg-white px-3 py-1.5 text-sm font-medium text-walnut-800 hover:bg-parchment-100';
-
-/** The quote just prepared: its price as the customer will read it, the PDF, and sending. */
-function PreparedQuote({ id }: { id: number }) {
-  const quote = useQuote(id);
-  if (!quote.data) return null;
-  const q = quote.data;
-  return (
-    <section aria-labelledby="prepared-heading" className="rounded-lg border border-amber-300 bg-amber-50/40 p-4" data-testid="prepared-quote">
-      <div className="flex flex-wrap items-center justify-between gap-3">
-        <h3 id="prepared-heading" className="flex items-center gap-2 font-serif text-lg font-semibold text-walnut-900">
-          Quote <Link to={pathTo.quote(q.id)} className="num underline decoration-amber-400 underline-offset-2 hover:text-amber-700">{q.number}</Link>
-          <QuoteStateBadge state={q.state} />
-        </h3>
-        <a href={quotePdfUrl(q.id)} target="_blank" rel="noopener" className={linkClass}>
-          <FileText className="h-4 w-4" aria-hidden /> Preview the PDF
-        </a>
-      </div>
-      <p className="mt-1 text-sm text-walnut-600">
-        Revision {q.estimate.revision} · valid until <span className="num">{formatDate(q.validUntil)}</span>
-        {q.discountPct > 0 && <> · discount <span className="num">{q.discountPct} %</span></>}
-      </p>
-      <div className="mt-3"><QuoteLines quote={q} /></div>
-      <div className="mt-3 grid gap-6 lg:grid-cols-2">
-        <PriceBreakdown pricing={q.pricing} extras={q.extras} />
-        <div className="space-y-3">
-          <h4 className="text-sm font-semibold text-walnut-800">{q.state === 'draft' ? 'Send it to the customer' : 'Sent: send again if needed'}</h4>
-          <SendQuote quote={q} />
-        </div>
-      </div>
-    </section>
-  );
 }
 
 /**
@@ -72,13 +35,14 @@ export function EstimateQuotes({ estimate }: { estimate: EstimateDetail }) {
   const calc = useCalcCatalog();
   const customer = useCustomer(seller ? estimate.customer.id : undefined);
   const [formOpen, setFormOpen] = useState(false);
-  const [prepared, setPrepared] = useState<number>();
   const quotable = QUOTABLE.includes(estimate.state) && !estimate.archived;
   const settings = calc.data?.settings;
 
+  const navigate = useNavigate();
+  // "Prepare the quote" opens the quote it made: its price, PDF and sending are on the quote's own page.
   const onCreated = (q: QuoteDetail) => {
-    setPrepared(q.id);
     setFormOpen(false);
+    void navigate(pathTo.quote(q.id));
   };
 
   return (
@@ -134,7 +98,6 @@ export function EstimateQuotes({ estimate }: { estimate: EstimateDetail }) {
             }}
           />
         )}
-        {prepared !== undefined && <PreparedQuote id={prepared} />}
         {quotes.isError ? (
           <Alert tone="error" title="The quotes could not be loaded">{quotes.error.message}</Alert>
         ) : quotes.data && quotes.data.length === 0 ? (
