@@ -19,11 +19,12 @@ import { choosePacks } from './packs';
 import { wholeForUnit } from './pieces';
 import { labourCost, labourMinutes, roundHours, stageHours } from './labour';
 import {
-  CalendarError, climateWarnings, compileCalendar, dayOf, fromMinutes, restFactor, scheduleSessions, toMinutes,
+  CalendarError, climateWarnings, dayOf, fromMinutes, restFactor, scheduleSessions, toMinutes,
 } from './calendar';
 import type { ScheduledSession, SessionRequest } from './calendar';
 import { priceEstimate, usedCost } from './price';
 import { cautions, ventilation } from './safety';
+import { compiledCalendar, materialMap, rateMap, speciesMap } from './lookups';
 
 /** A problem with the input that only the catalog can reveal (an unknown system or species). */
 export class EstimateError extends Error {
@@ -164,9 +165,10 @@ function workStage(stage: Stage, parts: readonly PartContext[], catalog: Catalog
   const made = stage.cutLb > 0 ? makeUpPolish(withWaste(polishL, catalog.pricing.wastePct), stage.cutLb, catalog.shellac.apparentDensity, gallon) : null;
   const spiritL = (made?.solventL ?? 0) + extraSpiritL;
   const hours = stageHours(partMinutes, stage.setupMinPerSession, stage.sessions);
-  const unitOf = new Map(catalog.materials.map((m) => [m.key, m.unit]));
+  const byKey = materialMap(catalog.materials);
+  const unitOf = (key: string): string => byKey.get(key)?.unit ?? '';
   // Sheets, cloths and pads are opened whole: a stage's count is rounded up to whole pieces.
-  for (const [key, q] of used) used.set(key, wholeForUnit(q, unitOf.get(key) ?? ''));
+  for (const [key, q] of used) used.set(key, wholeForUnit(q, unitOf(key)));
   return {
     stage,
     spiritL,
@@ -185,7 +187,7 @@ function workStage(stage: Stage, parts: readonly PartContext[], catalog: Catalog
       polishL: round(made?.polishL ?? 0, 4),
       flakesG: round(made?.flakesG ?? 0, 2),
       spiritL: round(spiritL, 4),
-      materials: [...used].map(([material, quantity]) => ({ material, quantity: round(quantity, 3), unit: unitOf.get(material) ?? '' })),
+      materials: [...used].map(([material, quantity]) => ({ material, quantity: round(quantity, 3), unit: unitOf(material) })),
       labourHours: round(hours, 3),
       handsOnHoursPerSession: round(hours / stage.sessions, 3),
       restHours: stage.restHours,
@@ -237,7 +239,7 @@ export function estimate(rawInput: EstimateInput, catalog: Catalog, options: Est
   if (!system) {
     throw new EstimateError('unknown-system', ['system'], `Unknown finishing system "${input.system}"; expected one of ${catalog.systems.map((s) => s.key).join(', ')}`);
   }
-  const speciesByKey = new Map(catalog.species.map((s) => [s.key, s]));
+  const speciesByKey = speciesMap(catalog.species);
   const source = inputParts(input);
   const defaultSpecies = source.defaultSpecies ?? (speciesByKey.has('mahogany') ? 'mahogany' : (catalog.species[0] as Species).key);
 
@@ -287,7 +289,7 @@ export function estimate(rawInput: EstimateInput, catalog: Catalog, options: Est
   add(catalog.shellac.flakesMaterial, flakesG);
   add(catalog.shellac.spiritMaterial, spiritL * 1000);
   for (const w of works) for (const m of w.result.materials) add(m.material, m.quantity);
-  const materialsByKey = new Map(catalog.materials.map((m) => [m.key, m]));
+  const materialsByKey = materialMap(catalog.materials);
   const wholePacks = catalog.pricing.materialsCharge === 'whole-packs';
   const priced = [...needs].map(([key, need]) => {
     const material = materialsByKey.get(key);
@@ -298,7 +300,7 @@ export function estimate(rawInput: EstimateInput, catalog: Catalog, options: Est
 
   // Labour.
   const labourHours = roundHours(works.reduce((t, w) => t + w.labourMin, 0) / 60);
-  const rate = catalog.labourRates.find((r) => r.key === catalog.pricing.polisherRate);
+  const rate = rateMap(catalog.labourRates).get(catalog.pricing.polisherRate);
   if (!rate) throw new EstimateError('unknown-rate', ['pricing', 'polisherRate'], `Unknown labour rate "${catalog.pricing.polisherRate}"`);
   const labour = labourCost(labourHours, rate.perHour);
 
@@ -318,7 +320,7 @@ export function estimate(rawInput: EstimateInput, catalog: Catalog, options: Est
   const startDay = toMinutes(startText.slice(0, 10));
   let scheduled: ScheduledSession[];
   try {
-    scheduled = scheduleSessions(requests, compileCalendar(catalog.calendar), toMinutes(startText));
+    scheduled = scheduleSessions(requests, compiledCalendar(catalog.calendar), toMinutes(startText));
   } catch (error) {
     if (!(error instanceof CalendarError)) throw error;
     const longest = Math.max(0, ...requests.map((r) => r.handsOnMin)) / 60;
@@ -357,7 +359,7 @@ export function estimate(rawInput: EstimateInput, catalog: Catalog, options: Est
   }
 
   // Safety. Stages that use a solvent product other than the spirit (stripper, stain) are named, not guessed at.
-  const kindOf = new Map(catalog.materials.map((m) => [m.key, m]));
+  const kindOf = materialsByKey;
   const notCovered = works.flatMap((w) => {
     const own = w.result.materials.map((m) => kindOf.get(m.material)).filter((m): m is Material => m !== undefined && UNCOVERED_KINDS.has(m.kind));
     return own.length > 0 ? [{ stage: w.stage.key, name: w.stage.name, materials: own.map((m) => m.name) }] : [];
