@@ -24,6 +24,7 @@ import {
 import type { ScheduledSession, SessionRequest } from './calendar';
 import { priceEstimate, usedCost } from './price';
 import { cautions, ventilation } from './safety';
+import { formatCents, parseCents, usedCents } from './cents';
 import { compiledCalendar, materialMap, rateMap, speciesMap } from './lookups';
 
 /** A problem with the input that only the catalog can reveal (an unknown system or species). */
@@ -195,13 +196,30 @@ function workStage(stage: Stage, parts: readonly PartContext[], catalog: Catalog
   };
 }
 
-/** Prices one material's need: packs, cost of the packs and of the quantity used. */
-function priceMaterial(material: Material, need: number, wholePacks: boolean): { result: MaterialResult; charged: Money } {
+/**
+ * Prices one material's need: packs, cost of the packs and of the quantity used. The cost is worked in whole
+ * cents where that gives exactly what decimal money gives (see ./cents), in decimal money otherwise.
+ */
+function priceMaterial(material: Material, need: number, wholePacks: boolean): { result: MaterialResult; charged: Money | bigint; packsCents: bigint | null } {
   const choice = choosePacks(need, material.packs);
-  const used = usedCost(choice.cost, choice.bought, choice.need);
-  const charged = wholePacks ? money(choice.cost) : used;
+  const packsCents = parseCents(choice.cost);
+  const usedC = packsCents === null ? null : usedCents(packsCents, choice.bought, choice.need);
+  let charged: Money | bigint;
+  let usedText: string;
+  let chargeText: string;
+  if (packsCents !== null && usedC !== null) {
+    charged = wholePacks ? packsCents : usedC;
+    usedText = formatCents(usedC);
+    chargeText = formatCents(charged);
+  } else {
+    const used = usedCost(choice.cost, choice.bought, choice.need);
+    charged = wholePacks ? money(choice.cost) : used;
+    usedText = formatAmount(used);
+    chargeText = formatAmount(charged);
+  }
   return {
     charged,
+    packsCents,
     result: {
       key: material.key,
       name: material.name,
@@ -212,10 +230,20 @@ function priceMaterial(material: Material, need: number, wholePacks: boolean): {
       bought: choice.bought,
       leftover: round(choice.leftover, 3),
       packsCost: choice.cost,
-      usedCost: formatAmount(used),
-      charge: formatAmount(charged),
+      usedCost: usedText,
+      charge: chargeText,
     },
   };
+}
+
+/** The sum of the materials' charges: in whole cents when every charge is in cents, in decimal money otherwise. */
+function sumCharged(charges: ReadonlyArray<Money | bigint>): Money {
+  let cents = 0n;
+  for (const c of charges) {
+    if (typeof c !== 'bigint') return sumMoney(charges.map((x) => (typeof x === 'bigint' ? money(formatCents(x)) : x)));
+    cents += c;
+  }
+  return money(formatCents(cents));
 }
 
 function todayLocal(): string {
@@ -296,7 +324,7 @@ export function estimate(rawInput: EstimateInput, catalog: Catalog, options: Est
     if (!material) throw new EstimateError('unknown-material', ['stages'], `Unknown material "${key}" in a stage`);
     return priceMaterial(material, need, wholePacks);
   });
-  const materialsCost = sumMoney(priced.map((p) => p.charged));
+  const materialsCost = sumCharged(priced.map((p) => p.charged));
 
   // Labour.
   const labourHours = roundHours(works.reduce((t, w) => t + w.labourMin, 0) / 60);
@@ -354,7 +382,9 @@ export function estimate(rawInput: EstimateInput, catalog: Catalog, options: Est
   if (money(price.total).isZero()) {
     warnings.push({ code: 'zero-price', text: 'The price comes to 0.00: the labour rate and the materials in use have no prices yet. Enter them in the price list before quoting.' });
   } else {
-    const unpriced = priced.filter((p) => p.result.need > 0 && money(p.result.packsCost).isZero()).map((p) => p.result.name);
+    const unpriced = priced
+      .filter((p) => p.result.need > 0 && (p.packsCents === null ? money(p.result.packsCost).isZero() : p.packsCents === 0n))
+      .map((p) => p.result.name);
     if (unpriced.length > 0) warnings.push({ code: 'unpriced-materials', text: `No price yet for ${unpriced.join(', ')}: they are counted at 0.00.` });
   }
 
