@@ -9,11 +9,12 @@ import type {
   EstimateInput, EstimateResult, EstimateWarning, MaterialResult, ParsedEstimateInput, Part, PartResult, StageResult, TemplateKey,
 } from '../schemas/calc';
 import { UnitParseError, formatArea, formatMass, formatVolume } from '../units';
+import type { LengthUnit } from '../units';
 import { formatAmount, money, sumMoney } from '../money';
 import type { Money } from '../money';
 import { partArea, resolvePart } from './area';
 import type { PartArea, ResolvedPart } from './area';
-import { TEMPLATE_DEFAULTS, TEMPLATE_WOOD, templateDimensions, templateParts } from './templates';
+import { TEMPLATE_DEFAULTS, TEMPLATE_WOOD, templateDimensions, templateParts, templatePartsMm } from './templates';
 import { cutToGramsPerLitre, makeUpPolish, polishLitres, withWaste } from './shellac';
 import { choosePacks } from './packs';
 import { wholeForUnit } from './pieces';
@@ -62,30 +63,52 @@ const round = (x: number, dp: number): number => {
   return Math.round(x * f) / f;
 };
 
-/** The parts list the input describes: a template's generated parts or the parts given. */
-function inputParts(input: ParsedEstimateInput): { parts: Part[]; path: Array<string | number>; defaultSpecies: string | undefined } {
+interface PartsSource {
+  parts: Part[];
+  path: Array<string | number>;
+  defaultSpecies: string | undefined;
+  /** The unit the parts' bare numbers are in: mm for a template's generated parts, the input's default otherwise. */
+  unit: LengthUnit;
+  /** A template's parts generated with numbers (see templatePartsMm), not the text the parts list shows. */
+  generated: boolean;
+}
+
+/**
+ * The parts list the input describes: a template's generated parts (with their lengths as numbers of mm, from the
+ * template's dimensions already read) or the parts given.
+ */
+function inputParts(input: ParsedEstimateInput, dims: Record<string, number> | null): PartsSource {
   const piece = input.piece;
-  if (piece?.template) {
+  if (piece?.template && dims) {
     return {
-      parts: templateParts(piece.template, piece.dimensions, input.defaultLengthUnit, { species: piece.species, veneered: piece.veneered }),
+      parts: templatePartsMm(piece.template, dims, { species: piece.species, veneered: piece.veneered }),
       path: ['piece'],
       defaultSpecies: piece.species ?? TEMPLATE_WOOD[piece.template].species,
+      unit: 'mm',
+      generated: true,
     };
   }
-  if (piece?.parts) return { parts: piece.parts, path: ['piece', 'parts'], defaultSpecies: piece.species };
-  return { parts: input.parts ?? [], path: ['parts'], defaultSpecies: undefined };
+  if (piece?.parts) return { parts: piece.parts, path: ['piece', 'parts'], defaultSpecies: piece.species, unit: input.defaultLengthUnit, generated: false };
+  return { parts: input.parts ?? [], path: ['parts'], defaultSpecies: undefined, unit: input.defaultLengthUnit, generated: false };
 }
 
 /**
  * Reads a part into millimetres. A template's generated part may outgrow the limits a part has (a lid edge over
  * 100 m for a grand given as 90 m long): that is the dimensions' fault, and the error names them.
  */
-function resolveOrRefuse(p: Part, i: number, input: ParsedEstimateInput, path: Array<string | number>, defaultSpecies: string): ResolvedPart {
+function resolveOrRefuse(p: Part, i: number, input: ParsedEstimateInput, source: PartsSource, defaultSpecies: string): ResolvedPart {
+  const path = source.path;
   try {
-    return resolvePart(p, input.defaultLengthUnit, defaultSpecies, i);
+    return resolvePart(p, source.unit, defaultSpecies, i);
   } catch (error) {
     if (!(error instanceof UnitParseError)) throw error;
     const piece = input.piece;
+    if (piece?.template && source.generated) {
+      // A generated length out of bounds: read the part as text, as templateParts gives it, so that the error
+      // names the length exactly as the parts list shows it.
+      const text = templateParts(piece.template, piece.dimensions, input.defaultLengthUnit, { species: piece.species, veneered: piece.veneered })[i] as Part;
+      return resolveOrRefuse(text, i, input, { ...source, unit: input.defaultLengthUnit, generated: false }, defaultSpecies);
+    }
     if (piece?.template) {
       // The largest dimension given is the one that outgrew the part.
       const given = Object.entries(templateDimensions(piece.template, piece.dimensions, input.defaultLengthUnit))
@@ -102,10 +125,9 @@ function resolveOrRefuse(p: Part, i: number, input: ParsedEstimateInput, path: A
 const PLAUSIBLE_MIN_MM: Readonly<Record<TemplateKey, number>> = { grand: 1000, upright: 600, square: 1000, table: 200, cabinet: 200, chest: 200 };
 
 /** Flags a template piece whose dimensions are far from any real piece of its kind (a piano a few millimetres long). */
-function implausibleSize(input: ParsedEstimateInput): EstimateWarning[] {
+function implausibleSize(input: ParsedEstimateInput, dims: Record<string, number> | null): EstimateWarning[] {
   const piece = input.piece;
-  if (!piece?.template) return [];
-  const dims = templateDimensions(piece.template, piece.dimensions, input.defaultLengthUnit);
+  if (!piece?.template || !dims) return [];
   const out: EstimateWarning[] = [];
   for (const [name, mm] of Object.entries(dims)) {
     const usual = TEMPLATE_DEFAULTS[piece.template][name] as number;
@@ -268,12 +290,13 @@ export function estimate(rawInput: EstimateInput, catalog: Catalog, options: Est
     throw new EstimateError('unknown-system', ['system'], `Unknown finishing system "${input.system}"; expected one of ${catalog.systems.map((s) => s.key).join(', ')}`);
   }
   const speciesByKey = speciesMap(catalog.species);
-  const source = inputParts(input);
+  const dims = input.piece?.template ? templateDimensions(input.piece.template, input.piece.dimensions, input.defaultLengthUnit) : null;
+  const source = inputParts(input, dims);
   const defaultSpecies = source.defaultSpecies ?? (speciesByKey.has('mahogany') ? 'mahogany' : (catalog.species[0] as Species).key);
 
   // Parts and areas.
   const contexts: PartContext[] = source.parts.map((p, i) => {
-    const part = resolveOrRefuse(p, i, input, source.path, defaultSpecies);
+    const part = resolveOrRefuse(p, i, input, source, defaultSpecies);
     const species = speciesByKey.get(part.species);
     if (!species) {
       const path = source.path[0] === 'piece' && source.path.length === 1 ? ['piece', 'species'] : [...source.path, i, 'species'];
@@ -285,7 +308,7 @@ export function estimate(rawInput: EstimateInput, catalog: Catalog, options: Est
   for (const c of contexts) {
     if (c.area.cutOutsExceedFace) warnings.push({ code: 'cut-outs-exceed-face', text: `The cut-outs of "${c.part.name}" leave no face: its face area is taken as zero.` });
   }
-  warnings.push(...implausibleSize(input));
+  warnings.push(...implausibleSize(input, dims));
   const parts: PartResult[] = contexts.map((c) => ({
     id: c.part.id,
     name: c.part.name,
