@@ -2,7 +2,7 @@
  * Surface areas of parts. Dimensions are millimetres inside; areas come out in mm² from the shape functions and
  * in m² from {@link partArea}.
  */
-import { parseLength } from '../units';
+import { MAX_LENGTH_MM, parseLength } from '../units';
 import type { LengthUnit } from '../units';
 import type { Complexity } from '../schemas/catalog';
 import type { CutOutInput, Part, ShapeInput } from '../schemas/calc';
@@ -207,11 +207,16 @@ const readLengths = new Map<string, number>();
 const READ_LENGTHS_MAX = 4096;
 
 /**
- * parseLength, remembered for text and for numbers in other units than mm (those go through unit conversion).
+ * parseLength, remembered for text and for numbers in other units than mm (those go through unit conversion); for
+ * engine use only (the public reader is parseLength).
  * Errors are not remembered: a bad length throws from parseLength itself every time.
  */
-function readLength(value: string | number, unit: LengthUnit, allowZero: boolean): number {
-  if (typeof value === 'number' && (unit === 'mm' || Object.is(value, -0))) return parseLength(value, unit, { allowZero });
+export function readLength(value: string | number, unit: LengthUnit, allowZero: boolean): number {
+  if (typeof value === 'number') {
+    // Millimetres in range are taken as they are, as parseLength takes them; anything else goes to it for its answer.
+    if (unit === 'mm' && (allowZero ? value >= 0 : value > 0) && value <= MAX_LENGTH_MM) return value;
+    if (unit === 'mm' || Object.is(value, -0)) return parseLength(value, unit, { allowZero });
+  }
   const key = `${unit}|${allowZero ? 1 : 0}|${typeof value === 'number' ? 'n' : 's'}${value}`;
   const known = readLengths.get(key);
   if (known !== undefined) return known;

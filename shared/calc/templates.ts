@@ -6,11 +6,10 @@
  * Proportions of the small parts (legs, fall board, music desk...) are typical sizes "from memory" and are
  * meant to be edited.
  */
-import { parseLength } from '../units';
 import type { LengthUnit } from '../units';
 import type { Complexity } from '../schemas/catalog';
 import type { LengthInput, Part, ShapeInput, TemplateKey } from '../schemas/calc';
-import { polygonPerimeter } from './area';
+import { polygonPerimeter, readLength } from './area';
 import type { Point } from './area';
 
 /**
@@ -259,7 +258,7 @@ export function templateDimensions(template: TemplateKey, given: Readonly<Record
   const dims: Record<string, number> = { ...TEMPLATE_DEFAULTS[template] };
   for (const name of Object.keys(dims)) {
     const value = given[name];
-    if (value !== undefined) dims[name] = parseLength(value, unit);
+    if (value !== undefined) dims[name] = readLength(value, unit, false);
   }
   return dims;
 }
