@@ -63,19 +63,23 @@ export function authRoutes(config: Config, sequelize: Sequelize, table: RouteInf
   // Password reset by e-mailed link. The request answers 202 whatever the address, so it tells no one who has an
   // account; a few requests per address and e-mail in the sign-in window, like sign-in itself.
   const resets = resetLimits(config, pool);
-  const resetLimit: RequestHandler = async (req, res, next) => {
+  /** Counts a well-formed request against its address; answers 429 and resolves false once the limit is reached. */
+  const withinResetLimit = async (req: Parameters<RequestHandler>[0], res: Parameters<RequestHandler>[1]): Promise<boolean> => {
     const wait = await resets.attempt(ipKeyGenerator(req.ip ?? ''));
-    if (wait === 0) return next();
+    if (wait === 0) return true;
     res.setHeader('Retry-After', String(wait));
     sendProblem(res, new HttpProblem(429, 'too_many_attempts', 'Too many requests', 'Too many password reset requests. Wait a few minutes and try again.'));
+    return false;
   };
-  r.post('/password-reset', 'public', resetLimit, async (req, res) => {
+  r.post('/password-reset', 'public', async (req, res) => {
     const { email } = parseOr400(PasswordResetRequestSchema, req.body);
+    if (!(await withinResetLimit(req, res))) return;
     await requestPasswordReset(sequelize, config, email);
     res.status(202).json({ message: 'If that address belongs to an account here, a link to set a new password is on its way. It works once, within the hour.' });
   });
-  r.post('/password-reset/complete', 'public', resetLimit, async (req, res) => {
+  r.post('/password-reset/complete', 'public', async (req, res) => {
     const { token, password } = parseOr400(PasswordResetCompleteSchema, req.body);
+    if (!(await withinResetLimit(req, res))) return;
     await completePasswordReset(sequelize, token, password);
     res.status(204).end();
   });

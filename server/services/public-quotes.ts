@@ -98,7 +98,7 @@ export async function viewQuote(config: Config, token: string): Promise<PublicQu
   ]);
   // The quote's own price in the customer's lines: for several lines, the recommended choice with their hours.
   const shown = shownPricing(quote, lineRows);
-  const shownHours = lineRows.length > 1 ? lines.filter((l) => shown.lines.some((x) => x.id === l.id)).reduce((t, l) => t + l.hoursExact, 0) : r.totals.labourHours;
+  const shownHours = lineRows.length > 1 ? lines.filter((l) => shown.lines.some((x) => x.position === l.id)).reduce((t, l) => t + l.hoursExact, 0) : r.totals.labourHours;
   return {
     lines: lines.map(({ hoursExact: _, ...l }) => l),
     recommended: lines.filter((l) => l.recommended).map((l) => l.id),
@@ -150,7 +150,8 @@ async function publicLines(rows: readonly QuoteLine[], units: Parameters<typeof 
     const rev = revisions.find((x) => x.id === l.revisionId)!;
     const r = rev.result;
     return {
-      id: l.id,
+      // The customer knows a line by its place in the quote, never by a database id.
+      id: l.position,
       group: l.optionGroup,
       groupOptional: l.groupOptional,
       label: l.label,
@@ -174,8 +175,9 @@ async function publicLines(rows: readonly QuoteLine[], units: Parameters<typeof 
   });
 }
 
+/** The lines as the customer chooses between them: each known by its place in the quote. */
 export function choiceLines(rows: readonly QuoteLine[]): ChoiceLine[] {
-  return rows.map((l) => ({ id: l.id, group: l.optionGroup, groupOptional: l.groupOptional, total: Number(l.total).toFixed(2) }));
+  return rows.map((l) => ({ id: l.position, group: l.optionGroup, groupOptional: l.groupOptional, total: Number(l.total).toFixed(2) }));
 }
 
 export async function publicPdf(config: Config, token: string): Promise<{ number: string; doc: Awaited<ReturnType<typeof buildDocument>> }> {
@@ -202,7 +204,7 @@ export async function acceptQuote(sequelize: Sequelize, config: Config, token: s
       if (chosenIds.length === 0) {
         throw new HttpProblem(400, 'nothing_chosen', 'Nothing chosen', 'lines: choose at least one piece of work to accept the quote, or decline it', { field: 'lines' });
       }
-      const chosen = lines.filter((l) => chosenIds.includes(l.id));
+      const chosen = lines.filter((l) => chosenIds.includes(l.position));
       const agreed = await pieceAgreement(chosen.map((l) => l.pieceId), transaction);
       if (agreed && agreed.quote.id !== quote.id) throw await alreadyAgreed(agreed, lines.map((l) => l.estimateId), transaction);
       const unknown = input.extras.filter((id) => !quote.extras.some((x) => x.id === id));
@@ -214,7 +216,7 @@ export async function acceptQuote(sequelize: Sequelize, config: Config, token: s
         { transaction },
       );
       for (const l of lines) {
-        const taken = chosenIds.includes(l.id);
+        const taken = chosenIds.includes(l.position);
         await l.update({ chosen: taken, agreed: taken }, { transaction });
       }
       // Other open quotes naming a piece now agreed can no longer be answered.

@@ -2,7 +2,7 @@
  * Surface areas of parts. Dimensions are millimetres inside; areas come out in mm² from the shape functions and
  * in m² from {@link partArea}.
  */
-import { parseLength } from '../units';
+import { MAX_LENGTH_MM, parseLength } from '../units';
 import type { LengthUnit } from '../units';
 import type { Complexity } from '../schemas/catalog';
 import type { CutOutInput, Part, ShapeInput } from '../schemas/calc';
@@ -202,13 +202,37 @@ export function partArea(part: ResolvedPart): PartArea {
 /** Default thickness of an edge when a part's edges are finished and no thickness is given (from memory). */
 export const DEFAULT_THICKNESS_MM = 20;
 
+/** Lengths already read, by unit, zero rule and text: parseLength is pure, and the same texts come back on every keystroke. */
+const readLengths = new Map<string, number>();
+const READ_LENGTHS_MAX = 4096;
+
+/**
+ * parseLength, remembered for text and for numbers in other units than mm (those go through unit conversion); for
+ * engine use only (the public reader is parseLength).
+ * Errors are not remembered: a bad length throws from parseLength itself every time.
+ */
+export function readLength(value: string | number, unit: LengthUnit, allowZero: boolean): number {
+  if (typeof value === 'number') {
+    // Millimetres in range are taken as they are, as parseLength takes them; anything else goes to it for its answer.
+    if (unit === 'mm' && (allowZero ? value >= 0 : value > 0) && value <= MAX_LENGTH_MM) return value;
+    if (unit === 'mm' || Object.is(value, -0)) return parseLength(value, unit, { allowZero });
+  }
+  const key = `${unit}|${allowZero ? 1 : 0}|${typeof value === 'number' ? 'n' : 's'}${value}`;
+  const known = readLengths.get(key);
+  if (known !== undefined) return known;
+  const mm = parseLength(value, unit, { allowZero });
+  if (readLengths.size >= READ_LENGTHS_MAX) readLengths.clear();
+  readLengths.set(key, mm);
+  return mm;
+}
+
 /**
  * Reads a shape's dimensions into millimetres.
  *
  * @example resolveShape({ kind: 'circle', diameter: '10 in' }, 'mm') // { kind: 'circle', diameter: 254 }
  */
 export function resolveShape(shape: ShapeInput, unit: LengthUnit): Shape {
-  const len = (v: string | number): number => parseLength(v, unit);
+  const len = (v: string | number): number => readLength(v, unit, false);
   switch (shape.kind) {
     case 'rectangle':
       return { kind: 'rectangle', length: len(shape.length), width: len(shape.width) };
@@ -221,7 +245,7 @@ export function resolveShape(shape: ShapeInput, unit: LengthUnit): Shape {
     case 'polygon':
       return {
         kind: 'polygon',
-        points: shape.points.map(([x, y]) => [parseLength(x, unit, { allowZero: true }), parseLength(y, unit, { allowZero: true })] as const),
+        points: shape.points.map(([x, y]) => [readLength(x, unit, true), readLength(y, unit, true)] as const),
       };
     case 'band':
       return { kind: 'band', outline: len(shape.outline), height: len(shape.height) };
@@ -251,7 +275,7 @@ export function resolvePart(part: Part, unit: LengthUnit, defaultSpecies: string
     shape: resolveShape(part.shape, unit),
     faces: part.faces,
     edges: part.edges,
-    thicknessMm: part.thickness === undefined ? DEFAULT_THICKNESS_MM : parseLength(part.thickness, unit),
+    thicknessMm: part.thickness === undefined ? DEFAULT_THICKNESS_MM : readLength(part.thickness, unit, false),
     count: part.count,
     cutOuts: part.cutOuts.map((c) => resolveCutOut(c, unit)),
     species: part.species ?? defaultSpecies,

@@ -9,21 +9,24 @@ import type {
   EstimateInput, EstimateResult, EstimateWarning, MaterialResult, ParsedEstimateInput, Part, PartResult, StageResult, TemplateKey,
 } from '../schemas/calc';
 import { UnitParseError, formatArea, formatMass, formatVolume } from '../units';
+import type { LengthUnit } from '../units';
 import { formatAmount, money, sumMoney } from '../money';
 import type { Money } from '../money';
 import { partArea, resolvePart } from './area';
 import type { PartArea, ResolvedPart } from './area';
-import { TEMPLATE_DEFAULTS, TEMPLATE_WOOD, templateDimensions, templateParts } from './templates';
+import { TEMPLATE_DEFAULTS, TEMPLATE_WOOD, templateDimensions, templateParts, templatePartsMm } from './templates';
 import { cutToGramsPerLitre, makeUpPolish, polishLitres, withWaste } from './shellac';
 import { choosePacks } from './packs';
 import { wholeForUnit } from './pieces';
 import { labourCost, labourMinutes, roundHours, stageHours } from './labour';
 import {
-  CalendarError, climateWarnings, compileCalendar, dayOf, fromMinutes, restFactor, scheduleSessions, toMinutes,
+  CalendarError, climateWarnings, dayOf, fromMinutes, restFactor, scheduleSessions, toMinutes,
 } from './calendar';
 import type { ScheduledSession, SessionRequest } from './calendar';
 import { priceEstimate, usedCost } from './price';
 import { cautions, ventilation } from './safety';
+import { formatCents, parseCents, usedCents } from './cents';
+import { compiledCalendar, materialMap, rateMap, speciesMap } from './lookups';
 
 /** A problem with the input that only the catalog can reveal (an unknown system or species). */
 export class EstimateError extends Error {
@@ -60,30 +63,52 @@ const round = (x: number, dp: number): number => {
   return Math.round(x * f) / f;
 };
 
-/** The parts list the input describes: a template's generated parts or the parts given. */
-function inputParts(input: ParsedEstimateInput): { parts: Part[]; path: Array<string | number>; defaultSpecies: string | undefined } {
+interface PartsSource {
+  parts: Part[];
+  path: Array<string | number>;
+  defaultSpecies: string | undefined;
+  /** The unit the parts' bare numbers are in: mm for a template's generated parts, the input's default otherwise. */
+  unit: LengthUnit;
+  /** A template's parts generated with numbers (see templatePartsMm), not the text the parts list shows. */
+  generated: boolean;
+}
+
+/**
+ * The parts list the input describes: a template's generated parts (with their lengths as numbers of mm, from the
+ * template's dimensions already read) or the parts given.
+ */
+function inputParts(input: ParsedEstimateInput, dims: Record<string, number> | null): PartsSource {
   const piece = input.piece;
-  if (piece?.template) {
+  if (piece?.template && dims) {
     return {
-      parts: templateParts(piece.template, piece.dimensions, input.defaultLengthUnit, { species: piece.species, veneered: piece.veneered }),
+      parts: templatePartsMm(piece.template, dims, { species: piece.species, veneered: piece.veneered }),
       path: ['piece'],
       defaultSpecies: piece.species ?? TEMPLATE_WOOD[piece.template].species,
+      unit: 'mm',
+      generated: true,
     };
   }
-  if (piece?.parts) return { parts: piece.parts, path: ['piece', 'parts'], defaultSpecies: piece.species };
-  return { parts: input.parts ?? [], path: ['parts'], defaultSpecies: undefined };
+  if (piece?.parts) return { parts: piece.parts, path: ['piece', 'parts'], defaultSpecies: piece.species, unit: input.defaultLengthUnit, generated: false };
+  return { parts: input.parts ?? [], path: ['parts'], defaultSpecies: undefined, unit: input.defaultLengthUnit, generated: false };
 }
 
 /**
  * Reads a part into millimetres. A template's generated part may outgrow the limits a part has (a lid edge over
  * 100 m for a grand given as 90 m long): that is the dimensions' fault, and the error names them.
  */
-function resolveOrRefuse(p: Part, i: number, input: ParsedEstimateInput, path: Array<string | number>, defaultSpecies: string): ResolvedPart {
+function resolveOrRefuse(p: Part, i: number, input: ParsedEstimateInput, source: PartsSource, defaultSpecies: string): ResolvedPart {
+  const path = source.path;
   try {
-    return resolvePart(p, input.defaultLengthUnit, defaultSpecies, i);
+    return resolvePart(p, source.unit, defaultSpecies, i);
   } catch (error) {
     if (!(error instanceof UnitParseError)) throw error;
     const piece = input.piece;
+    if (piece?.template && source.generated) {
+      // A generated length out of bounds: read the part as text, as templateParts gives it, so that the error
+      // names the length exactly as the parts list shows it.
+      const text = templateParts(piece.template, piece.dimensions, input.defaultLengthUnit, { species: piece.species, veneered: piece.veneered })[i] as Part;
+      return resolveOrRefuse(text, i, input, { ...source, unit: input.defaultLengthUnit, generated: false }, defaultSpecies);
+    }
     if (piece?.template) {
       // The largest dimension given is the one that outgrew the part.
       const given = Object.entries(templateDimensions(piece.template, piece.dimensions, input.defaultLengthUnit))
@@ -100,10 +125,9 @@ function resolveOrRefuse(p: Part, i: number, input: ParsedEstimateInput, path: A
 const PLAUSIBLE_MIN_MM: Readonly<Record<TemplateKey, number>> = { grand: 1000, upright: 600, square: 1000, table: 200, cabinet: 200, chest: 200 };
 
 /** Flags a template piece whose dimensions are far from any real piece of its kind (a piano a few millimetres long). */
-function implausibleSize(input: ParsedEstimateInput): EstimateWarning[] {
+function implausibleSize(input: ParsedEstimateInput, dims: Record<string, number> | null): EstimateWarning[] {
   const piece = input.piece;
-  if (!piece?.template) return [];
-  const dims = templateDimensions(piece.template, piece.dimensions, input.defaultLengthUnit);
+  if (!piece?.template || !dims) return [];
   const out: EstimateWarning[] = [];
   for (const [name, mm] of Object.entries(dims)) {
     const usual = TEMPLATE_DEFAULTS[piece.template][name] as number;
@@ -164,9 +188,10 @@ function workStage(stage: Stage, parts: readonly PartContext[], catalog: Catalog
   const made = stage.cutLb > 0 ? makeUpPolish(withWaste(polishL, catalog.pricing.wastePct), stage.cutLb, catalog.shellac.apparentDensity, gallon) : null;
   const spiritL = (made?.solventL ?? 0) + extraSpiritL;
   const hours = stageHours(partMinutes, stage.setupMinPerSession, stage.sessions);
-  const unitOf = new Map(catalog.materials.map((m) => [m.key, m.unit]));
+  const byKey = materialMap(catalog.materials);
+  const unitOf = (key: string): string => byKey.get(key)?.unit ?? '';
   // Sheets, cloths and pads are opened whole: a stage's count is rounded up to whole pieces.
-  for (const [key, q] of used) used.set(key, wholeForUnit(q, unitOf.get(key) ?? ''));
+  for (const [key, q] of used) used.set(key, wholeForUnit(q, unitOf(key)));
   return {
     stage,
     spiritL,
@@ -185,7 +210,7 @@ function workStage(stage: Stage, parts: readonly PartContext[], catalog: Catalog
       polishL: round(made?.polishL ?? 0, 4),
       flakesG: round(made?.flakesG ?? 0, 2),
       spiritL: round(spiritL, 4),
-      materials: [...used].map(([material, quantity]) => ({ material, quantity: round(quantity, 3), unit: unitOf.get(material) ?? '' })),
+      materials: [...used].map(([material, quantity]) => ({ material, quantity: round(quantity, 3), unit: unitOf(material) })),
       labourHours: round(hours, 3),
       handsOnHoursPerSession: round(hours / stage.sessions, 3),
       restHours: stage.restHours,
@@ -193,13 +218,30 @@ function workStage(stage: Stage, parts: readonly PartContext[], catalog: Catalog
   };
 }
 
-/** Prices one material's need: packs, cost of the packs and of the quantity used. */
-function priceMaterial(material: Material, need: number, wholePacks: boolean): { result: MaterialResult; charged: Money } {
+/**
+ * Prices one material's need: packs, cost of the packs and of the quantity used. The cost is worked in whole
+ * cents where that gives exactly what decimal money gives (see ./cents), in decimal money otherwise.
+ */
+function priceMaterial(material: Material, need: number, wholePacks: boolean): { result: MaterialResult; charged: Money | bigint; packsCents: bigint | null } {
   const choice = choosePacks(need, material.packs);
-  const used = usedCost(choice.cost, choice.bought, choice.need);
-  const charged = wholePacks ? money(choice.cost) : used;
+  const packsCents = parseCents(choice.cost);
+  const usedC = packsCents === null ? null : usedCents(packsCents, choice.bought, choice.need);
+  let charged: Money | bigint;
+  let usedText: string;
+  let chargeText: string;
+  if (packsCents !== null && usedC !== null) {
+    charged = wholePacks ? packsCents : usedC;
+    usedText = formatCents(usedC);
+    chargeText = formatCents(charged);
+  } else {
+    const used = usedCost(choice.cost, choice.bought, choice.need);
+    charged = wholePacks ? money(choice.cost) : used;
+    usedText = formatAmount(used);
+    chargeText = formatAmount(charged);
+  }
   return {
     charged,
+    packsCents,
     result: {
       key: material.key,
       name: material.name,
@@ -210,10 +252,20 @@ function priceMaterial(material: Material, need: number, wholePacks: boolean): {
       bought: choice.bought,
       leftover: round(choice.leftover, 3),
       packsCost: choice.cost,
-      usedCost: formatAmount(used),
-      charge: formatAmount(charged),
+      usedCost: usedText,
+      charge: chargeText,
     },
   };
+}
+
+/** The sum of the materials' charges: in whole cents when every charge is in cents, in decimal money otherwise. */
+function sumCharged(charges: ReadonlyArray<Money | bigint>): Money {
+  let cents = 0n;
+  for (const c of charges) {
+    if (typeof c !== 'bigint') return sumMoney(charges.map((x) => (typeof x === 'bigint' ? money(formatCents(x)) : x)));
+    cents += c;
+  }
+  return money(formatCents(cents));
 }
 
 function todayLocal(): string {
@@ -237,13 +289,14 @@ export function estimate(rawInput: EstimateInput, catalog: Catalog, options: Est
   if (!system) {
     throw new EstimateError('unknown-system', ['system'], `Unknown finishing system "${input.system}"; expected one of ${catalog.systems.map((s) => s.key).join(', ')}`);
   }
-  const speciesByKey = new Map(catalog.species.map((s) => [s.key, s]));
-  const source = inputParts(input);
+  const speciesByKey = speciesMap(catalog.species);
+  const dims = input.piece?.template ? templateDimensions(input.piece.template, input.piece.dimensions, input.defaultLengthUnit) : null;
+  const source = inputParts(input, dims);
   const defaultSpecies = source.defaultSpecies ?? (speciesByKey.has('mahogany') ? 'mahogany' : (catalog.species[0] as Species).key);
 
   // Parts and areas.
   const contexts: PartContext[] = source.parts.map((p, i) => {
-    const part = resolveOrRefuse(p, i, input, source.path, defaultSpecies);
+    const part = resolveOrRefuse(p, i, input, source, defaultSpecies);
     const species = speciesByKey.get(part.species);
     if (!species) {
       const path = source.path[0] === 'piece' && source.path.length === 1 ? ['piece', 'species'] : [...source.path, i, 'species'];
@@ -255,7 +308,7 @@ export function estimate(rawInput: EstimateInput, catalog: Catalog, options: Est
   for (const c of contexts) {
     if (c.area.cutOutsExceedFace) warnings.push({ code: 'cut-outs-exceed-face', text: `The cut-outs of "${c.part.name}" leave no face: its face area is taken as zero.` });
   }
-  warnings.push(...implausibleSize(input));
+  warnings.push(...implausibleSize(input, dims));
   const parts: PartResult[] = contexts.map((c) => ({
     id: c.part.id,
     name: c.part.name,
@@ -287,18 +340,18 @@ export function estimate(rawInput: EstimateInput, catalog: Catalog, options: Est
   add(catalog.shellac.flakesMaterial, flakesG);
   add(catalog.shellac.spiritMaterial, spiritL * 1000);
   for (const w of works) for (const m of w.result.materials) add(m.material, m.quantity);
-  const materialsByKey = new Map(catalog.materials.map((m) => [m.key, m]));
+  const materialsByKey = materialMap(catalog.materials);
   const wholePacks = catalog.pricing.materialsCharge === 'whole-packs';
   const priced = [...needs].map(([key, need]) => {
     const material = materialsByKey.get(key);
     if (!material) throw new EstimateError('unknown-material', ['stages'], `Unknown material "${key}" in a stage`);
     return priceMaterial(material, need, wholePacks);
   });
-  const materialsCost = sumMoney(priced.map((p) => p.charged));
+  const materialsCost = sumCharged(priced.map((p) => p.charged));
 
   // Labour.
   const labourHours = roundHours(works.reduce((t, w) => t + w.labourMin, 0) / 60);
-  const rate = catalog.labourRates.find((r) => r.key === catalog.pricing.polisherRate);
+  const rate = rateMap(catalog.labourRates).get(catalog.pricing.polisherRate);
   if (!rate) throw new EstimateError('unknown-rate', ['pricing', 'polisherRate'], `Unknown labour rate "${catalog.pricing.polisherRate}"`);
   const labour = labourCost(labourHours, rate.perHour);
 
@@ -318,7 +371,7 @@ export function estimate(rawInput: EstimateInput, catalog: Catalog, options: Est
   const startDay = toMinutes(startText.slice(0, 10));
   let scheduled: ScheduledSession[];
   try {
-    scheduled = scheduleSessions(requests, compileCalendar(catalog.calendar), toMinutes(startText));
+    scheduled = scheduleSessions(requests, compiledCalendar(catalog.calendar), toMinutes(startText));
   } catch (error) {
     if (!(error instanceof CalendarError)) throw error;
     const longest = Math.max(0, ...requests.map((r) => r.handsOnMin)) / 60;
@@ -352,12 +405,14 @@ export function estimate(rawInput: EstimateInput, catalog: Catalog, options: Est
   if (money(price.total).isZero()) {
     warnings.push({ code: 'zero-price', text: 'The price comes to 0.00: the labour rate and the materials in use have no prices yet. Enter them in the price list before quoting.' });
   } else {
-    const unpriced = priced.filter((p) => p.result.need > 0 && money(p.result.packsCost).isZero()).map((p) => p.result.name);
+    const unpriced = priced
+      .filter((p) => p.result.need > 0 && (p.packsCents === null ? money(p.result.packsCost).isZero() : p.packsCents === 0n))
+      .map((p) => p.result.name);
     if (unpriced.length > 0) warnings.push({ code: 'unpriced-materials', text: `No price yet for ${unpriced.join(', ')}: they are counted at 0.00.` });
   }
 
   // Safety. Stages that use a solvent product other than the spirit (stripper, stain) are named, not guessed at.
-  const kindOf = new Map(catalog.materials.map((m) => [m.key, m]));
+  const kindOf = materialsByKey;
   const notCovered = works.flatMap((w) => {
     const own = w.result.materials.map((m) => kindOf.get(m.material)).filter((m): m is Material => m !== undefined && UNCOVERED_KINDS.has(m.kind));
     return own.length > 0 ? [{ stage: w.stage.key, name: w.stage.name, materials: own.map((m) => m.name) }] : [];

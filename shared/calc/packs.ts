@@ -36,6 +36,45 @@ function gcd(a: number, b: number): number {
   return a;
 }
 
+interface PreparedPacks {
+  sorted: ReadonlyArray<{ pack: Pack; minor: number }>;
+  scale: number;
+  g: number;
+  sizes: readonly number[];
+  prices: readonly number[];
+  maxSize: number;
+}
+
+/** The sorted sizes and integer prices of a pack list, worked out once per list (the catalog's lists do not change in place). */
+const prepared = new WeakMap<readonly Pack[], PreparedPacks>();
+
+function prepare(packs: readonly Pack[]): PreparedPacks {
+  let p = prepared.get(packs);
+  if (p) return p;
+  const sorted = packs
+    .map((pack) => ({ pack, minor: toMinorUnits(pack.price) }))
+    .sort((a, b) => b.pack.size - a.pack.size || a.minor - b.minor);
+  const scale = 10 ** Math.min(6, Math.max(...sorted.map((x) => decimals(x.pack.size))));
+  const intSizes = sorted.map((x) => Math.round(x.pack.size * scale));
+  const g = intSizes.reduce(gcd);
+  const sizes = intSizes.map((x) => x / g);
+  p = { sorted, scale, g, sizes, prices: sorted.map((x) => x.minor), maxSize: Math.max(...sizes) };
+  prepared.set(packs, p);
+  return p;
+}
+
+/**
+ * A non-negative whole number of ten-thousandths as an amount to the cent, rounded half up, as
+ * formatAmount(money(minor).dividedBy(10_000)) gives it; null where plain integers cannot be trusted.
+ */
+function minorToAmount(minor: number): string | null {
+  if (!Number.isSafeInteger(minor) || minor < 0) return null;
+  const r = minor % 100;
+  const cents = (minor - r) / 100 + (r >= 50 ? 1 : 0);
+  const c = cents % 100;
+  return `${(cents - c) / 100}.${c < 10 ? '0' : ''}${c}`;
+}
+
 /**
  * The cheapest packs covering `need` (in the material's unit). Exact by dynamic programming over multiples of the
  * sizes' greatest common divisor. Ties go to fewer packs, then to less left over, then to larger packs.
@@ -45,22 +84,14 @@ function gcd(a: number, b: number): number {
  */
 export function choosePacks(need: number, packs: readonly Pack[]): PackChoice {
   if (packs.length === 0) throw new Error('A material needs at least one pack size');
-  const sorted = packs
-    .map((p) => ({ pack: p, minor: toMinorUnits(p.price) }))
-    .sort((a, b) => b.pack.size - a.pack.size || a.minor - b.minor);
+  const { sorted, scale, g, sizes, prices, maxSize } = prepare(packs);
   const clean = Math.round(Math.max(0, need) * 1e9) / 1e9;
   if (clean === 0) return { need: 0, packs: [], bought: 0, leftover: 0, cost: '0.00' };
 
-  const scale = 10 ** Math.min(6, Math.max(...sorted.map((p) => decimals(p.pack.size))));
-  const intSizes = sorted.map((p) => Math.round(p.pack.size * scale));
-  const g = intSizes.reduce(gcd);
-  const sizes = intSizes.map((s) => s / g);
-  const prices = sorted.map((p) => p.minor);
   let target = Math.ceil((clean * scale) / g - 1e-9);
 
   // Very large needs: fill with the best-value pack until the rest fits the exact search.
   const counts = new Array<number>(sorted.length).fill(0);
-  const maxSize = Math.max(...sizes);
   if (target + maxSize > EXACT_LIMIT) {
     let best = 0;
     for (let i = 1; i < sizes.length; i++) {
@@ -109,6 +140,6 @@ export function choosePacks(need: number, packs: readonly Pack[]): PackChoice {
   });
   bought = Math.round(bought * scale) / scale;
   // Prices are whole ten-thousandths, so the integer sum is exact; one division turns it into money.
-  const totalCost = formatAmount(money(minorTotal).dividedBy(10_000));
+  const totalCost = minorToAmount(minorTotal) ?? formatAmount(money(minorTotal).dividedBy(10_000));
   return { need: clean, packs: chosen, bought, leftover: Math.round((bought - clean) * 1e9) / 1e9, cost: totalCost };
 }

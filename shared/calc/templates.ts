@@ -6,11 +6,10 @@
  * Proportions of the small parts (legs, fall board, music desk...) are typical sizes "from memory" and are
  * meant to be edited.
  */
-import { parseLength } from '../units';
 import type { LengthUnit } from '../units';
 import type { Complexity } from '../schemas/catalog';
 import type { LengthInput, Part, ShapeInput, TemplateKey } from '../schemas/calc';
-import { polygonPerimeter } from './area';
+import { polygonPerimeter, readLength } from './area';
 import type { Point } from './area';
 
 /**
@@ -43,9 +42,25 @@ export interface TemplateOptions {
   veneered?: boolean | undefined;
 }
 
-/** Writes millimetres as text, to a micrometre. */
-function mm(value: number): string {
-  return `${Math.round(value * 1000) / 1000} mm`;
+/** Millimetres to a micrometre: the generated parts' lengths. */
+function mm(value: number): number {
+  return Math.round(value * 1000) / 1000;
+}
+
+/** Writes generated millimetres (already to a micrometre) as text. */
+function mmText(value: number): string {
+  return `${value} mm`;
+}
+
+/** A generated shape with its lengths written as millimetre text, fields in the same order. */
+function shapeText(shape: ShapeInput): ShapeInput {
+  const out: Record<string, unknown> = {};
+  for (const [key, value] of Object.entries(shape)) {
+    if (key === 'kind') out[key] = value;
+    else if (key === 'points') out[key] = (value as Array<[number, number]>).map(([x, y]) => [mmText(x), mmText(y)]);
+    else out[key] = mmText(value as number);
+  }
+  return out as ShapeInput;
 }
 
 /** Proportions of the grand outline (of the author's design, not any maker's scale). */
@@ -105,14 +120,14 @@ interface PartSpec {
   show?: boolean;
 }
 
-function part(spec: PartSpec, wood: { species: string; veneered: boolean }): Part {
+function part(spec: PartSpec, wood: { species: string; veneered: boolean }, write: (mm: number) => LengthInput): Part {
   return {
     id: spec.id,
     name: spec.name,
     shape: spec.shape,
     faces: spec.faces ?? 1,
     edges: spec.edges ?? false,
-    ...(spec.thickness === undefined ? {} : { thickness: mm(spec.thickness) }),
+    ...(spec.thickness === undefined ? {} : { thickness: write(mm(spec.thickness)) }),
     count: spec.count ?? 1,
     cutOuts: [],
     species: wood.species,
@@ -243,7 +258,7 @@ export function templateDimensions(template: TemplateKey, given: Readonly<Record
   const dims: Record<string, number> = { ...TEMPLATE_DEFAULTS[template] };
   for (const name of Object.keys(dims)) {
     const value = given[name];
-    if (value !== undefined) dims[name] = parseLength(value, unit);
+    if (value !== undefined) dims[name] = readLength(value, unit, false);
   }
   return dims;
 }
@@ -264,5 +279,18 @@ export function templateParts(
     species: options.species ?? TEMPLATE_WOOD[template].species,
     veneered: options.veneered ?? TEMPLATE_WOOD[template].veneered,
   };
-  return GENERATORS[template](dims).map((spec) => part(spec, wood));
+  return GENERATORS[template](dims).map((spec) => part({ ...spec, shape: shapeText(spec.shape) }, wood, mmText));
+}
+
+/**
+ * The same parts as {@link templateParts} from dimensions already in millimetres, with every length a number of
+ * millimetres (to a micrometre) instead of text: what the engine reads, with the default length unit taken as mm.
+ * The numbers are those templateParts writes as text, so reading either gives the same millimetres.
+ */
+export function templatePartsMm(template: TemplateKey, dims: Record<string, number>, options: TemplateOptions = {}): Part[] {
+  const wood = {
+    species: options.species ?? TEMPLATE_WOOD[template].species,
+    veneered: options.veneered ?? TEMPLATE_WOOD[template].veneered,
+  };
+  return GENERATORS[template](dims).map((spec) => part(spec, wood, (n) => n));
 }

@@ -164,6 +164,16 @@ export type WorkingCalendar = z.infer<typeof WorkingCalendarSchema>;
 export const GALLON_BASES = ['us', 'uk'] as const;
 export type GallonBasis = (typeof GALLON_BASES)[number];
 
+/** The gallon a cut is measured against, in short: "US gal" or "imperial gal" (US when the setting is absent). */
+export function gallonName(gallon: GallonBasis | undefined): string {
+  return gallon === 'uk' ? 'imperial gal' : 'US gal';
+}
+
+/** The unit of a pound cut on the workshop's gallon, as shown beside every cut: "lb per US gal" or "lb per imperial gal". */
+export function cutUnit(gallon: GallonBasis | undefined): string {
+  return `lb per ${gallonName(gallon)}`;
+}
+
 /** Which catalog materials hold the shellac flakes and the spirit, the solids' apparent density and the cut's gallon. */
 export const ShellacSettingsSchema = z.object({
   flakesMaterial: key,

@@ -6,7 +6,7 @@
 import request from 'supertest';
 import sharp from 'sharp';
 import { fromMinutes, toMinutes } from '../../shared/calc';
-import { afterAll, beforeAll, describe, expect, it, vi } from 'vitest';
+import { afterAll, beforeAll, describe, expect, it, onTestFinished, vi } from 'vitest';
 import type { BookingPreview, JobDetail, MaterialForecast, PlanningBoard, SessionDoneResult, ActualsReport } from '../../shared/schemas/planning';
 import { AuditEntry, FinishingSystem, Job } from '../../server/models';
 import { closeTestApp, getTestApp, signInAs, startServices, type Session } from '../helpers/app';
@@ -373,6 +373,14 @@ describe('the polisher at the bench', () => {
   it('marks a session done with the materials used and a problem, and adds a camera photo to the piece', async () => {
     const job = await book(planner, (await newJob()).id, { mode: 'earliest', notBefore: '2029-09-03' });
     const first = job.sessions[0]!;
+    // A session is marked done once it has finished: the clock moves past the booking (Date only), and the people
+    // sign in again under it.
+    vi.useFakeTimers({ toFake: ['Date'] });
+    onTestFinished(() => {
+      vi.useRealTimers();
+    });
+    vi.setSystemTime(new Date('2031-06-02T12:00:00'));
+    [planner, sales] = await Promise.all([signInAs(app, 'workshop'), signInAs(app, 'sales')]);
     const done = await post(planner, `/api/jobs/${job.id}/sessions/${first.id}/done`, {
       actualEnd: first.end,
       actualHours: first.handsOnHours,

@@ -117,6 +117,8 @@ describe('a quote of two pieces with an option group', () => {
     const table = quote.lines[2]!;
     const chosen = [chosenUpright.id, table.id];
     const expected = choiceFigures({ lines: quote.lines, depositPct: quote.depositPct, extras: quote.extras }, chosen, ['x1']);
+    // The customer's page knows each line by its place in the quote, never by a database id.
+    const chosenPlaces = [chosenUpright.position, table.position];
     const extraWithTax = cents(quote.extras[0]!.priceWithTax);
     expect(cents(expected.total)).toBe(cents(chosenUpright.total) + cents(table.total) + extraWithTax);
     expect(cents(expected.deposit)).toBe(Math.round((cents(expected.total) * quote.depositPct) / 100));
@@ -124,17 +126,18 @@ describe('a quote of two pieces with an option group', () => {
     // The customer's page offers the options; a choice of two for one piece, or none for it, is refused.
     const page = await request(app).get(pub(token)).expect(200);
     expect(page.body.lines).toHaveLength(3);
-    expect(page.body.recommended).toEqual([quote.lines[0]!.id, table.id]);
+    expect(page.body.recommended).toEqual([quote.lines[0]!.position, table.position]);
+    expect(page.body.lines.map((l: { id: number }) => l.id)).toEqual([1, 2, 3]);
     expect(JSON.stringify(page.body)).not.toMatch(/per hour|Margin|overhead/i);
-    const both = await request(app).post(pub(token, '/accept')).send({ name: 'Ida Household', acceptTerms: true, lines: [quote.lines[0]!.id, quote.lines[1]!.id, table.id] });
+    const both = await request(app).post(pub(token, '/accept')).send({ name: 'Ida Household', acceptTerms: true, lines: [quote.lines[0]!.position, quote.lines[1]!.position, table.position] });
     expect(both.status).toBe(400);
     expect(problem(both)).toMatchObject({ code: 'invalid_choice', field: 'lines' });
-    const none = await request(app).post(pub(token, '/accept')).send({ name: 'Ida Household', acceptTerms: true, lines: [table.id] });
+    const none = await request(app).post(pub(token, '/accept')).send({ name: 'Ida Household', acceptTerms: true, lines: [table.position] });
     expect(problem(none)).toMatchObject({ status: 400, field: 'lines' });
     const silent = await request(app).post(pub(token, '/accept')).send({ name: 'Ida Household', acceptTerms: true });
     expect(problem(silent)).toMatchObject({ status: 400, code: 'choice_required', field: 'lines' });
 
-    const accepted = await request(app).post(pub(token, '/accept')).send({ name: 'Ida Household', acceptTerms: true, lines: chosen, extras: ['x1'] }).expect(200);
+    const accepted = await request(app).post(pub(token, '/accept')).send({ name: 'Ida Household', acceptTerms: true, lines: chosenPlaces, extras: ['x1'] }).expect(200);
     expect(accepted.body.agreed).toMatchObject({ total: expected.total, deposit: expected.deposit, balance: expected.balance });
     expect(accepted.body.lines.map((l: { chosen: boolean }) => l.chosen)).toEqual(quote.lines.map((l) => chosen.includes(l.id)));
     const staff = (await sales.agent.get(`/api/quotes/${quote.id}`).expect(200)).body as QuoteDetail;
@@ -208,7 +211,7 @@ describe('a quote of two pieces with an option group', () => {
     });
     const [upright, table] = quote.lines;
     expect(table!.groupOptional).toBe(true);
-    const r = await request(app).post(pub(token, '/accept')).send({ name: 'Ida Household', acceptTerms: true, lines: [upright!.id] }).expect(200);
+    const r = await request(app).post(pub(token, '/accept')).send({ name: 'Ida Household', acceptTerms: true, lines: [upright!.position] }).expect(200);
     expect(r.body.agreed.total).toBe(upright!.total);
     expect((await QuoteLine.findByPk(table!.id))!.agreed).toBe(false);
     // The dining table is still free to be agreed in another quote.
@@ -257,10 +260,10 @@ describe('which option customers take', () => {
     const before = (await sales.agent.get('/api/quotes/options-report').expect(200)).body;
     const h1 = await household();
     const q1 = await sent(h1.full, twoPieces(h1));
-    await request(app).post(pub(q1.token, '/accept')).send({ name: 'Ada Lighter', acceptTerms: true, lines: [q1.quote.lines[1]!.id, q1.quote.lines[2]!.id] }).expect(200);
+    await request(app).post(pub(q1.token, '/accept')).send({ name: 'Ada Lighter', acceptTerms: true, lines: [q1.quote.lines[1]!.position, q1.quote.lines[2]!.position] }).expect(200);
     const h2 = await household();
     const q2 = await sent(h2.full, twoPieces(h2));
-    await request(app).post(pub(q2.token, '/accept')).send({ name: 'Bea Fuller', acceptTerms: true, lines: [q2.quote.lines[0]!.id, q2.quote.lines[2]!.id] }).expect(200);
+    await request(app).post(pub(q2.token, '/accept')).send({ name: 'Bea Fuller', acceptTerms: true, lines: [q2.quote.lines[0]!.position, q2.quote.lines[2]!.position] }).expect(200);
     const after = (await sales.agent.get('/api/quotes/options-report').expect(200)).body;
     expect(after.groups - before.groups).toBe(2);
     expect(after.lighterChosen - before.lighterChosen).toBe(1);

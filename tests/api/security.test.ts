@@ -72,8 +72,12 @@ describe('security', () => {
     await request(app).post(`/api/public/quotes/${a.token}/decline`).send({ reason: 'Changed our mind' }).expect(200);
     const [row] = await sequelize.query<{ state: string }>('SELECT state FROM quotes WHERE id = :id', { replacements: { id: b.id }, type: QueryTypes.SELECT });
     expect(row!.state).toBe('quoted');
-    // The public page never exposes staff data: no ids, no internal costs.
-    expect(JSON.stringify(pageA.body)).not.toMatch(/materialsCost|labourCost|passwordHash|"id":/);
+    // The public page never exposes staff data: no database ids, no internal costs. Its quote lines are known by
+    // their place in the quote (1, 2, …), which is all the customer's choice needs.
+    const { lines, ...rest } = pageA.body as { lines: { id: number }[] };
+    expect(lines.map((l) => l.id)).toEqual(lines.map((_, i) => i + 1));
+    const withoutPlaces = JSON.stringify({ ...rest, lines: lines.map(({ id: _place, ...l }) => l) });
+    expect(withoutPlaces).not.toMatch(/materialsCost|labourCost|passwordHash|"id":/);
   });
 
   it('staff routes refuse a customer who has only a link', async () => {

@@ -97,7 +97,7 @@ describe('one job through the whole workshop, in a real browser', () => {
     await page.getByRole('link', { name: 'Full repolish', exact: false }).first().click();
     await page.getByRole('heading', { level: 2, name: 'Stages, in order' }).waitFor();
     const bodying = page.getByRole('listitem').filter({ has: page.getByRole('button', { name: 'Bodying with the rubber', exact: true }) });
-    await expect.poll(() => bodying.textContent()).toMatch(/7 sessions × 3 coats · 1\.5 lb cut · rest 12 h/);
+    await expect.poll(() => bodying.textContent()).toMatch(/7 sessions × 3 coats · 1\.5 lb cut per US gal · rest 12 h/);
     await bodying.getByRole('button', { name: 'Bodying with the rubber', exact: true }).click();
     const rest = bodying.getByLabel('Rest after each session (h at 20 °C)');
     expect(await rest.inputValue()).toBe('12');
@@ -109,7 +109,7 @@ describe('one job through the whole workshop, in a real browser', () => {
     // Read back from the server, not from the form.
     await page.reload();
     await page.getByRole('heading', { level: 2, name: 'Stages, in order' }).waitFor();
-    await expect.poll(() => bodying.textContent()).toMatch(new RegExp(`7 sessions × 3 coats · 1\\.5 lb cut · rest ${NEW_BODY_REST} h`));
+    await expect.poll(() => bodying.textContent()).toMatch(new RegExp(`7 sessions × 3 coats · 1\\.5 lb cut per US gal · rest ${NEW_BODY_REST} h`));
     expect(errors).toEqual([]);
     await context.close();
   });

@@ -48,11 +48,41 @@ describe('general dilution ventilation, Q = 403 × 10⁶ × SG × ER × K / (MW 
     expect(M3H_PER_CFM).toBeCloseTo(1.699, 3);
   });
 
-  it('the two forms agree within 2 %: 387 ft³ per lb-mole (70 °F) against 24.45 L/mol (25 °C)', () => {
-    const metric = dilutionFlowM3h({ density: 0.789, erLitresPerMin: 0.004731765, k: 3, molarMass: 46.07, ppm: 1000 });
-    const ratio = metric / (207.06 * 1.699);
-    expect(ratio).toBeGreaterThan(1);
-    expect(ratio).toBeLessThan(1.02);
+  it('the two forms agree within 2 %, each worked by hand from its published form: 351.79 m³/h against 356.64 m³/h', () => {
+    // Inputs: ethanol, SG 0.789, MW 46.07 g/mol, TLV 1000 ppm [NIOSH-PG]; ER 0.01 US pt/min; K 3.
+    // Imperial form [ACGIH-IV]: Q = 403 × SG × ER × K × 10⁶ / (MW × TLV)
+    //   = 403 × 0.789 × 0.01 × 3 × 10⁶ / (46.07 × 1000) = 9 539 010 / 46 070 = 207.055 ft³/min
+    //   × 1.699011 m³/h per ft³/min (0.3048³ m³ × 60) = 351.79 m³/h.
+    // SI form (ideal gas at 25 °C, 24.45 L/mol): 0.01 pt/min = 0.00473176 L/min; × 789 g/L = 3.733359 g/min;
+    //   / 46.07 g/mol = 0.0810367 mol/min; × 24.45 L/mol = 1.981346 L/min = 0.1188808 m³/h;
+    //   × K 3 × 10⁶ / 1000 ppm = 356.64 m³/h.
+    // Why they differ: 403 is 387 ft³/lb-mol (70 °F) × 8.345 lb/gal of water / 8 pt = 403.71, rounded down; and
+    //   387 ft³/lb-mol is 387 × 28.3168 L / 453.592 mol = 24.160 L/mol against 24.45 L/mol.
+    //   24.45 / 24.160 × 403.71 / 403 = 1.01202 × 1.00176 = 1.0138.
+    const handImperialM3h = 351.79;
+    const handSiM3h = 356.64;
+    const imperial = dilutionFlowCfm({ specificGravity: 0.789, erPintsPerMin: 0.01, k: 3, molarMass: 46.07, ppm: 1000 });
+    const metric = dilutionFlowM3h({ density: 0.789, erLitresPerMin: 0.00473176, k: 3, molarMass: 46.07, ppm: 1000 });
+    expect(imperial).toBeCloseTo(207.055, 2);
+    expect(imperial * M3H_PER_CFM).toBeCloseTo(handImperialM3h, 1);
+    expect(metric).toBeCloseTo(handSiM3h, 1);
+    expect(handSiM3h / handImperialM3h).toBeCloseTo(1.0138, 3);
+    expect(metric / (imperial * M3H_PER_CFM)).toBeCloseTo(handSiM3h / handImperialM3h, 3);
+    expect(Math.abs(metric / (imperial * M3H_PER_CFM) - 1)).toBeLessThan(0.02);
+  });
+
+  it('the two forms agree within 2 % for isopropanol too: 670.75 m³/h against 680.00 m³/h, both by hand', () => {
+    // Inputs: isopropanol, SG 0.785 (from memory; NIOSH gives 0.79), MW 60.1 g/mol, limit 400 ppm [NIOSH-PG]; ER 0.01 US pt/min; K 3.
+    // Imperial: 403 × 0.785 × 0.01 × 3 × 10⁶ / (60.1 × 400) = 9 490 650 / 24 040 = 394.786 ft³/min
+    //   × 1.699011 = 670.75 m³/h.
+    // SI: 0.00473176 L/min × 785 g/L = 3.714432 g/min; / 60.1 = 0.0618042 mol/min; × 24.45 L/mol = 1.511112 L/min
+    //   = 0.0906668 m³/h; × 3 × 10⁶ / 400 = 680.00 m³/h. Ratio 680.00 / 670.75 = 1.0138, as for ethanol.
+    const imperial = dilutionFlowCfm({ specificGravity: 0.785, erPintsPerMin: 0.01, k: 3, molarMass: 60.1, ppm: 400 });
+    const metric = dilutionFlowM3h({ density: 0.785, erLitresPerMin: 0.00473176, k: 3, molarMass: 60.1, ppm: 400 });
+    expect(imperial).toBeCloseTo(394.786, 2);
+    expect(imperial * M3H_PER_CFM).toBeCloseTo(670.75, 1);
+    expect(metric).toBeCloseTo(680.0, 1);
+    expect(Math.abs(metric / (imperial * M3H_PER_CFM) - 1)).toBeLessThan(0.02);
   });
 
   it('vapour from 1 L/min of ethanol at 25 °C is 1000 × 0.789 / 46.07 × 24.45 L/min = 25.12 m³/h (ideal gas)', () => {

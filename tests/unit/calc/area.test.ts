@@ -131,3 +131,17 @@ describe('grand outline', () => {
     expect(p).toBeLessThan(2 * (L + W));
   });
 });
+
+describe('resolveShape remembers lengths it has read', () => {
+  it('gives the same millimetres the second time, per unit, and refuses a bad length every time', () => {
+    const shape = { kind: 'rectangle', length: '6 ft 3 in', width: 12 } as const;
+    const first = resolveShape(shape, 'in');
+    expect(first).toEqual({ kind: 'rectangle', length: 1905, width: 304.8 }); // 75 in and 12 in at 25.4 mm (exact by definition)
+    expect(resolveShape(shape, 'in')).toEqual(first);
+    expect(resolveShape(shape, 'cm')).toEqual({ kind: 'rectangle', length: 1905, width: 120 });
+    expect(() => resolveShape({ kind: 'circle', diameter: '3 furlongs' }, 'mm')).toThrow(/not a length unit/);
+    expect(() => resolveShape({ kind: 'circle', diameter: '3 furlongs' }, 'mm')).toThrow(/not a length unit/);
+    expect(() => resolveShape({ kind: 'polygon', points: [[0, 0], ['1 m', 0], [0, '1 m']] }, 'mm')).not.toThrow();
+    expect(() => resolveShape({ kind: 'circle', diameter: 0 }, 'in')).toThrow();
+  });
+});

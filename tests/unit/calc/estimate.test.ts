@@ -3,7 +3,6 @@ import { estimate, EstimateError } from '../../../shared/calc';
 import { EstimateResultSchema } from '../../../shared/schemas/calc';
 import type { EstimateInput, PartInput } from '../../../shared/schemas/calc';
 import { money, sumMoney } from '../../../shared/money';
-import { cutToGramsPerLitre } from '../../../shared/calc/shellac';
 import { DEMO_CATALOG, demoCatalog } from '../../fixtures/catalog';
 
 const GRAND: EstimateInput = { piece: { template: 'grand', dimensions: { length: '6 ft 3 in' } }, system: 'full-repolish', startDate: '2025-03-03' };
@@ -42,17 +41,56 @@ describe('estimate', () => {
     expect(result.totals.labourHours).toBeCloseTo(result.stages.reduce((t, s) => t + s.labourHours, 0), 1);
     expect(result.calendar.sessions).toHaveLength(result.stages.reduce((t, s) => t + s.sessions, 0));
     expect(sumMoney(result.price.lines.map((l) => l.amount)).toFixed(2)).toBe(result.totals.price);
-    // Materials line = sum of material charges + markup.
-    const charged = sumMoney(result.materials.map((m) => m.charge));
-    expect(money(result.price.lines[0]!.amount).toFixed(2)).toBe(charged.times(1 + DEMO_CATALOG.pricing.markupPct / 100).toDecimalPlaces(2).toFixed(2));
   });
 
-  it('flakes follow the cut: flakes / spirit in the polish = cut × 119.83 g/L', () => {
+  it('the grand\u2019s bodying cut: 1.5 lb per US gallon = 1.5 × 453.59237 g / 3.785411784 L = 179.74 g/L', () => {
+    // Pound (CFR-500.19 / YARD-POUND-1959) and US gallon (NIST-HB44), worked by hand.
     const body = result.stages.find((s) => s.kind === 'body')!;
-    expect(body.cutGPerL).toBeCloseTo(1.5 * 119.83, 1);
-    // Polish made = solvent + flakes at 1.2 g/cm³; so solvent = polish − flakes/1200 and flakes/solvent = the cut.
-    const solvent = body.polishL - body.flakesG / 1200;
-    expect(body.flakesG / solvent).toBeCloseTo(cutToGramsPerLitre(1.5), 0);
+    expect(body.cutGPerL).toBeCloseTo(179.74, 2);
+    expect(body.cutBasis).toBe('us');
+  });
+
+  it('bodying 1 m² of flat walnut, worked by hand: 277.2 mL of polish, 43.33 g of flakes, 0.3811 L of spirit, 4.2 h', () => {
+    // The demo catalog's bodying stage: 7 sessions × 3 coats, 1.5 lb cut, 12 mL/m² a coat, 20 mL/m² of extra spirit a
+    // session, 7 min/m² a coat, 15 min set-up a session; 10 % waste on polish; flakes at 1.2 g/cm³. Walnut's
+    // absorbency (1.3) is for first coats only, so bodying does not take it. A 1000 × 500 mm panel, 2 faces = 1 m².
+    // Polish: 21 coats × 12 mL = 252 mL; + 10 % = 277.2 mL.
+    // Cut: 1.5 × 453.59237 / 3.785411784 = 179.739 g per litre of spirit; 179.739 g at 1.2 g/cm³ fill 149.78 mL, so
+    //   a litre of spirit makes 1.14978 L of polish. Spirit in the polish: 0.2772 / 1.14978 = 0.241090 L;
+    //   flakes: 0.241090 × 179.739 = 43.33 g.
+    // Spirit: 0.241090 L in the polish + 7 sessions × 20 mL = 0.140 L → 0.3811 L.
+    // Labour: 21 × 7 min + 7 × 15 min = 147 + 105 = 252 min = 4.2 h; hands-on 252 / 7 = 36 min = 0.6 h a session.
+    const one = estimate({ ...GRAND, piece: { parts: [panel(1)] } }, DEMO_CATALOG);
+    const body = one.stages.find((s) => s.kind === 'body')!;
+    expect(body.areaM2).toBeCloseTo(1, 10);
+    expect(body.coats).toBe(21);
+    expect(body.polishL).toBeCloseTo(0.2772, 4);
+    expect(body.flakesG).toBeCloseTo(43.33, 2);
+    expect(body.spiritL).toBeCloseTo(0.3811, 4);
+    expect(body.labourHours).toBeCloseTo(4.2, 6);
+    expect(body.handsOnHoursPerSession).toBeCloseTo(0.6, 6);
+  });
+
+  it('prices bodying 1 m² of walnut, worked by hand from the pack prices to the deposit', () => {
+    // Demo catalog: whole packs charged, 25 % markup on materials, polisher £42.00/h, 12 % overhead, 15 % margin,
+    // 20 % VAT, rounded to £1, 30 % deposit. Needs as worked above (43.33 g flakes, 381.1 mL spirit; 7 × 2 mL oil,
+    // 7 × 3 g wadding, 7 × 0.05 = 0.35 cloth → 1 whole cloth), each in its smallest pack:
+    //   flakes 250 g £11.40 + spirit 1 L £6.20 + oil 250 mL £4.80 + wadding 100 g £3.10 + cloths (5) £4.25 = £29.75.
+    // Materials: 29.75 × 1.25 = 37.1875 → £37.19. Labour: 4.2 h × 42.00 = £176.40.
+    // Overhead: 12 % × (37.19 + 176.40 = 213.59) = 25.6308 → £25.63. Margin: 15 % × (213.59 + 25.63 = 239.22)
+    //   = 35.883 → £35.88. Net: 239.22 + 35.88 = £275.10. VAT: 20 % = £55.02. 330.12 rounded to £1 = £330.00
+    //   (rounding −0.12). Deposit: 30 % = £99.00; balance £231.00.
+    const system = DEMO_CATALOG.systems.find((s) => s.key === 'full-repolish')!;
+    const bodyOnly = system.stages.filter((s) => s.kind === 'body');
+    const r = estimate({ ...GRAND, piece: { parts: [panel(1)] }, stages: bodyOnly }, DEMO_CATALOG);
+    expect(r.materials.map((m) => [m.key, m.bought, m.charge])).toEqual([
+      ['shellac-flakes', 250, '11.40'], ['spirit', 1000, '6.20'], ['polishing-oil', 250, '4.80'], ['wadding', 100, '3.10'], ['polishing-cloth', 5, '4.25'],
+    ]);
+    expect(r.price.internal.materialsCost).toBe('29.75');
+    expect(Object.fromEntries(r.price.lines.map((l) => [l.code, l.amount]))).toEqual({
+      materials: '37.19', labour: '176.40', overhead: '25.63', margin: '35.88', tax: '55.02', rounding: '-0.12',
+    });
+    expect([r.price.net, r.price.tax, r.price.total, r.price.deposit, r.price.balance]).toEqual(['275.10', '55.02', '330.00', '99.00', '231.00']);
   });
 
   it('every pack choice covers its need', () => {

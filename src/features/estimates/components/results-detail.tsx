@@ -1,5 +1,5 @@
 import { lazy, memo, Suspense, type ReactNode } from 'react';
-import type { Catalog } from '@shared/schemas/catalog';
+import { cutUnit, type Catalog } from '@shared/schemas/catalog';
 import type { EstimateResult } from '@shared/schemas/calc';
 import type { UnitSystem } from '@shared/units';
 import { Spinner } from '@/components/spinner';
@@ -104,7 +104,7 @@ function ResultsDetailView({ result, units, catalog, stale = false }: { result: 
                   {s.sessions} × {s.coatsPerSession}
                   {s.coats > 0 && <span className="block text-xs text-walnut-500">{s.coats} coats</span>}
                 </td>
-                <td className={tdNum}>{s.cutLb > 0 ? <>{s.cutLb} lb per {(s.cutBasis ?? gallon) === 'uk' ? 'imperial' : 'US'} gal<span className="block text-xs text-walnut-500">{Math.round(s.cutGPerL)} g/L</span></> : '—'}</td>
+                <td className={tdNum}>{s.cutLb > 0 ? <>{s.cutLb} {cutUnit(s.cutBasis ?? gallon)}<span className="block text-xs text-walnut-500">{Math.round(s.cutGPerL)} g/L</span></> : '—'}</td>
                 <td className={tdNum}>{formatArea(s.areaM2, units)}</td>
                 <td className={tdNum}>{s.flakesG > 0 ? formatMass(s.flakesG, units) : '—'}</td>
                 <td className={tdNum}>{s.spiritL > 0 ? formatVolume(s.spiritL, units, vol) : '—'}</td>

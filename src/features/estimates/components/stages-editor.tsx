@@ -1,6 +1,6 @@
 import { ChevronDown, ChevronRight } from 'lucide-react';
 import { Fragment, useState } from 'react';
-import { APPLIES_TO, type Catalog } from '@shared/schemas/catalog';
+import { APPLIES_TO, cutUnit, type Catalog } from '@shared/schemas/catalog';
 import type { StageResult } from '@shared/schemas/calc';
 import { APPLIES_TO_LABELS, messageAt, STAGE_NUMBER_LABELS, type StageDraft, type StageNumber } from '../lib/draft';
 import { formatHours } from '../lib/format';
@@ -20,7 +20,7 @@ interface StagesEditorProps {
 /** The stages this estimate uses, copied from the finishing system and edited here only. */
 export function StagesEditor({ stages, onChange, errors, results, catalog }: StagesEditorProps) {
   // The cut's gallon is a workshop setting, named beside every cut.
-  const unitOf = (k: StageNumber): string => (k === 'cutLb' ? `lb per ${catalog.shellac.gallon === 'uk' ? 'imperial' : 'US'} gal` : STAGE_NUMBER_LABELS[k].unit);
+  const unitOf = (k: StageNumber): string => (k === 'cutLb' ? cutUnit(catalog.shellac.gallon) : STAGE_NUMBER_LABELS[k].unit);
   const [open, setOpen] = useState<string | null>(null);
   const set = (i: number, patch: Partial<StageDraft>) => onChange(stages.map((s, k) => (k === i ? { ...s, ...patch } : s)));
   const byKey = new Map(results.map((r) => [r.key, r]));

@@ -1,7 +1,7 @@
 import { ArrowDown, ArrowLeft, ArrowUp, Check, ChevronDown, ChevronRight, CircleCheck, CircleSlash, Plus, Trash2 } from 'lucide-react';
 import { useState, type FormEvent } from 'react';
 import { Link, useParams } from 'react-router-dom';
-import { APPLIES_TO, STAGE_KINDS, type Stage } from '@shared/schemas/catalog';
+import { APPLIES_TO, cutUnit, gallonName, STAGE_KINDS, type GallonBasis, type Stage } from '@shared/schemas/catalog';
 import { SystemUpdateSchema, type FinishingSystemDto } from '@shared/schemas/finishing-admin';
 import type { MaterialDto } from '@shared/schemas/price-list';
 import { Alert } from '@/components/alert';
@@ -11,6 +11,7 @@ import { SelectField, TextField } from '@/components/field';
 import { Spinner } from '@/components/spinner';
 import { paths } from '@/config/paths';
 import { useMe } from '@/features/auth/api/get-me';
+import { useWorkshop } from '@/features/workshop/api/get-workshop';
 import { useMaterials } from '@/features/price-list/api/price-list';
 import { serverFieldErrors, zodFieldErrors } from '@/lib/form-errors';
 import { plainMessage } from '@/features/settings/components/settings-form';
@@ -19,10 +20,11 @@ import { useSaveSystem, useSystem } from '../api/finishing';
 const APPLIES_LABELS: Record<(typeof APPLIES_TO)[number], string> = { all: 'every part', 'open-pored': 'open-pored woods only', 'show-faces': 'show faces only' };
 
 type NumKey = 'sessions' | 'coatsPerSession' | 'cutLb' | 'polishMlPerM2PerCoat' | 'spiritMlPerM2PerSession' | 'labourMinPerM2PerCoat' | 'setupMinPerSession' | 'restHours';
+// The cut's unit is the workshop's gallon (a setting), filled in where the stage is drawn.
 const NUMBERS: { key: NumKey; label: string; unit: string; step?: string }[] = [
   { key: 'sessions', label: 'Sessions', unit: 'count', step: '1' },
   { key: 'coatsPerSession', label: 'Coats per session', unit: 'count', step: '1' },
-  { key: 'cutLb', label: 'Shellac cut', unit: 'lb per US gal' },
+  { key: 'cutLb', label: 'Shellac cut', unit: 'cut' },
   { key: 'polishMlPerM2PerCoat', label: 'Polish per coat', unit: 'mL/m²' },
   { key: 'spiritMlPerM2PerSession', label: 'Extra spirit per session', unit: 'mL/m²' },
   { key: 'labourMinPerM2PerCoat', label: 'Labour per coat', unit: 'min/m²' },
@@ -41,6 +43,7 @@ function StageCard({
   readOnly,
   errors,
   materials,
+  gallon,
   onChange,
   onMove,
   onRemove,
@@ -51,6 +54,7 @@ function StageCard({
   readOnly: boolean;
   errors: Record<string, string>;
   materials: MaterialDto[];
+  gallon: GallonBasis | undefined;
   onChange: (s: Stage) => void;
   onMove: (delta: -1 | 1) => void;
   onRemove: () => void;
@@ -73,7 +77,7 @@ function StageCard({
         <span className="rounded bg-parchment-100 px-1.5 py-0.5 font-mono text-xs text-walnut-600">{stage.kind}</span>
         <span className="num text-sm text-walnut-600">
           {stage.sessions} session{stage.sessions === 1 ? '' : 's'} × {stage.coatsPerSession} coat{stage.coatsPerSession === 1 ? '' : 's'}
-          {stage.cutLb > 0 && ` · ${stage.cutLb} lb cut`} · rest {stage.restHours} h
+          {stage.cutLb > 0 && ` · ${stage.cutLb} lb cut per ${gallonName(gallon)}`} · rest {stage.restHours} h
         </span>
         {stage.enabled ? (
           <span className="inline-flex items-center gap-1 rounded-full bg-moss-100 px-2 py-0.5 text-xs text-moss-700"><CircleCheck className="h-3 w-3" aria-hidden /> In use</span>
@@ -111,7 +115,7 @@ function StageCard({
             {NUMBERS.map((n) => (
               <TextField
                 key={n.key}
-                label={`${n.label} (${n.unit})`}
+                label={`${n.label} (${n.key === 'cutLb' ? cutUnit(gallon) : n.unit})`}
                 type="number"
                 step={n.step ?? 'any'}
                 value={Number.isNaN(stage[n.key]) ? '' : String(stage[n.key])}
@@ -177,6 +181,7 @@ function StageCard({
 function Editor({ system, readOnly }: { system: FinishingSystemDto; readOnly: boolean }) {
   const save = useSaveSystem();
   const materials = useMaterials({ pageSize: 100, sort: 'name' });
+  const gallon = useWorkshop().data?.settings.shellac.gallon;
   const [form, setForm] = useState({ name: system.name, description: system.description, stages: structuredClone(system.stages) });
   const [errors, setErrors] = useState<Record<string, string>>({});
   const [status, setStatus] = useState<{ tone: 'error' | 'info'; text: string } | null>(null);
@@ -238,6 +243,7 @@ function Editor({ system, readOnly }: { system: FinishingSystemDto; readOnly: bo
               readOnly={readOnly}
               errors={errors}
               materials={materials.data?.rows ?? []}
+              gallon={gallon}
               onChange={(next) => setStage(i, next)}
               onMove={(d) => move(i, d)}
               onRemove={() => setForm({ ...form, stages: form.stages.filter((_, j) => j !== i) })}
