@@ -10,6 +10,7 @@ import { startLocalServices } from './fakes';
 import { loadConfig, type Config } from './config';
 import { resolveDatabaseUrl } from './db/connect';
 import { createMigrator } from './db/migrator';
+import type { Sequelize } from 'sequelize';
 import { createSequelize } from './db/sequelize';
 import { initModels } from './models';
 import { seed } from './seeders';
@@ -25,15 +26,18 @@ function portFromEnv(name: string): number | undefined {
   return raw ? Number(raw) : undefined;
 }
 
-/** Applies pending migrations and loads the defaults (and the demo workshop where allowed). */
-export async function prepareDatabase(config: Config, databaseUrl: string): Promise<void> {
-  const sequelize = createSequelize(databaseUrl);
+/**
+ * Applies pending migrations and loads the defaults (and the demo workshop where allowed). Given a connection, it
+ * works on it and leaves it open (the models bind to one connection a process); otherwise it opens and closes its own.
+ */
+export async function prepareDatabase(config: Config, databaseUrl: string, shared?: Sequelize): Promise<void> {
+  const sequelize = shared ?? createSequelize(databaseUrl);
   try {
     await createMigrator(sequelize).up();
     initModels(sequelize);
     await seed(sequelize, { demo: config.demo, uploadsDir: config.uploadsDir, log: (m) => console.log(`[demo] ${m}`) });
   } finally {
-    await sequelize.close();
+    if (!shared) await sequelize.close();
   }
 }
 
@@ -43,8 +47,8 @@ export async function prepareDatabase(config: Config, databaseUrl: string): Prom
  */
 export async function runServer(config: Config = loadConfig(), opts: { prepared?: boolean } = {}): Promise<RunningServer> {
   const databaseUrl = await resolveDatabaseUrl(config);
-  if (!opts.prepared) await prepareDatabase(config, databaseUrl);
   const sequelize = createSequelize(databaseUrl);
+  if (!opts.prepared) await prepareDatabase(config, databaseUrl, sequelize);
   initModels(sequelize);
 
   const local = await startLocalServices(config, { smtpPort: portFromEnv('SHELLWRIGHT_SMTP_PORT'), paymentsPort: portFromEnv('SHELLWRIGHT_PAYMENTS_PORT') });
