@@ -23,13 +23,13 @@ describe('order of the stages (Wikipedia "French polish"; 1911 Encyclopaedia Bri
     expect(stageOf('body').materials.some((m) => m.material === 'polishing-oil')).toBe(true);
   });
 
-  it('many thin coats: a full repolish of a grand is about 30 coats (common practice, DESIGN.md)', () => {
+  it('many thin coats: a full repolish of a grand is about 30 coats (common practice, [PRACTICE] in docs/references.md)', () => {
     const coats = estimate(GRAND, DEMO_CATALOG).totals.coats;
     expect(coats).toBeGreaterThanOrEqual(25);
     expect(coats).toBeLessThanOrEqual(35);
   });
 
-  it('a full repolish of a grand is about 70 hours (common practice, DESIGN.md)', () => {
+  it('a full repolish of a grand is about 70 hours (common practice, [PRACTICE] in docs/references.md)', () => {
     const hours = estimate(GRAND, DEMO_CATALOG).totals.labourHours;
     expect(hours).toBeGreaterThanOrEqual(60);
     expect(hours).toBeLessThanOrEqual(80);
