@@ -16,10 +16,10 @@ export function QuoteLines({ quote }: { quote: QuoteDetail }) {
       <table className="w-full text-sm">
         <thead className="border-b border-parchment-200 text-left text-xs uppercase tracking-wide text-walnut-500">
           <tr>
-            <th scope="col" className="py-1.5">Piece</th>
-            <th scope="col" className="py-1.5">Option</th>
-            <th scope="col" className="py-1.5">Estimate</th>
-            <th scope="col" className="py-1.5 text-right">Total</th>
+            <th scope="col" className="py-1.5 pr-3">Piece</th>
+            <th scope="col" className="py-1.5 pr-3">Option</th>
+            <th scope="col" className="py-1.5 pr-3">Estimate</th>
+            <th scope="col" className="py-1.5 pr-4 text-right">Total</th>
             <th scope="col" className="py-1.5">Choice</th>
           </tr>
         </thead>
@@ -28,18 +28,18 @@ export function QuoteLines({ quote }: { quote: QuoteDetail }) {
             const of = quote.lines.filter((x) => x.group === l.group);
             return (
               <tr key={l.id} data-testid={`quote-line-${l.position}`}>
-                <td className="py-1.5">
+                <td className="py-1.5 pr-3">
                   {groups.indexOf(l.group) + 1}. {l.piece.description}
                   {l.groupOptional && <span className="ml-1 text-xs text-walnut-500">(may be left out)</span>}
                 </td>
-                <td className="py-1.5">
+                <td className="py-1.5 pr-3">
                   {l.label || '—'}
                   {l.recommended && of.length > 1 && <span className="ml-1 text-xs text-amber-800">recommended</span>}
                 </td>
-                <td className="py-1.5">
+                <td className="py-1.5 pr-3">
                   <Link to={pathTo.estimate(l.estimate.id)} className="num underline decoration-amber-400 underline-offset-2">{l.estimate.number}</Link> rev. {l.estimate.revision}
                 </td>
-                <td className="num py-1.5 text-right">{formatMoney(l.total, quote.currency)}</td>
+                <td className="num whitespace-nowrap py-1.5 pr-4 text-right">{formatMoney(l.total, quote.currency)}</td>
                 <td className="py-1.5" data-testid={`quote-line-${l.position}-choice`}>{l.chosen === null ? '—' : l.chosen ? 'Chosen' : 'Not chosen'}</td>
               </tr>
             );
