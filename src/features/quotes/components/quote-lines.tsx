@@ -36,11 +36,11 @@ export function QuoteLines({ quote }: { quote: QuoteDetail }) {
                   {l.label || '—'}
                   {l.recommended && of.length > 1 && <span className="ml-1 text-xs text-amber-800">recommended</span>}
                 </td>
-                <td className="py-1.5 pr-3">
+                <td className="whitespace-nowrap py-1.5 pr-3">
                   <Link to={pathTo.estimate(l.estimate.id)} className="num underline decoration-amber-400 underline-offset-2">{l.estimate.number}</Link> rev. {l.estimate.revision}
                 </td>
                 <td className="num whitespace-nowrap py-1.5 pr-4 text-right">{formatMoney(l.total, quote.currency)}</td>
-                <td className="py-1.5" data-testid={`quote-line-${l.position}-choice`}>{l.chosen === null ? '—' : l.chosen ? 'Chosen' : 'Not chosen'}</td>
+                <td className="whitespace-nowrap py-1.5" data-testid={`quote-line-${l.position}-choice`}>{l.chosen === null ? '—' : l.chosen ? 'Chosen' : 'Not chosen'}</td>
               </tr>
             );
           })}
