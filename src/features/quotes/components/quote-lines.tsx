@@ -13,6 +13,7 @@ export function QuoteLines({ quote }: { quote: QuoteDetail }) {
   return (
     <section aria-labelledby="lines-heading" className="rounded-xl border border-parchment-200 bg-white px-5 py-4 shadow-card" data-testid="quote-lines-view">
       <h2 id="lines-heading" className="mb-3 text-lg font-semibold text-walnut-800">Pieces and options</h2>
+      <div className="overflow-x-auto">
       <table className="w-full text-sm">
         <thead className="border-b border-parchment-200 text-left text-xs uppercase tracking-wide text-walnut-500">
           <tr>
@@ -46,6 +47,7 @@ export function QuoteLines({ quote }: { quote: QuoteDetail }) {
           })}
         </tbody>
       </table>
+      </div>
       <p className="mt-2 text-xs text-walnut-500">{quote.agreed ? 'The price below is for the options the customer chose.' : 'The price below is for the recommended options; the customer’s choice sets the accepted total.'}</p>
     </section>
   );
