@@ -62,12 +62,18 @@ describe('planning, in a real browser', () => {
     expect(await page.locator('[data-testid^="polisher-row-"]').count()).toBeGreaterThanOrEqual(1);
     await screenshot(page, 'planning-board');
 
-    // Another planner fills the room meanwhile: two bays for six weeks or so.
+    // Another planner fills the whole room from next Monday meanwhile (booked on that date and confirmed, so
+    // the room is full that day whatever other test files have booked before).
+    const monday = await page.evaluate(() => {
+      const d = new Date();
+      d.setDate(d.getDate() + ((8 - d.getDay()) % 7 || 7));
+      return `${d.getFullYear()}-${String(d.getMonth() + 1).padStart(2, '0')}-${String(d.getDate()).padStart(2, '0')}`;
+    });
     const { app } = getTestApp();
     const owner = await signInAs(app, 'owner');
     const filler = await acceptedQuote('Octavia Pennefather');
-    const job = await post(owner, '/api/jobs', { quoteId: filler.id, bays: 2 }).expect(201);
-    await post(owner, `/api/jobs/${job.body.id}/booking`, { mode: 'earliest' }).expect(200);
+    const job = await post(owner, '/api/jobs', { quoteId: filler.id, bays: 4 }).expect(201);
+    await post(owner, `/api/jobs/${job.body.id}/booking`, { mode: 'date', start: monday, confirm: true }).expect(200);
     await page.reload();
     await page.getByRole('heading', { name: 'Book a job' }).waitFor();
     await page.getByTestId(`job-bar-${job.body.id}`).waitFor();
@@ -78,11 +84,6 @@ describe('planning, in a real browser', () => {
     const value = await select.locator('option', { hasText: `Quote ${quoteNumber} ` }).getAttribute('value');
     await select.selectOption(value!);
     await page.getByText('On a chosen date').click();
-    const monday = await page.evaluate(() => {
-      const d = new Date();
-      d.setDate(d.getDate() + ((8 - d.getDay()) % 7 || 7));
-      return `${d.getFullYear()}-${String(d.getMonth() + 1).padStart(2, '0')}-${String(d.getDate()).padStart(2, '0')}`;
-    });
     await page.getByLabel('Chosen date', { exact: true }).fill(monday);
     await page.getByRole('button', { name: 'Show the consequences' }).click();
     const consequences = page.getByRole('region', { name: 'Consequences' });
