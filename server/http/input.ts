@@ -4,7 +4,7 @@
  * - the path must be valid percent-encoding of UTF-8 (`/%ZZ` or a truncated sequence is a 400, never a 500 from
  *   a route's parameter decoding);
  * - a request body may use only the content codings the JSON parser understands (gzip, deflate, br), and only on a
- *   JSON body; anything else is a 415 before a byte is read;
+ *   JSON body; anything else is a 400 naming Content-Encoding before a byte is read;
  * - no string anywhere in the path, the query or the body (keys included) may hold a NUL character or an unpaired
  *   UTF-16 surrogate. PostgreSQL cannot store the first in text and would store the second altered (as U+FFFD), so
  *   such input is refused with a 400 naming the field; it is never stored changed.
@@ -83,7 +83,7 @@ export const encodingPolicy: RequestHandler = (req, _res, next) => {
     unsupported === undefined
       ? 'Content-Encoding: send the body with at most one content coding.'
       : `Content-Encoding: "${unsupported.slice(0, 40)}" is not accepted${isJson ? '; use gzip, deflate or br, or none' : ' on this kind of body; send it uncompressed'}.`;
-  next(new HttpProblem(415, 'unsupported_encoding', 'Unsupported content encoding', detail, { field: 'Content-Encoding', errors: [{ field: 'Content-Encoding', message: detail }] }));
+  next(new HttpProblem(400, 'unsupported_encoding', 'Unsupported content encoding', detail, { field: 'Content-Encoding', errors: [{ field: 'Content-Encoding', message: detail }] }));
 };
 
 /** Refuses a path that is not valid percent-encoded UTF-8, or that decodes to a NUL. */

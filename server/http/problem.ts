@@ -81,8 +81,9 @@ function isDbDown(err: unknown): boolean {
 }
 
 /** Codes for the client errors the body parser and router raise, by their `type`. */
-const CLIENT_ERROR_CODES: Record<string, { code: string; title: string; detail: string; field?: string }> = {
-  'encoding.unsupported': { code: 'unsupported_encoding', title: 'Unsupported content encoding', detail: 'Content-Encoding: use gzip, deflate or br, or none.', field: 'Content-Encoding' },
+const CLIENT_ERROR_CODES: Record<string, { code: string; title: string; detail: string; field?: string; status?: number }> = {
+  // A coding the server cannot undo is bad input like any other: a 400 naming the header, not the parser's 415.
+  'encoding.unsupported': { code: 'unsupported_encoding', title: 'Unsupported content encoding', detail: 'Content-Encoding: use gzip, deflate or br, or none.', field: 'Content-Encoding', status: 400 },
   'charset.unsupported': { code: 'unsupported_charset', title: 'Unsupported charset', detail: 'Content-Type: the body must be UTF-8.', field: 'Content-Type' },
   'request.aborted': { code: 'request_aborted', title: 'Request aborted', detail: 'The request was aborted before its body arrived.' },
   'request.size.invalid': { code: 'bad_body', title: 'Bad request body', detail: 'The body is shorter or longer than its Content-Length says.' },
@@ -94,7 +95,7 @@ const CLIENT_ERROR_CODES: Record<string, { code: string; title: string; detail: 
 function clientProblem(status: number, type: string | undefined, err: Error & { expose?: boolean }): HttpProblem {
   const known = type ? CLIENT_ERROR_CODES[type] : undefined;
   if (known) {
-    return new HttpProblem(status, known.code, known.title, known.detail, known.field ? { field: known.field, errors: [{ field: known.field, message: known.detail }] } : {});
+    return new HttpProblem(known.status ?? status, known.code, known.title, known.detail, known.field ? { field: known.field, errors: [{ field: known.field, message: known.detail }] } : {});
   }
   if (status === 400 && /decode|zlib|incorrect header|invalid (block|distance|stored)|unexpected end|brotli/i.test(String(err?.message))) {
     const detail = 'The body could not be decoded as its Content-Encoding says.';
