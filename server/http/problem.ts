@@ -7,15 +7,31 @@ import { validationSentence } from '@shared/schemas/error-map';
 
 /** An error that leaves the server as application/problem+json with a stable code. */
 export class HttpProblem extends Error {
+  readonly detail?: string;
+
   constructor(
     readonly status: number,
     readonly code: string,
     readonly title: string,
-    readonly detail?: string,
+    detail?: string,
     readonly extra: Partial<Pick<Problem, 'field' | 'errors'>> = {},
   ) {
-    super(detail ?? title);
+    const plain = detail === undefined ? undefined : plainDetail(detail);
+    super(plain ?? title);
+    this.detail = plain;
   }
+}
+
+/**
+ * A hand-written detail in the form "field: what is wrong" (the form a programmer reaches for) becomes the
+ * product's sentence, as the zod errors read: "start: must be today or later" → "The start must be today or
+ * later."; "photos: choose at least one image" → "Choose at least one image (the photos).". Header names
+ * ("Content-Encoding: …") and details that are already sentences are left as they are.
+ */
+export function plainDetail(detail: string): string {
+  const m = /^([a-z][A-Za-z0-9]*(?:\.[A-Za-z0-9]+)*): (.+)$/s.exec(detail);
+  if (!m) return detail;
+  return validationSentence(m[1]!.split('.'), m[2]!);
 }
 
 export const problems = {

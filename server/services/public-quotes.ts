@@ -198,17 +198,17 @@ export async function acceptQuote(sequelize: Sequelize, config: Config, token: s
       if (closedReason(quote)) throw closedProblem(quote);
       const choice = choiceLines(lines);
       const chosenIds = input.lines ?? onlyChoice(choice);
-      if (!chosenIds) throw new HttpProblem(400, 'choice_required', 'Choose the options', 'lines: choose one option for each piece before accepting', { field: 'lines' });
+      if (!chosenIds) throw new HttpProblem(400, 'choice_required', 'Choose the options', 'Choose one option for each piece before accepting.', { field: 'lines' });
       const wrong = choiceProblem(choice, chosenIds);
-      if (wrong) throw new HttpProblem(400, 'invalid_choice', 'Invalid choice', `lines: ${wrong}`, { field: 'lines' });
+      if (wrong) throw new HttpProblem(400, 'invalid_choice', 'Invalid choice', sentence(wrong), { field: 'lines' });
       if (chosenIds.length === 0) {
-        throw new HttpProblem(400, 'nothing_chosen', 'Nothing chosen', 'lines: choose at least one piece of work to accept the quote, or decline it', { field: 'lines' });
+        throw new HttpProblem(400, 'nothing_chosen', 'Nothing chosen', 'Choose at least one piece of work to accept the quote, or decline it.', { field: 'lines' });
       }
       const chosen = lines.filter((l) => chosenIds.includes(l.position));
       const agreed = await pieceAgreement(chosen.map((l) => l.pieceId), transaction);
       if (agreed && agreed.quote.id !== quote.id) throw await alreadyAgreed(agreed, lines.map((l) => l.estimateId), transaction);
       const unknown = input.extras.filter((id) => !quote.extras.some((x) => x.id === id));
-      if (unknown.length) throw new HttpProblem(400, 'unknown_extra', 'Unknown extra', `extras: ${unknown.join(', ')} is not offered on this quote`, { field: 'extras' });
+      if (unknown.length) throw new HttpProblem(400, 'unknown_extra', 'Unknown extra', `${unknown.length === 1 ? 'This extra is' : 'These extras are'} not offered on this quote: ${unknown.join(', ')}.`, { field: 'extras' });
       const extras = quote.extras.filter((x) => input.extras.includes(x.id)).map((x) => x.id);
       const amounts = choiceFigures({ lines: choice, depositPct: Number(quote.depositPct), extras: quote.extras }, chosenIds, extras);
       await quote.update(
@@ -298,4 +298,9 @@ export async function depositCancelled(config: Config, token: string): Promise<P
 export async function acceptanceRecord(config: Config, token: string): Promise<AcceptanceRecord> {
   const quote = await byToken(config, token);
   return acceptanceRecordOf(quote.id);
+}
+
+/** A rule's phrase as the customer reads it: a capital first letter and a full stop. */
+function sentence(phrase: string): string {
+  return `${phrase.charAt(0).toUpperCase()}${phrase.slice(1)}.`;
 }
