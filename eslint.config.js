@@ -1,12 +1,50 @@
+import { readdirSync } from 'node:fs';
 import js from '@eslint/js';
+import { createTypeScriptImportResolver } from 'eslint-import-resolver-typescript';
+import importX from 'eslint-plugin-import-x';
 import reactHooks from 'eslint-plugin-react-hooks';
 import globals from 'globals';
 import tseslint from 'typescript-eslint';
+
+/**
+ * The feature boundary: one zone per folder of src/features, so that a feature may import the kernel (src/lib),
+ * shared UI (src/components), config and shared/, but never another feature. A page that needs two features is a
+ * composition and lives in src/app/ (routes/ or components/). Exported for tests/unit/lint-rules.test.ts.
+ */
+export function featureZones(root = import.meta.dirname) {
+  const features = readdirSync(`${root}/src/features`, { withFileTypes: true })
+    .filter((d) => d.isDirectory())
+    .map((d) => d.name)
+    .sort();
+  return features.map((feature) => ({
+    target: `./src/features/${feature}`,
+    from: './src/features',
+    except: [`./${feature}`],
+    message: 'A feature may not import another feature: move what both need to src/lib (or src/components), or compose the two in src/app.',
+  }));
+}
+
+/** Import rules for the whole code base: the feature boundary, and no import cycle in src/, server/ or shared/. */
+export function importRules(root = import.meta.dirname) {
+  return {
+    files: ['src/**/*.{ts,tsx}', 'server/**/*.ts', 'shared/**/*.ts'],
+    plugins: { 'import-x': importX },
+    settings: {
+      'import-x/resolver-next': [createTypeScriptImportResolver({ project: `${root}/tsconfig.json` })],
+      'import-x/extensions': ['.ts', '.tsx', '.js'],
+    },
+    rules: {
+      'import-x/no-restricted-paths': ['error', { basePath: root, zones: featureZones(root) }],
+      'import-x/no-cycle': ['error', { ignoreExternal: true }],
+    },
+  };
+}
 
 export default tseslint.config(
   { ignores: ['dist/**', 'node_modules/**', '.data/**', 'coverage/**', 'tests/artifacts/**'] },
   js.configs.recommended,
   ...tseslint.configs.recommended,
+  importRules(),
   {
     languageOptions: { globals: { ...globals.node, ...globals.browser } },
     rules: {

@@ -1,12 +1,12 @@
 import express, { type RequestHandler, type Router } from 'express';
-import type { Role } from '@shared/schemas/auth';
+import { allows, type Access } from '@shared/roles';
 import { problems } from './problem';
 
 /**
- * Who may call a route: a list of roles, any signed-in user, or the public (the customer's signed link, health,
- * sign-in). Every route must say; there is no default.
+ * Who may call a route: the holders of a permission from `shared/roles.ts`, any signed-in user, or the public (the
+ * customer's signed link, health, sign-in). Every route must say; there is no default, and no list of roles.
  */
-export type Access = readonly Role[] | 'signed-in' | 'public';
+export type { Access };
 
 export interface RouteInfo {
   method: 'get' | 'post' | 'put' | 'patch' | 'delete';
@@ -14,12 +14,12 @@ export interface RouteInfo {
   access: Access;
 }
 
-/** The one guard: 401 when signed out, 403 for a role the route does not name. */
+/** The one guard: 401 when signed out, 403 for a role that does not hold the route's permission. */
 export function guard(access: Access): RequestHandler {
   return (req, _res, next) => {
     if (access === 'public') return next();
     if (!req.user) return next(problems.unauthenticated());
-    if (access !== 'signed-in' && !access.includes(req.user.role)) return next(problems.forbidden());
+    if (!allows(access, req.user.role)) return next(problems.forbidden());
     next();
   };
 }

@@ -6,10 +6,10 @@ import { auditFilters, listAudit } from '../services/audit-log';
 
 export function auditRoutes(sequelize: Sequelize, table: RouteInfo[]) {
   const r = secureRouter('/api/audit', table);
-  r.get('', ['owner'], async (req, res) => {
+  r.get('', 'readAuditLog', async (req, res) => {
     res.json(await listAudit(sequelize, parseOr400(AuditQuerySchema, req.query)));
   });
-  r.get('/filters', ['owner'], async (_req, res) => {
+  r.get('/filters', 'readAuditLog', async (_req, res) => {
     res.json(await auditFilters(sequelize));
   });
   return r.router;

@@ -20,21 +20,20 @@ import {
 const IdParam = z.object({ id: IdSchema });
 const RevisionParam = z.object({ id: IdSchema, number: z.coerce.number().int().min(1).max(100_000) });
 const RepriceSchema = z.object({ ids: z.array(IdSchema).min(1).max(500) }).strict();
-const WRITE = ['owner', 'estimator'] as const;
 
 export function estimateRoutes(sequelize: Sequelize, table: RouteInfo[]) {
   const r = secureRouter('/api/estimates', table);
   r.get('', 'signed-in', async (req, res) => {
     res.json(await listEstimates(parseOr400(EstimateListQuerySchema, req.query)));
   });
-  r.post('', WRITE, async (req, res) => {
+  r.post('', 'editEstimates', async (req, res) => {
     res.status(201).json(await createEstimate(sequelize, req.user!.id, parseOr400(CreateEstimateSchema, req.body)));
   });
   // Repricing after a price change: which open estimates move, and by how much; then reprice the chosen ones.
-  r.get('/reprice', ['owner'], async (_req, res) => {
+  r.get('/reprice', 'repriceEstimates', async (_req, res) => {
     res.json(await repriceCandidates(sequelize));
   });
-  r.post('/reprice', ['owner'], async (req, res) => {
+  r.post('/reprice', 'repriceEstimates', async (req, res) => {
     const { ids } = parseOr400(RepriceSchema, req.body);
     const done = [];
     for (const id of ids) done.push(await repriceEstimate(sequelize, req.user!.id, id));
@@ -47,7 +46,7 @@ export function estimateRoutes(sequelize: Sequelize, table: RouteInfo[]) {
   r.get('/:id', 'signed-in', async (req, res) => {
     res.json(await getEstimate(parseOr400(IdParam, req.params).id));
   });
-  r.post('/:id/revisions', WRITE, async (req, res) => {
+  r.post('/:id/revisions', 'editEstimates', async (req, res) => {
     const { id } = parseOr400(IdParam, req.params);
     res.status(201).json(await reviseEstimate(sequelize, req.user!.id, id, parseOr400(CreateRevisionSchema, req.body)));
   });
@@ -55,15 +54,15 @@ export function estimateRoutes(sequelize: Sequelize, table: RouteInfo[]) {
     const { id, number } = parseOr400(RevisionParam, req.params);
     res.json(await getRevision(id, number));
   });
-  r.post('/:id/state', WRITE, async (req, res) => {
+  r.post('/:id/state', 'editEstimates', async (req, res) => {
     const { id } = parseOr400(IdParam, req.params);
     res.json(await setEstimateState(sequelize, req.user!.id, id, parseOr400(SetStateSchema, req.body).state));
   });
-  r.post('/:id/archive', WRITE, async (req, res) => {
+  r.post('/:id/archive', 'editEstimates', async (req, res) => {
     const { id } = parseOr400(IdParam, req.params);
     res.json(await archiveEstimate(sequelize, req.user!.id, id, parseOr400(ArchiveSchema, req.body).archived));
   });
-  r.post('/:id/duplicate', WRITE, async (req, res) => {
+  r.post('/:id/duplicate', 'editEstimates', async (req, res) => {
     const { id } = parseOr400(IdParam, req.params);
     res.status(201).json(await duplicateEstimate(sequelize, req.user!.id, id, parseOr400(DuplicateSchema, req.body).pieceId));
   });

@@ -7,12 +7,10 @@ import { secureRouter, type RouteInfo } from '../http/guard';
 import { multipart } from '../http/input';
 import { parseOr400, problems } from '../http/problem';
 import { Estimate, Job } from '../models';
-import { FINISHERS } from '@shared/schemas/planning';
 import { addPhotos, deletePhoto, photoFile, updateCaption } from '../services/photos';
 import { createPiece, getPiece, listPieces, updatePiece } from '../services/pieces';
 
 const IdParam = z.object({ id: IdSchema });
-const WRITE = ['owner', 'estimator'] as const;
 
 export function pieceRoutes(config: Config, sequelize: Sequelize, table: RouteInfo[]) {
   const upload = multer({
@@ -24,17 +22,17 @@ export function pieceRoutes(config: Config, sequelize: Sequelize, table: RouteIn
   r.get('', 'signed-in', async (req, res) => {
     res.json(await listPieces(parseOr400(PieceListQuerySchema, req.query)));
   });
-  r.post('', WRITE, async (req, res) => {
+  r.post('', 'editPieces', async (req, res) => {
     res.status(201).json(await createPiece(sequelize, req.user!.id, parseOr400(PieceInputSchema, req.body)));
   });
   r.get('/:id', 'signed-in', async (req, res) => {
     res.json(await getPiece(parseOr400(IdParam, req.params).id));
   });
-  r.patch('/:id', WRITE, async (req, res) => {
+  r.patch('/:id', 'editPieces', async (req, res) => {
     const { id } = parseOr400(IdParam, req.params);
     res.json(await updatePiece(sequelize, req.user!.id, id, parseOr400(PieceInputSchema.partial(), req.body)));
   });
-  r.post('/:id/photos', WRITE, ...multipart(upload.array('photos', PHOTO_LIMITS.maxFiles), 'photos'), async (req, res) => {
+  r.post('/:id/photos', 'editPieces', ...multipart(upload.array('photos', PHOTO_LIMITS.maxFiles), 'photos'), async (req, res) => {
     const { id } = parseOr400(IdParam, req.params);
     const files = (req.files as Express.Multer.File[] | undefined) ?? [];
     const raw = (req.body as Record<string, unknown> | undefined)?.captions;
@@ -43,11 +41,11 @@ export function pieceRoutes(config: Config, sequelize: Sequelize, table: RouteIn
   });
 
   const p = secureRouter('/api/photos', table);
-  p.patch('/:id', WRITE, async (req, res) => {
+  p.patch('/:id', 'editPieces', async (req, res) => {
     const { id } = parseOr400(IdParam, req.params);
     res.json(await updateCaption(sequelize, req.user!.id, id, parseOr400(PhotoCaptionSchema, req.body).caption));
   });
-  p.delete('/:id', WRITE, async (req, res) => {
+  p.delete('/:id', 'editPieces', async (req, res) => {
     await deletePhoto(sequelize, config.uploadsDir, req.user!.id, parseOr400(IdParam, req.params).id);
     res.status(204).end();
   });
@@ -62,7 +60,7 @@ export function pieceRoutes(config: Config, sequelize: Sequelize, table: RouteIn
   }
   // A photo taken at the bench while marking a session done: it joins the photos of the job's piece.
   const j = secureRouter('/api/jobs', table);
-  j.post('/:id/photos', FINISHERS, upload.array('photos', PHOTO_LIMITS.maxFiles), async (req, res) => {
+  j.post('/:id/photos', 'recordProgress', upload.array('photos', PHOTO_LIMITS.maxFiles), async (req, res) => {
     const { id } = parseOr400(IdParam, req.params);
     const job = await Job.findByPk(id, { attributes: ['id', 'estimateId'] });
     if (!job) throw problems.notFound('Job');

@@ -6,10 +6,8 @@ import {
   BoardQuerySchema,
   BookingSchema,
   CreateJobSchema,
-  FINISHERS,
   ForecastQuerySchema,
   JobListQuerySchema,
-  PLANNERS,
   PolisherInputSchema,
   SessionDoneSchema,
   StockSchema,
@@ -43,19 +41,19 @@ export function planningRoutes(sequelize: Sequelize, table: RouteInfo[]) {
   p.get('/ready', 'signed-in', async (_req, res) => {
     res.json(await readyToBook());
   });
-  p.get('/actuals', ['owner'], async (_req, res) => {
+  p.get('/actuals', 'reviewActuals', async (_req, res) => {
     res.json(await actualsReport());
   });
-  p.post('/actuals/apply', ['owner'], async (req, res) => {
+  p.post('/actuals/apply', 'reviewActuals', async (req, res) => {
     res.json(await applyActuals(sequelize, req.user!.id, parseOr400(ApplyActualsSchema, req.body)));
   });
-  p.get('/forecast', ['owner', 'workshop'], async (req, res) => {
+  p.get('/forecast', 'readForecast', async (req, res) => {
     res.json(await materialForecast(sequelize, parseOr400(ForecastQuerySchema, req.query)));
   });
-  p.get('/stock', ['owner', 'workshop'], async (_req, res) => {
+  p.get('/stock', 'readForecast', async (_req, res) => {
     res.json(await listStock());
   });
-  p.put('/stock/:materialId', ['owner'], async (req, res) => {
+  p.put('/stock/:materialId', 'editStock', async (req, res) => {
     const { materialId } = parseOr400(MaterialParam, req.params);
     res.json(await setStock(sequelize, req.user!.id, materialId, parseOr400(StockSchema, req.body).quantity));
   });
@@ -64,29 +62,29 @@ export function planningRoutes(sequelize: Sequelize, table: RouteInfo[]) {
   j.get('', 'signed-in', async (req, res) => {
     res.json(await listJobs(parseOr400(JobListQuerySchema, req.query).state));
   });
-  j.post('', PLANNERS, async (req, res) => {
+  j.post('', 'planRoom', async (req, res) => {
     res.status(201).json(await createJob(sequelize, req.user!.id, parseOr400(CreateJobSchema, req.body)));
   });
   j.get('/:id', 'signed-in', async (req, res) => {
     res.json(await getJob(parseOr400(IdParam, req.params).id));
   });
-  j.patch('/:id', PLANNERS, async (req, res) => {
+  j.patch('/:id', 'planRoom', async (req, res) => {
     const { id } = parseOr400(IdParam, req.params);
     res.json(await updateJob(sequelize, req.user!.id, id, parseOr400(UpdateJobSchema, req.body)));
   });
   // What a booking would do, before confirming it: a read, but it takes the booking's body.
-  j.post('/:id/booking/preview', PLANNERS, async (req, res) => {
+  j.post('/:id/booking/preview', 'planRoom', async (req, res) => {
     const { id } = parseOr400(IdParam, req.params);
     res.json(await previewBooking(id, parseOr400(BookingSchema, req.body)));
   });
-  j.post('/:id/booking', PLANNERS, async (req, res) => {
+  j.post('/:id/booking', 'planRoom', async (req, res) => {
     const { id } = parseOr400(IdParam, req.params);
     res.json(await bookJob(sequelize, req.user!.id, id, parseOr400(BookingSchema, req.body)));
   });
-  j.post('/:id/cancel', PLANNERS, async (req, res) => {
+  j.post('/:id/cancel', 'planRoom', async (req, res) => {
     res.json(await cancelJob(sequelize, req.user!.id, parseOr400(IdParam, req.params).id));
   });
-  j.post('/:id/sessions/:sessionId/done', FINISHERS, async (req, res) => {
+  j.post('/:id/sessions/:sessionId/done', 'recordProgress', async (req, res) => {
     const { id, sessionId } = parseOr400(SessionParam, req.params);
     res.json(await markSessionDone(sequelize, req.user!.id, id, sessionId, parseOr400(SessionDoneSchema, req.body)));
   });
@@ -95,10 +93,10 @@ export function planningRoutes(sequelize: Sequelize, table: RouteInfo[]) {
   w.get('', 'signed-in', async (_req, res) => {
     res.json(await listPolishers());
   });
-  w.post('', PLANNERS, async (req, res) => {
+  w.post('', 'planRoom', async (req, res) => {
     res.status(201).json(await createPolisher(sequelize, req.user!.id, parseOr400(PolisherInputSchema, req.body)));
   });
-  w.patch('/:id', PLANNERS, async (req, res) => {
+  w.patch('/:id', 'planRoom', async (req, res) => {
     const { id } = parseOr400(IdParam, req.params);
     res.json(await updatePolisher(sequelize, req.user!.id, id, parseOr400(UpdatePolisherSchema, req.body)));
   });

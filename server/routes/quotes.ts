@@ -14,7 +14,6 @@ import { acceptanceRecordOf, buildDocument, createQuote, estimateDocument, getQu
 import { OutboxMessage, Quote } from '../models';
 
 const IdParam = z.object({ id: IdSchema });
-const SELL = ['owner', 'sales'] as const;
 const ALL = 'signed-in' as const;
 const SendSchema = z.object({ recipient: z.email({ message: 'must be an e-mail address' }).optional() }).strict();
 const OutboxQuery = z.object({
@@ -32,7 +31,7 @@ function pdfResponse(res: Response, name: string, pdf: Buffer, inline = true): v
 
 export function quoteRoutes(config: Config, sequelize: Sequelize, table: RouteInfo[]) {
   const e = secureRouter('/api/estimates', table);
-  e.post('/:id/quotes', SELL, async (req, res) => {
+  e.post('/:id/quotes', 'sendQuotes', async (req, res) => {
     const { id } = parseOr400(IdParam, req.params);
     res.status(201).json(await createQuote(sequelize, req.user!, id, parseOr400(CreateQuoteSchema, req.body)));
   });
@@ -50,7 +49,7 @@ export function quoteRoutes(config: Config, sequelize: Sequelize, table: RouteIn
     res.json(await pipeline(sequelize));
   });
   /** How often customers take the lighter of the options offered for a piece. */
-  q.get('/options-report', SELL, async (_req, res) => {
+  q.get('/options-report', 'sendQuotes', async (_req, res) => {
     res.json(await optionReport(sequelize));
   });
   q.get('/:id', ALL, async (req, res) => {
@@ -66,16 +65,16 @@ export function quoteRoutes(config: Config, sequelize: Sequelize, table: RouteIn
     const record = await acceptanceRecordOf(parseOr400(IdParam, req.params).id);
     pdfResponse(res, `${record.quoteNumber}-acceptance`, await renderAcceptancePdf(record));
   });
-  q.post('/:id/send', SELL, async (req, res) => {
+  q.post('/:id/send', 'sendQuotes', async (req, res) => {
     const { id } = parseOr400(IdParam, req.params);
     res.json(await sendQuote(sequelize, config, req.user!.id, id, parseOr400(SendSchema, req.body).recipient));
   });
-  q.post('/:id/withdraw', SELL, async (req, res) => {
+  q.post('/:id/withdraw', 'sendQuotes', async (req, res) => {
     res.json(await withdrawQuote(sequelize, req.user!.id, parseOr400(IdParam, req.params).id));
   });
 
   const o = secureRouter('/api/outbox', table);
-  o.get('', SELL, async (req, res) => {
+  o.get('', 'sendQuotes', async (req, res) => {
     const query = parseOr400(OutboxQuery, req.query);
     const { rows, count } = await OutboxMessage.findAndCountAll({
       where: query.status ? { status: query.status } : {},
@@ -86,12 +85,12 @@ export function quoteRoutes(config: Config, sequelize: Sequelize, table: RouteIn
     });
     res.json({ rows: rows.map(outboxSummary), total: count, page: query.page, pageSize: query.pageSize });
   });
-  o.get('/:id', SELL, async (req, res) => {
+  o.get('/:id', 'sendQuotes', async (req, res) => {
     const m = await OutboxMessage.findByPk(parseOr400(IdParam, req.params).id, { attributes: { exclude: ['attachment'] } });
     if (!m) throw problems.notFound('Message');
     res.json(outboxDetail(m));
   });
-  o.get('/:id/attachment', SELL, async (req, res) => {
+  o.get('/:id/attachment', 'sendQuotes', async (req, res) => {
     const m = await OutboxMessage.findByPk(parseOr400(IdParam, req.params).id);
     if (!m || !m.attachment) throw problems.notFound('Attachment');
     pdfResponse(res, (m.attachmentName ?? 'attachment').replace(/\.pdf$/, ''), m.attachment);
@@ -100,7 +99,7 @@ export function quoteRoutes(config: Config, sequelize: Sequelize, table: RouteIn
    * Tries a failed message again (only a failed one: 409 otherwise). A quote not yet sent becomes sent once its
    * message goes; nothing else about the quote or its estimate changes.
    */
-  o.post('/:id/retry', SELL, async (req, res) => {
+  o.post('/:id/retry', 'sendQuotes', async (req, res) => {
     const m = await retryMessage(config, parseOr400(IdParam, req.params).id);
     if (m.status === 'sent' && m.quoteId) await markSent(sequelize, m.quoteId);
     const fresh = await OutboxMessage.findByPk(m.id, { attributes: { exclude: ['attachment'] } });
@@ -109,11 +108,11 @@ export function quoteRoutes(config: Config, sequelize: Sequelize, table: RouteIn
 
   const p = secureRouter('/api/payments', table);
   /** Payments the owner should look at: paid twice, or a different amount from the deposit. */
-  p.get('/flagged', SELL, async (_req, res) => {
+  p.get('/flagged', 'sendQuotes', async (_req, res) => {
     res.json(await flaggedPayments());
   });
   /** Refunds a flagged payment whose automatic refund did not go through. */
-  p.post('/:id/refund', ['owner'], async (req, res) => {
+  p.post('/:id/refund', 'refundDeposits', async (req, res) => {
     res.json(await refundPayment(config, parseOr400(IdParam, req.params).id, req.user!.id));
   });
   return [e.router, q.router, o.router, p.router];

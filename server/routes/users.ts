@@ -9,17 +9,17 @@ const IdParam = z.object({ id: z.coerce.number().int().positive().max(2_147_483_
 
 export function userRoutes(sequelize: Sequelize, table: RouteInfo[]) {
   const r = secureRouter('/api/users', table);
-  r.get('', ['owner'], async (req, res) => {
+  r.get('', 'manageUsers', async (req, res) => {
     res.json(await listUsers(parseOr400(UserListQuerySchema, req.query)));
   });
-  r.post('', ['owner'], async (req, res) => {
+  r.post('', 'manageUsers', async (req, res) => {
     res.status(201).json(await createUser(sequelize, req.user!.id, parseOr400(CreateUserSchema, req.body)));
   });
-  r.patch('/:id', ['owner'], async (req, res) => {
+  r.patch('/:id', 'manageUsers', async (req, res) => {
     const { id } = parseOr400(IdParam, req.params);
     res.json(await updateUser(sequelize, req.user!.id, id, parseOr400(UpdateUserSchema, req.body)));
   });
-  r.post('/:id/password', ['owner'], async (req, res) => {
+  r.post('/:id/password', 'manageUsers', async (req, res) => {
     const { id } = parseOr400(IdParam, req.params);
     await resetPassword(sequelize, req.user!.id, id, parseOr400(ResetPasswordSchema, req.body).password);
     res.status(204).end();

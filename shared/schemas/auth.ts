@@ -1,22 +1,8 @@
 import { z } from 'zod';
+import { ROLES } from '../roles';
 
-/** The staff roles. The customer has no account: they reach their own quote through a signed link. */
-export const ROLES = ['owner', 'estimator', 'sales', 'workshop'] as const;
-export type Role = (typeof ROLES)[number];
-
-export const ROLE_LABELS: Record<Role, string> = {
-  owner: 'Owner',
-  estimator: 'Estimator (finisher)',
-  sales: 'Sales',
-  workshop: 'Workshop planner',
-};
-
-export const ROLE_DUTIES: Record<Role, string> = {
-  owner: 'Everything: price list, labour rates, tax, workshop settings, finishing systems, users, audit log, reports.',
-  estimator: "Customers' pieces, measurements, estimates and revisions; progress and actual hours on jobs.",
-  sales: 'Customers, quotes from priced estimates, discounts within the cap, acceptance and deposits.',
-  workshop: 'Jobs from accepted quotes, the drying room and the polishers\u2019 week, progress.',
-};
+// The roles are defined with the permissions in shared/roles.ts; re-exported here for the schemas that name them.
+export { ROLE_DUTIES, ROLE_LABELS, ROLES, type Role } from '../roles';
 
 const email = z.string().trim().toLowerCase().pipe(z.email({ message: 'must be an e-mail address' })).pipe(z.string().max(254));
 

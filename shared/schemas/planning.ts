@@ -46,10 +46,7 @@ export const STAGE_KIND_LABELS: Record<StageKind, string> = {
 /** A job's session kinds: the finishing stages, and extra work the customer took with the quote. */
 export type JobStageKind = StageKind | 'extra';
 
-/** Who may make, book, move and cancel jobs, and manage polishers. */
-export const PLANNERS = ['owner', 'workshop'] as const;
-/** Who may mark sessions done with their actual hours. */
-export const FINISHERS = ['owner', 'estimator', 'workshop'] as const;
+// Who may plan the room and who may record progress: `planRoom` and `recordProgress` in shared/roles.ts.
 
 const isoDate = dateSchema({ ...DATE_RULES.planning, example: '2026-12-07' });
 const localDateTime = localDateTimeSchema({ ...DATE_RULES.planning, example: '2026-12-07' });

@@ -7,7 +7,7 @@ import { Spinner } from '@/components/spinner';
 import { Alert } from '@/components/alert';
 import { navFor } from '@/config/nav';
 import { paths } from '@/config/paths';
-import { useMe } from '@/features/auth/api/get-me';
+import { useMe } from '@/lib/me';
 import { useSignOut } from '@/features/auth/api/sign-out';
 
 /**

@@ -1,13 +1,13 @@
 import type { ReactNode } from 'react';
-import type { Role } from '@shared/schemas/auth';
+import { allows, type Access } from '@shared/roles';
 import { Alert } from '@/components/alert';
-import { useMe } from '@/features/auth/api/get-me';
+import { useMe } from '@/lib/me';
 
 /** Hides a page from roles that may not use it (the server refuses them too). */
-export function RequireRole({ roles, children }: { roles: readonly Role[]; children: ReactNode }) {
+export function RequireAccess({ access, children }: { access: Access; children: ReactNode }) {
   const me = useMe();
   if (!me.data) return null;
-  if (!roles.includes(me.data.role)) {
+  if (!allows(access, me.data.role)) {
     return (
       <div className="max-w-xl">
         <Alert tone="warning" title="Not available to your role">

@@ -7,13 +7,11 @@ import { UsersPage } from '@/features/users/routes/users';
 import { AppLayout } from './layout';
 import { NotFound } from './not-found';
 import { ownerRoutes } from './owner-routes';
-import { RequireRole } from './require-role';
+import { RequireAccess } from './require-role';
 import { RouteError } from './route-error';
 
-/** Who may create and revise estimates (the server enforces the same). */
-const ESTIMATE_EDITORS = ['owner', 'estimator'] as const;
-/** Who makes and sends quotes and reads the outbox. */
-const SELLERS = ['owner', 'sales'] as const;
+// Pages for some roles only are wrapped in RequireAccess with a permission of shared/roles.ts (the server enforces
+// the same permission on every route the page calls).
 
 export function createRouter() {
   return createBrowserRouter([
@@ -45,7 +43,7 @@ export function createRouter() {
         },
         {
           path: paths.customer,
-          lazy: async () => ({ Component: (await import('@/features/customers/routes/customer')).CustomerPage }),
+          lazy: async () => ({ Component: (await import('@/app/routes/customer')).CustomerPage }),
         },
         {
           path: paths.piece,
@@ -53,24 +51,24 @@ export function createRouter() {
         },
         {
           path: paths.estimates,
-          lazy: async () => ({ Component: (await import('@/features/estimates/routes/estimates')).EstimatesPage }),
+          lazy: async () => ({ Component: (await import('@/app/routes/estimates')).EstimatesPage }),
         },
         {
           path: paths.newEstimate,
           lazy: async () => {
-            const { NewEstimatePage } = await import('@/features/estimates/routes/new-estimate');
-            return { element: <RequireRole roles={ESTIMATE_EDITORS}><NewEstimatePage /></RequireRole> };
+            const { NewEstimatePage } = await import('@/app/routes/new-estimate');
+            return { element: <RequireAccess access="editEstimates"><NewEstimatePage /></RequireAccess> };
           },
         },
         {
           path: paths.estimate,
-          lazy: async () => ({ Component: (await import('@/features/estimates/routes/estimate')).EstimatePage }),
+          lazy: async () => ({ Component: (await import('@/app/routes/estimate')).EstimatePage }),
         },
         {
           path: paths.editEstimate,
           lazy: async () => {
             const { EditEstimatePage } = await import('@/features/estimates/routes/edit-estimate');
-            return { element: <RequireRole roles={ESTIMATE_EDITORS}><EditEstimatePage /></RequireRole> };
+            return { element: <RequireAccess access="editEstimates"><EditEstimatePage /></RequireAccess> };
           },
         },
         {
@@ -83,22 +81,22 @@ export function createRouter() {
           path: paths.outbox,
           lazy: async () => {
             const { OutboxPage } = await import('@/features/outbox/routes/outbox');
-            return { element: <RequireRole roles={SELLERS}><OutboxPage /></RequireRole> };
+            return { element: <RequireAccess access="sendQuotes"><OutboxPage /></RequireAccess> };
           },
         },
         {
           path: paths.users,
           element: (
-            <RequireRole roles={['owner']}>
+            <RequireAccess access="manageUsers">
               <UsersPage />
-            </RequireRole>
+            </RequireAccess>
           ),
         },
         {
           path: paths.reprice,
           lazy: async () => {
             const { RepricePage } = await import('@/features/reprice/routes/reprice');
-            return { element: <RequireRole roles={['owner']}><RepricePage /></RequireRole> };
+            return { element: <RequireAccess access="repriceEstimates"><RepricePage /></RequireAccess> };
           },
         },
         // Planning: the board and jobs for all staff; the forecast for owner and planner; actuals for the owner.
@@ -108,14 +106,14 @@ export function createRouter() {
           path: paths.forecast,
           lazy: async () => {
             const { ForecastPage } = await import('@/features/forecast/routes/forecast');
-            return { element: <RequireRole roles={['owner', 'workshop']}><ForecastPage /></RequireRole> };
+            return { element: <RequireAccess access="readForecast"><ForecastPage /></RequireAccess> };
           },
         },
         {
           path: paths.actuals,
           lazy: async () => {
             const { ActualsPage } = await import('@/features/actuals/routes/actuals');
-            return { element: <RequireRole roles={['owner']}><ActualsPage /></RequireRole> };
+            return { element: <RequireAccess access="reviewActuals"><ActualsPage /></RequireAccess> };
           },
         },
         ...ownerRoutes,

@@ -18,3 +18,12 @@ export function serverFieldErrors(error: unknown): Record<string, string> {
   for (const e of error.errors) out[e.field] ??= e.message;
   return out;
 }
+
+/** Zod's words for limits and empty number boxes, in the workshop's. */
+export function plainMessage(v: string): string {
+  if (/received NaN|expected number, received/i.test(v)) return 'must be a number';
+  const m = /^Too (?:big|small): expected (?:number|string|array) to (?:be|have) ([<>]=?)(-?[\d.]+)/.exec(v);
+  if (!m) return v;
+  const words: Record<string, string> = { '<=': 'at most', '>=': 'at least', '<': 'less than', '>': 'more than' };
+  return `must be ${words[m[1]!]} ${m[2]}`;
+}

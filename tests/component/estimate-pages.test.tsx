@@ -4,9 +4,9 @@ import { afterEach, beforeEach, describe, expect, it, vi } from 'vitest';
 import { ESTIMATE_STATES, ESTIMATE_STATE_LABELS } from '../../shared/schemas/estimates';
 import { CompareRevisionsPage } from '../../src/features/estimates/routes/compare';
 import { EditEstimatePage } from '../../src/features/estimates/routes/edit-estimate';
-import { EstimatePage } from '../../src/features/estimates/routes/estimate';
-import { EstimatesPage } from '../../src/features/estimates/routes/estimates';
-import { StateBadge } from '../../src/features/estimates/components/state-badge';
+import { EstimatePage } from '../../src/app/routes/estimate';
+import { EstimatesPage } from '../../src/app/routes/estimates';
+import { StateBadge } from '../../src/components/estimate-state-badge';
 import { CALC, detail, GRAND_INPUT, ME, revision } from './estimates-fixtures';
 import { fakeFetch, json, renderWithApp } from './render';
 

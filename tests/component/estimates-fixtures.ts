@@ -4,7 +4,7 @@ import type { EstimateInput } from '../../shared/schemas/calc';
 import type { EstimateDetail, Revision } from '../../shared/schemas/estimates';
 import type { WorkshopSettings } from '../../shared/schemas/workshop';
 import type { Piece } from '../../shared/schemas/customers';
-import type { CalcCatalog } from '../../src/features/estimates/api/catalog';
+import type { CalcCatalog } from '../../src/lib/catalog';
 import { DEMO_CATALOG } from '../fixtures/catalog';
 
 export const SETTINGS: WorkshopSettings = {

@@ -1,7 +1,7 @@
 import { fireEvent, screen, waitFor, within } from '@testing-library/react';
 import { Route, Routes } from 'react-router-dom';
 import { afterEach, describe, expect, it, vi } from 'vitest';
-import { EstimatePage } from '../../src/features/estimates/routes/estimate';
+import { EstimatePage } from '../../src/app/routes/estimate';
 import { QuotePage } from '../../src/features/quotes/routes/quote';
 import { CALC, detail, GRAND_INPUT, ME, revision } from './estimates-fixtures';
 import { QUOTE } from './quote-fixtures';

@@ -5,7 +5,7 @@ import { Button } from '@/components/button';
 import { PageHeader } from '@/components/card';
 import type { Column } from '@/components/data-table';
 import { PagedTable } from '@/components/paged-table';
-import { useWorkshop } from '@/features/workshop/api/get-workshop';
+import { useWorkshop } from '@/lib/workshop';
 import { formatChange, formatDate, formatDateTime, formatMoney } from '@/lib/format';
 import { useTableState } from '@/lib/use-table-state';
 import { useAudit, useAuditFilters } from '../api/audit';

@@ -1,7 +1,7 @@
 import { useMutation, useQueryClient } from '@tanstack/react-query';
 import type { LoginInput, User } from '@shared/schemas/auth';
 import { api, setCsrfToken } from '@/lib/api';
-import { authKeys } from './get-me';
+import { authKeys } from '@/lib/query-keys';
 
 export async function signIn(input: LoginInput): Promise<User> {
   const { user, csrfToken } = await api<{ user: User; csrfToken: string }>('/api/auth/login', { method: 'POST', body: input });

@@ -1,6 +1,6 @@
 import { useMutation, useQueryClient } from '@tanstack/react-query';
 import { api, setCsrfToken } from '@/lib/api';
-import { authKeys } from './get-me';
+import { authKeys } from '@/lib/query-keys';
 
 export function useSignOut() {
   const queryClient = useQueryClient();

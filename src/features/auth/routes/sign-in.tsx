@@ -6,7 +6,7 @@ import { Button } from '@/components/button';
 import { TextField } from '@/components/field';
 import { Logo } from '@/components/logo';
 import { paths } from '@/config/paths';
-import { useMe } from '../api/get-me';
+import { useMe } from '@/lib/me';
 import { useSignIn } from '../api/sign-in';
 
 /** Only same-site paths may follow sign-in. */

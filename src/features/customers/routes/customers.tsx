@@ -8,7 +8,7 @@ import type { Column } from '@/components/data-table';
 import { SearchBox } from '@/components/search-box';
 import { PagedTable } from '@/components/paged-table';
 import { pathTo } from '@/config/paths';
-import { useCan } from '@/features/estimates/lib/permissions';
+import { useCan } from '@/lib/permissions';
 import { useTableState } from '@/lib/use-table-state';
 import { useCustomers, type CustomerListQuery } from '../api/customers';
 import { CustomerFormDialog } from '../components/customer-form-dialog';

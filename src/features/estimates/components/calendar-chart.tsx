@@ -4,7 +4,7 @@
  */
 import { Bar, BarChart, CartesianGrid, Legend, ResponsiveContainer, Tooltip, XAxis, YAxis } from 'recharts';
 import type { CalendarResult } from '@shared/schemas/calc';
-import { formatDateTime } from '../lib/format';
+import { formatDateTime } from '@/lib/format-figures';
 
 const DAY_MS = 86_400_000;
 const at = (t: string) => new Date(`${t.length === 10 ? `${t}T00:00` : t}:00Z`).getTime();

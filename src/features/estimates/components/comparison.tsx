@@ -2,7 +2,7 @@ import { ArrowRight, Minus, Plus } from 'lucide-react';
 import type { ReactNode } from 'react';
 import type { FigureChange, RevisionComparison } from '@shared/compare';
 import type { UnitSystem } from '@shared/units';
-import { formatDelta, formatMoney, formatMoneyDelta } from '../lib/format';
+import { formatDelta, formatMoney, formatMoneyDelta } from '@/lib/format-figures';
 import { formatArea, formatMass, formatQuantity, formatVolume } from '../lib/measures';
 
 function Section({ title, children, id, empty }: { title: string; children: ReactNode; id: string; empty?: boolean }) {

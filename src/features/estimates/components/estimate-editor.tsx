@@ -8,7 +8,7 @@ import { Alert } from '@/components/alert';
 import { Button } from '@/components/button';
 import { ApiError } from '@/lib/api';
 import { clearBrowserDraft, useBrowserDraft, useOnline } from '@/lib/browser-draft';
-import type { CalcCatalog } from '../api/catalog';
+import type { CalcCatalog } from '@/lib/catalog';
 import { useDisplayUnits } from '../lib/display-units';
 import {
   buildInput, defaultDimension, describePath, DIMENSION_LABELS, errorsByPath, messageAt, partsFromTemplate, systemStages, TEMPLATE_LABELS,

@@ -4,7 +4,7 @@ import type { EstimateResult } from '@shared/schemas/calc';
 import type { UnitSystem } from '@shared/units';
 import { Spinner } from '@/components/spinner';
 import { COMPLEXITY_LABELS, SHAPE_LABELS } from '../lib/draft';
-import { formatDays, formatHours, formatMoney, formatWhen } from '../lib/format';
+import { formatDays, formatHours, formatMoney, formatWhen } from '@/lib/format-figures';
 import { formatArea, formatMass, formatPack, formatQuantity, formatVolume } from '../lib/measures';
 import type { ShapeKind } from '@shared/schemas/calc';
 

@@ -2,7 +2,7 @@ import { Clock, Coins, Droplets, Layers, Ruler, CalendarRange, Package, Triangle
 import type { ReactNode } from 'react';
 import type { EstimateResult } from '@shared/schemas/calc';
 import type { UnitSystem } from '@shared/units';
-import { formatDays, formatHours, formatMoney, formatDate } from '../lib/format';
+import { formatDays, formatHours, formatMoney, formatDate } from '@/lib/format-figures';
 import { formatArea, formatMass, formatVolume } from '../lib/measures';
 
 function Figure({ label, value, icon, testId, hint }: { label: string; value: ReactNode; icon: ReactNode; testId: string; hint?: ReactNode }) {

@@ -4,7 +4,7 @@ import { useNavigate } from 'react-router-dom';
 import type { RevisionSummary } from '@shared/schemas/estimates';
 import { Button } from '@/components/button';
 import { pathTo } from '@/config/paths';
-import { formatHours, formatMoney, formatWhen } from '../lib/format';
+import { formatHours, formatMoney, formatWhen } from '@/lib/format-figures';
 
 /** Every saved revision, newest first, with two picked for a side-by-side comparison. */
 export function RevisionsList({ estimateId, revisions, current, currency }: { estimateId: number; revisions: RevisionSummary[]; current: number; currency: string }) {

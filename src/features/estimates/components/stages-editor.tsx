@@ -3,7 +3,7 @@ import { Fragment, useState } from 'react';
 import { APPLIES_TO, cutUnit, type Catalog } from '@shared/schemas/catalog';
 import type { StageResult } from '@shared/schemas/calc';
 import { APPLIES_TO_LABELS, messageAt, STAGE_NUMBER_LABELS, type StageDraft, type StageNumber } from '../lib/draft';
-import { formatHours } from '../lib/format';
+import { formatHours } from '@/lib/format-figures';
 import { CellInput, MiniSelect } from './fields';
 
 const MAIN: StageNumber[] = ['sessions', 'coatsPerSession', 'cutLb', 'restHours', 'labourMinPerM2PerCoat'];

@@ -1,6 +1,6 @@
 import { useCallback, useState } from 'react';
 import { UNIT_SYSTEMS, type UnitSystem } from '@shared/units';
-import { useMe } from '@/features/auth/api/get-me';
+import { useMe } from '@/lib/me';
 
 const KEY = 'shellwright.displayUnits';
 

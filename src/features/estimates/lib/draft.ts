@@ -9,7 +9,7 @@ import { TEMPLATE_DIMENSIONS, type EstimateInput, type PartInput, type ShapeInpu
 import type { Piece, PieceKind } from '@shared/schemas/customers';
 import type { WorkshopSettings } from '@shared/schemas/workshop';
 import { formatLength, type LengthUnit, type UnitSystem, type VolumeMeasure } from '@shared/units';
-import { todayLocal } from './format';
+import { todayLocal } from '@/lib/format-figures';
 
 /** Shapes a part may take, with the lengths each one needs, in the order they are asked for. */
 export const SHAPE_FIELDS: Record<ShapeKind, { name: string; label: string }[]> = {

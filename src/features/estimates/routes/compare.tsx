@@ -6,14 +6,14 @@ import { Alert } from '@/components/alert';
 import { PageHeader } from '@/components/card';
 import { Spinner } from '@/components/spinner';
 import { pathTo } from '@/config/paths';
-import { useCalcCatalog } from '../api/catalog';
+import { useCalcCatalog } from '@/lib/catalog';
 import { useEstimate, useRevision } from '../api/estimates';
 import { CautionsPanel } from '../components/cautions';
 import { Comparison } from '../components/comparison';
-import { StateBadge } from '../components/state-badge';
+import { StateBadge } from '@/components/estimate-state-badge';
 import { UnitsToggle } from '../components/units-toggle';
 import { useDisplayUnits } from '../lib/display-units';
-import { formatWhen } from '../lib/format';
+import { formatWhen } from '@/lib/format-figures';
 
 /** Two revisions of an estimate side by side. */
 export function CompareRevisionsPage() {

@@ -12,13 +12,13 @@ import { PageHeader } from '@/components/card';
 import { Spinner } from '@/components/spinner';
 import { ApiError } from '@/lib/api';
 import { pathTo } from '@/config/paths';
-import { useCalcCatalog, type CalcCatalog } from '../api/catalog';
+import { useCalcCatalog, type CalcCatalog } from '@/lib/catalog';
 import { estimateQueryOptions, useCreateRevision, useEstimate } from '../api/estimates';
 import { EstimateEditor, type SavePayload } from '../components/estimate-editor';
-import { StateBadge } from '../components/state-badge';
+import { StateBadge } from '@/components/estimate-state-badge';
 import { draftFromInput } from '../lib/draft';
 import { clearBrowserDraft } from '@/lib/browser-draft';
-import { formatWhen } from '../lib/format';
+import { formatWhen } from '@/lib/format-figures';
 
 function kindOf(kind: string): PieceKind {
   return (PIECE_KINDS as readonly string[]).includes(kind) ? (kind as PieceKind) : 'furniture';

@@ -10,10 +10,11 @@ import { Dialog } from '@/components/dialog';
 import { SelectField, TextField } from '@/components/field';
 import { SearchBox } from '@/components/search-box';
 import { PagedTable } from '@/components/paged-table';
-import { useMe } from '@/features/auth/api/get-me';
+import { useMe } from '@/lib/me';
 import { serverFieldErrors, zodFieldErrors } from '@/lib/form-errors';
 import { useTableState } from '@/lib/use-table-state';
 import { useCreateSpecies, useSpecies, useUpdateSpecies } from '../api/finishing';
+import { can } from '@shared/roles';
 
 const PAGE_SIZE = 20;
 const PORE_LABELS: Record<(typeof PORES)[number], string> = { open: 'Open-pored', closed: 'Closed-pored', ebonised: 'Ebonised' };
@@ -68,7 +69,7 @@ function SpeciesDialog({ editing, open, onClose }: { editing: SpeciesDto | null;
 
 export function SpeciesPage() {
   const me = useMe();
-  const isOwner = me.data?.role === 'owner';
+  const isOwner = can(me.data?.role, 'editFinishing');
   const table = useTableState({ sort: 'name', filters: ['archived'] });
   const [dialog, setDialog] = useState<{ editing: SpeciesDto | null } | null>(null);
   const update = useUpdateSpecies();

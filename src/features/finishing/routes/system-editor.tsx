@@ -10,12 +10,13 @@ import { Card, PageHeader } from '@/components/card';
 import { SelectField, TextField } from '@/components/field';
 import { Spinner } from '@/components/spinner';
 import { paths } from '@/config/paths';
-import { useMe } from '@/features/auth/api/get-me';
-import { useWorkshop } from '@/features/workshop/api/get-workshop';
-import { useMaterials } from '@/features/price-list/api/price-list';
+import { useMe } from '@/lib/me';
+import { useWorkshop } from '@/lib/workshop';
+import { useMaterials } from '@/lib/materials';
 import { serverFieldErrors, zodFieldErrors } from '@/lib/form-errors';
-import { plainMessage } from '@/features/settings/components/settings-form';
+import { plainMessage } from '@/lib/form-errors';
 import { useSaveSystem, useSystem } from '../api/finishing';
+import { can } from '@shared/roles';
 
 const APPLIES_LABELS: Record<(typeof APPLIES_TO)[number], string> = { all: 'every part', 'open-pored': 'open-pored woods only', 'show-faces': 'show faces only' };
 
@@ -275,7 +276,7 @@ export function SystemEditorPage() {
   const system = useSystem(id);
   if (system.isPending) return <Spinner label="Loading the system…" />;
   if (system.isError) return <Alert tone="error" title="The system could not be loaded">{system.error.message}</Alert>;
-  const readOnly = me.data?.role !== 'owner';
+  const readOnly = !can(me.data?.role, 'editFinishing');
   return (
     <>
       <Link to={paths.finishingSystems} className="mb-3 inline-flex items-center gap-1 text-sm text-walnut-600 hover:text-walnut-900">

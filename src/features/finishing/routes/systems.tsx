@@ -9,11 +9,12 @@ import { DataTable, type Column } from '@/components/data-table';
 import { Dialog } from '@/components/dialog';
 import { TextField } from '@/components/field';
 import { ownerPathTo } from '@/config/paths';
-import { useMe } from '@/features/auth/api/get-me';
+import { useMe } from '@/lib/me';
 import { serverFieldErrors, zodFieldErrors } from '@/lib/form-errors';
 import { formatDate } from '@/lib/format';
 import { useLocalTable } from '@/lib/use-local-table';
 import { useArchiveSystem, useCopySystem, useSystems } from '../api/finishing';
+import { can } from '@shared/roles';
 
 function CopyDialog({ from, onClose }: { from: FinishingSystemDto | null; onClose: () => void }) {
   const copy = useCopySystem();
@@ -52,7 +53,7 @@ const value = (s: FinishingSystemDto, key: string) =>
 
 export function SystemsPage() {
   const me = useMe();
-  const isOwner = me.data?.role === 'owner';
+  const isOwner = can(me.data?.role, 'editFinishing');
   const [show, setShow] = useState<'active' | 'archived' | 'all'>('active');
   const systems = useSystems(show);
   const archive = useArchiveSystem();

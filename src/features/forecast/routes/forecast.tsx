@@ -11,9 +11,10 @@ import { Button } from '@/components/button';
 import { Card, PageHeader } from '@/components/card';
 import { Spinner } from '@/components/spinner';
 import { paths } from '@/config/paths';
-import { useMe } from '@/features/auth/api/get-me';
+import { useMe } from '@/lib/me';
 import { formatDate, formatMoney } from '@/lib/format';
 import { useForecast, useSetStock, useStock } from '../api/forecast';
+import { can } from '@shared/roles';
 
 const nf = new Intl.NumberFormat('en-GB', { maximumFractionDigits: 1 });
 
@@ -62,7 +63,7 @@ export function ForecastPage() {
   const forecast = useForecast(weeks);
   const stock = useStock();
   const me = useMe();
-  const isOwner = me.data?.role === 'owner';
+  const isOwner = can(me.data?.role, 'editStock');
 
   if (forecast.isPending) return <Spinner label="Adding up what the jobs will use…" />;
   if (forecast.isError) return <Alert tone="error" title="The forecast could not be loaded">{forecast.error.message}</Alert>;

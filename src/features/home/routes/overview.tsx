@@ -4,8 +4,8 @@ import { WEEKDAYS } from '@shared/schemas/workshop';
 import { Alert } from '@/components/alert';
 import { Card, PageHeader } from '@/components/card';
 import { Spinner } from '@/components/spinner';
-import { useMe } from '@/features/auth/api/get-me';
-import { useWorkshop } from '@/features/workshop/api/get-workshop';
+import { useMe } from '@/lib/me';
+import { useWorkshop } from '@/lib/workshop';
 import { WhereToStart } from '../components/where-to-start';
 
 const DAY_NAMES: Record<(typeof WEEKDAYS)[number], string> = {

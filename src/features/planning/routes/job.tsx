@@ -5,14 +5,14 @@
 import { AlertTriangle, ArrowDownRight, ArrowLeft, ArrowUpRight, Ban, CircleCheck, CircleDot, Clock3, Minus } from 'lucide-react';
 import { useState } from 'react';
 import { Link, useParams } from 'react-router-dom';
-import { FINISHERS, PLANNERS, type JobDetail, type StagePlanVsActual } from '@shared/schemas/planning';
+import type { JobDetail, StagePlanVsActual } from '@shared/schemas/planning';
 import { Alert } from '@/components/alert';
 import { Button } from '@/components/button';
 import { Card, PageHeader } from '@/components/card';
 import { TextField } from '@/components/field';
 import { Spinner } from '@/components/spinner';
 import { paths, pathTo } from '@/config/paths';
-import { useMe } from '@/features/auth/api/get-me';
+import { useMe } from '@/lib/me';
 import { formatMoney } from '@/lib/format';
 import { useBoard } from '../api/board';
 import { useCancelJob, useJob, useUpdateJob } from '../api/jobs';
@@ -21,6 +21,7 @@ import { OverbookingList, WhyNotSooner } from '../components/consequences';
 import { JobStateBadge } from '../components/job-state-badge';
 import { MarkDoneDialog, type SessionToMark } from '../components/mark-done-dialog';
 import { dateTime, hoursText, restText, toMinutes } from '../lib/time';
+import { can } from '@shared/roles';
 
 function Difference({ estimated, actual }: { estimated: number; actual: number }) {
   if (estimated <= 0) return <span className="text-walnut-400">—</span>;
@@ -218,8 +219,8 @@ export function JobPage() {
   if (job.isPending) return <Spinner label="Opening the job…" />;
   if (job.isError) return <Alert tone="error" title="The job could not be opened">{job.error.message}</Alert>;
   const j = job.data;
-  const canPlan = !!role && (PLANNERS as readonly string[]).includes(role);
-  const canMark = !!role && (FINISHERS as readonly string[]).includes(role);
+  const canPlan = can(role, 'planRoom');
+  const canMark = can(role, 'recordProgress');
   const bookable = canPlan && (j.state === 'unbooked' || j.state === 'booked');
   const room = board.data?.room ?? { temperatureC: 20, humidityPct: 55, unit: j.roomUnit };
   const today = board.data?.today ?? new Date().toISOString().slice(0, 10);

@@ -5,13 +5,12 @@
 import { AlertTriangle, CalendarDays, ChevronLeft, ChevronRight, CircleCheck, Droplets, Thermometer, Warehouse } from 'lucide-react';
 import { useState, type ReactNode } from 'react';
 import { Link } from 'react-router-dom';
-import { FINISHERS, PLANNERS, type DueSession, type PlanningBoard } from '@shared/schemas/planning';
-import type { Role } from '@shared/schemas/auth';
+import type { DueSession, PlanningBoard } from '@shared/schemas/planning';
 import { Alert } from '@/components/alert';
 import { Button } from '@/components/button';
 import { Card, PageHeader } from '@/components/card';
 import { Spinner } from '@/components/spinner';
-import { useMe } from '@/features/auth/api/get-me';
+import { useMe } from '@/lib/me';
 import { useBoard, useReadyToBook } from '../api/board';
 import { BookingForm } from '../components/booking-form';
 import { JobStateBadge } from '../components/job-state-badge';
@@ -19,8 +18,8 @@ import { MarkDoneDialog, type SessionToMark } from '../components/mark-done-dial
 import { PolishersCard } from '../components/polishers-card';
 import { jobPath, Timeline, TimelineLegend } from '../components/timeline';
 import { addDays, clock, dateTime, dayLabel, hoursText, mondayOf } from '../lib/time';
+import { can } from '@shared/roles';
 
-const has = (roles: readonly Role[], role: Role | undefined) => !!role && roles.includes(role);
 
 function Fact({ icon, label, children, tone = 'plain' }: { icon: ReactNode; label: string; children: ReactNode; tone?: 'plain' | 'over' | 'good' }) {
   const box = tone === 'over' ? 'border-brick-600/40 bg-brick-100/60 text-brick-700' : tone === 'good' ? 'border-moss-600/30 bg-moss-100/60 text-moss-700' : 'border-parchment-200 bg-white text-walnut-800';
@@ -114,7 +113,7 @@ export function PlanningBoardPage() {
   const [from, setFrom] = useState<string | undefined>(undefined);
   const [weeks, setWeeks] = useState(8);
   const board = useBoard(from, weeks);
-  const canPlan = has(PLANNERS, role);
+  const canPlan = can(role, 'planRoom');
   const ready = useReadyToBook();
   const [marking, setMarking] = useState<SessionToMark | null>(null);
 
@@ -181,7 +180,7 @@ export function PlanningBoardPage() {
         <Card title="Due today and tomorrow">
           <DueList
             board={b}
-            canMark={has(FINISHERS, role)}
+            canMark={can(role, 'recordProgress')}
             onMark={(s) => setMarking({ jobId: s.jobId, jobNumber: s.jobNumber, sessionId: s.sessionId, label: s.label, end: s.end, handsOnHours: s.handsOnHours })}
           />
         </Card>

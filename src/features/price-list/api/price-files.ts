@@ -1,7 +1,7 @@
 import { useMutation, useQueryClient } from '@tanstack/react-query';
 import type { PriceFileApplied, PriceFilePreview } from '@shared/schemas/price-list';
 import { api } from '@/lib/api';
-import { priceListKeys } from './price-list';
+import { calcKeys, priceListKeys } from '@/lib/query-keys';
 
 /** Sends the file; the server parses it and keeps the preview for the apply step. */
 export function useUploadPriceFile() {
@@ -20,6 +20,6 @@ export function useApplyPriceFile() {
   return useMutation({
     mutationFn: (preview: Pick<PriceFilePreview, 'id' | 'contentHash'>) =>
       api<PriceFileApplied>(`/api/price-list/price-files/${preview.id}/apply`, { method: 'POST', body: { contentHash: preview.contentHash } }),
-    onSuccess: () => Promise.all([qc.invalidateQueries({ queryKey: priceListKeys.all }), qc.invalidateQueries({ queryKey: ['calc'] })]),
+    onSuccess: () => Promise.all([qc.invalidateQueries({ queryKey: priceListKeys.all }), qc.invalidateQueries({ queryKey: calcKeys.all })]),
   });
 }

@@ -1,34 +1,19 @@
-import { keepPreviousData, queryOptions, useMutation, useQuery, useQueryClient } from '@tanstack/react-query';
-import type { Page } from '@shared/schemas/auth';
+import { queryOptions, useMutation, useQuery, useQueryClient } from '@tanstack/react-query';
 import type {
   CatalogVersionChange,
   CreateMaterialInput,
   CreatePackInput,
   MaterialDto,
   MaterialHistory,
-  MaterialListQuery,
   NewPriceInput,
   UpdateMaterialInput,
   UpdatePackInput,
 } from '@shared/schemas/price-list';
-import { api, toQuery } from '@/lib/api';
+import { api } from '@/lib/api';
+import { calcKeys, priceListKeys, setPackPriceMutationKey } from '@/lib/query-keys';
 
-export const priceListKeys = {
-  all: ['price-list'] as const,
-  list: (query: Partial<MaterialListQuery>) => ['price-list', 'list', query] as const,
-  history: (id: number) => ['price-list', 'history', id] as const,
-};
-
-export const materialsQueryOptions = (query: Partial<MaterialListQuery>) =>
-  queryOptions({
-    queryKey: priceListKeys.list(query),
-    queryFn: ({ signal }) => api<Page<MaterialDto>>(`/api/price-list/materials${toQuery(query)}`, { signal }),
-    placeholderData: keepPreviousData,
-  });
-
-export function useMaterials(query: Partial<MaterialListQuery>) {
-  return useQuery(materialsQueryOptions(query));
-}
+// The materials list (read by other features too) and the price list's query keys are in the kernel: src/lib/materials.ts
+// and src/lib/query-keys.ts.
 
 export const materialHistoryQueryOptions = (id: number) =>
   queryOptions({
@@ -43,7 +28,7 @@ export function useMaterialHistory(id: number) {
 /** Every price-list mutation invalidates the whole list (and the catalog the estimator reads). */
 function useInvalidate() {
   const qc = useQueryClient();
-  return () => Promise.all([qc.invalidateQueries({ queryKey: priceListKeys.all }), qc.invalidateQueries({ queryKey: ['calc'] })]);
+  return () => Promise.all([qc.invalidateQueries({ queryKey: priceListKeys.all }), qc.invalidateQueries({ queryKey: calcKeys.all })]);
 }
 
 export function useCreateMaterial() {
@@ -78,9 +63,6 @@ export function useUpdatePack() {
     onSuccess: invalidate,
   });
 }
-
-/** Names the new-price mutation, so a page can tell that a price was just changed (the repricing notice). */
-export const setPackPriceMutationKey = ['price-list', 'set-price'] as const;
 
 export function useSetPackPrice() {
   const invalidate = useInvalidate();

@@ -6,7 +6,7 @@ import { Alert } from '@/components/alert';
 import { Button } from '@/components/button';
 import { Logo } from '@/components/logo';
 import { Spinner } from '@/components/spinner';
-import { PriceBreakdown } from '@/features/quotes/components/price-breakdown';
+import { PriceBreakdown } from '@/components/price-breakdown';
 import { ApiError } from '@/lib/api';
 import { formatDate, formatMoney } from '@/lib/format';
 import { publicAcceptancePdfUrl, publicPdfUrl, useDepositCancelled, useDepositCheckout, usePublicQuote } from '../api/public-quote';

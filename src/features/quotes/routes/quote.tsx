@@ -7,15 +7,14 @@ import { Alert } from '@/components/alert';
 import { Button } from '@/components/button';
 import { Spinner } from '@/components/spinner';
 import { pathTo } from '@/config/paths';
-import { useMe } from '@/features/auth/api/get-me';
+import { useCan } from '@/lib/permissions';
 import { formatDate, formatDateTime, formatMoney, todayIso } from '@/lib/format';
 import { acceptancePdfUrl, quotePdfUrl, useQuote, useWithdrawQuote } from '../api/quotes';
-import { PriceBreakdown } from '../components/price-breakdown';
+import { PriceBreakdown } from '@/components/price-breakdown';
 import { QuoteLines } from '../components/quote-lines';
 import { QuoteStateBadge } from '../components/quote-state-badge';
 import { MILESTONE_ICONS } from '../components/quote-timeline';
 import { SendQuote } from '../components/send-quote';
-import { canSell } from '../lib/permissions';
 
 const OPEN = ['draft', 'quoted', 'viewed'] as const;
 
@@ -128,7 +127,7 @@ function Payments({ q }: { q: QuoteDetail }) {
 export function QuotePage() {
   const id = Number(useParams().quoteId);
   const quote = useQuote(id);
-  const seller = canSell(useMe().data?.role);
+  const seller = useCan().sendQuotes;
   const withdraw = useWithdrawQuote();
   const qc = useQueryClient();
   const estimateId = quote.data?.estimate.id;

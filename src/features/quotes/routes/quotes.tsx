@@ -6,15 +6,14 @@ import type { Column } from '@/components/data-table';
 import { SearchBox } from '@/components/search-box';
 import { PagedTable } from '@/components/paged-table';
 import { pathTo } from '@/config/paths';
-import { useMe } from '@/features/auth/api/get-me';
-import { useCalcCatalog } from '@/features/estimates/api/catalog';
+import { useCan } from '@/lib/permissions';
+import { useCalcCatalog } from '@/lib/catalog';
 import { formatDate, formatMoney } from '@/lib/format';
 import { useTableState } from '@/lib/use-table-state';
 import { useFlaggedPayments, useQuotes, type QuoteListQuery } from '../api/quotes';
 import { OptionReport } from '../components/option-report';
 import { Pipeline } from '../components/pipeline';
 import { QuoteStateBadge } from '../components/quote-state-badge';
-import { canSell } from '../lib/permissions';
 
 const PAGE_SIZE = 25;
 const link = 'hover:text-amber-700 hover:underline';
@@ -52,7 +51,7 @@ function FlaggedPayments({ enabled }: { enabled: boolean }) {
 /** Every quote: search, filter by state, sort and page on the server; the pipeline above for sales and the owner. */
 export function QuotesPage() {
   const table = useTableState({ sort: 'updatedAt', dir: 'desc', filters: ['state'] });
-  const seller = canSell(useMe().data?.role);
+  const seller = useCan().sendQuotes;
   const calc = useCalcCatalog();
   const query: QuoteListQuery = {
     q: table.state.q || undefined,

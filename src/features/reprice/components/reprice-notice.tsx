@@ -3,7 +3,7 @@ import { ArrowRight } from 'lucide-react';
 import { Link } from 'react-router-dom';
 import { Alert } from '@/components/alert';
 import { paths } from '@/config/paths';
-import { setPackPriceMutationKey } from '@/features/price-list/api/price-list';
+import { setPackPriceMutationKey } from '@/lib/query-keys';
 import { useRepriceCandidates } from '../api/reprice';
 
 /**

@@ -1,5 +1,5 @@
 import { ArrowDownRight, ArrowUpRight, Minus } from 'lucide-react';
-import { formatMoneyDelta } from '@/features/estimates/lib/format';
+import { formatMoneyDelta } from '@/lib/format-figures';
 import { formatChange } from '@/lib/format';
 import { totalChange, type Direction } from '../lib/change';
 

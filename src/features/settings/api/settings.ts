@@ -1,7 +1,7 @@
 import { queryOptions, useMutation, useQuery, useQueryClient } from '@tanstack/react-query';
 import type { Workshop } from '@shared/schemas/workshop';
 import type { LabourRateDto, LabourRateUpdateInput, WorkshopUpdateInput } from '@shared/schemas/workshop-admin';
-import { workshopKeys } from '@/features/workshop/api/get-workshop';
+import { calcKeys, workshopKeys } from '@/lib/query-keys';
 import { api } from '@/lib/api';
 
 export const settingsKeys = {
@@ -26,7 +26,7 @@ export function useSaveSettings() {
     mutationFn: (input: WorkshopUpdateInput) => api<Workshop>('/api/settings', { method: 'PUT', body: input }),
     onSuccess: (saved) => {
       qc.setQueryData(settingsKeys.workshop, saved);
-      return Promise.all([qc.invalidateQueries({ queryKey: workshopKeys.all }), qc.invalidateQueries({ queryKey: ['calc'] })]);
+      return Promise.all([qc.invalidateQueries({ queryKey: workshopKeys.all }), qc.invalidateQueries({ queryKey: calcKeys.all })]);
     },
   });
 }
@@ -44,6 +44,6 @@ export function useUpdateRate() {
   const qc = useQueryClient();
   return useMutation({
     mutationFn: ({ id, ...input }: LabourRateUpdateInput & { id: number }) => api<LabourRateDto>(`/api/labour-rates/${id}`, { method: 'PATCH', body: input }),
-    onSuccess: () => Promise.all([qc.invalidateQueries({ queryKey: settingsKeys.rates }), qc.invalidateQueries({ queryKey: ['calc'] })]),
+    onSuccess: () => Promise.all([qc.invalidateQueries({ queryKey: settingsKeys.rates }), qc.invalidateQueries({ queryKey: calcKeys.all })]),
   });
 }

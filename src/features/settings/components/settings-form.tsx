@@ -8,7 +8,7 @@ import { Alert } from '@/components/alert';
 import { Button } from '@/components/button';
 import { Card } from '@/components/card';
 import { SelectField, TextField } from '@/components/field';
-import { serverFieldErrors, zodFieldErrors } from '@/lib/form-errors';
+import { plainMessage, serverFieldErrors, zodFieldErrors } from '@/lib/form-errors';
 
 type Form = WorkshopUpdateInput & { email: string; phone: string; address: string };
 type Path = (string | number)[];
@@ -25,15 +25,6 @@ function setAt<T>(obj: T, path: Path, value: unknown): T {
   for (const k of path.slice(0, -1)) o = o[k] as Record<string | number, unknown>;
   o[path.at(-1)!] = value;
   return copy;
-}
-
-/** Zod's words for limits and empty number boxes, in the workshop's. */
-export function plainMessage(v: string): string {
-  if (/received NaN|expected number, received/i.test(v)) return 'must be a number';
-  const m = /^Too (?:big|small): expected (?:number|string|array) to (?:be|have) ([<>]=?)(-?[\d.]+)/.exec(v);
-  if (!m) return v;
-  const words: Record<string, string> = { '<=': 'at most', '>=': 'at least', '<': 'less than', '>': 'more than' };
-  return `must be ${words[m[1]!]} ${m[2]}`;
 }
 
 /** Moves to the first field marked invalid once the messages are on screen. */

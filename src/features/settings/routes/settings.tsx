@@ -3,7 +3,7 @@ import { Alert } from '@/components/alert';
 import { Button } from '@/components/button';
 import { PageHeader } from '@/components/card';
 import { Spinner } from '@/components/spinner';
-import { useMaterials } from '@/features/price-list/api/price-list';
+import { useMaterials } from '@/lib/materials';
 import { useLabourRates, useSaveSettings, useSettings } from '../api/settings';
 import { LabourRatesCard } from '../components/labour-rates';
 import { SettingsForm } from '../components/settings-form';

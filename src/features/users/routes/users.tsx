@@ -7,7 +7,7 @@ import { PageHeader } from '@/components/card';
 import type { Column } from '@/components/data-table';
 import { SearchBox } from '@/components/search-box';
 import { PagedTable } from '@/components/paged-table';
-import { useMe } from '@/features/auth/api/get-me';
+import { useMe } from '@/lib/me';
 import { useTableState } from '@/lib/use-table-state';
 import { useUpdateUser, useUsers } from '../api/users';
 import { AddUserDialog } from '../components/user-form-dialog';

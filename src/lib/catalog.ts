@@ -1,7 +1,8 @@
 import { queryOptions, useQuery } from '@tanstack/react-query';
 import type { Catalog } from '@shared/schemas/catalog';
 import type { WorkshopSettings } from '@shared/schemas/workshop';
-import { api } from '@/lib/api';
+import { api } from './api';
+import { calcKeys } from './query-keys';
 
 /** What the client needs to run the estimator itself: the price list, the settings, and what the owner should fix. */
 export interface CalcCatalog {
@@ -9,8 +10,6 @@ export interface CalcCatalog {
   settings: WorkshopSettings;
   warnings: { code: string; text: string }[];
 }
-
-export const calcKeys = { catalog: ['calc', 'catalog'] as const };
 
 export const calcCatalogQueryOptions = queryOptions({
   queryKey: calcKeys.catalog,

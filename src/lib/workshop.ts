@@ -1,8 +1,7 @@
 import { queryOptions, useQuery } from '@tanstack/react-query';
 import type { Workshop } from '@shared/schemas/workshop';
-import { api } from '@/lib/api';
-
-export const workshopKeys = { all: ['workshop'] as const };
+import { api } from './api';
+import { workshopKeys } from './query-keys';
 
 export const workshopQueryOptions = queryOptions({
   queryKey: workshopKeys.all,

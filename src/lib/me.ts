@@ -1,8 +1,7 @@
 import { queryOptions, useQuery } from '@tanstack/react-query';
 import type { User } from '@shared/schemas/auth';
-import { api } from '@/lib/api';
-
-export const authKeys = { me: ['auth', 'me'] as const };
+import { api } from './api';
+import { authKeys } from './query-keys';
 
 /** The signed-in user, or null when signed out. */
 export async function getMe(): Promise<User | null> {

@@ -8,16 +8,17 @@ import { Card, PageHeader } from '@/components/card';
 import { DataTable, type Column } from '@/components/data-table';
 import { Spinner } from '@/components/spinner';
 import { paths } from '@/config/paths';
-import { useMe } from '@/features/auth/api/get-me';
+import { useMe } from '@/lib/me';
 import { RepriceAfterPriceChange } from '@/features/reprice/components/reprice-notice';
 import { formatDate, formatDateTime, formatMoney } from '@/lib/format';
 import { useLocalTable } from '@/lib/use-local-table';
-import { useMaterialHistory, useUpdatePack } from '../api/price-list';
-import { ChangeBadge } from '../components/change-badge';
-import { InlineText } from '../components/inline-text';
-import { KindBadge } from '../components/kind-badge';
-import { PriceChart } from '../components/price-chart';
-import { PackPrice } from '../components/price-editor';
+import { useMaterialHistory, useUpdatePack } from '@/features/price-list/api/price-list';
+import { ChangeBadge } from '@/features/price-list/components/change-badge';
+import { InlineText } from '@/features/price-list/components/inline-text';
+import { KindBadge } from '@/features/price-list/components/kind-badge';
+import { PriceChart } from '@/features/price-list/components/price-chart';
+import { PackPrice } from '@/features/price-list/components/price-editor';
+import { can } from '@shared/roles';
 
 function SourceTag({ source }: { source: string }) {
   const fromFile = source.startsWith('file: ');
@@ -99,7 +100,7 @@ export function MaterialHistoryPage() {
   if (history.isPending) return <Spinner label="Loading the price history…" />;
   if (history.isError) return <Alert tone="error" title="The price history could not be loaded">{history.error.message}</Alert>;
   const { material, currency, packs } = history.data;
-  const isOwner = me.data?.role === 'owner';
+  const isOwner = can(me.data?.role, 'editPrices');
   return (
     <>
       <Link to={paths.priceList} className="mb-3 inline-flex items-center gap-1 text-sm text-walnut-600 hover:text-walnut-900">

@@ -10,7 +10,8 @@ import { ApiError } from '@/lib/api';
 import { serverFieldErrors, zodFieldErrors } from '@/lib/form-errors';
 import { formatMoney } from '@/lib/format';
 import { useEstimates } from '@/features/estimates/api/estimates';
-import { useCreateQuote } from '../api/quotes';
+import { useCreateQuote } from '@/features/quotes/api/quotes';
+import { can } from '@shared/roles';
 
 /** A further line of the quote: another estimate of the customer's (another piece, or another way with this one). */
 interface LineRow {
@@ -97,7 +98,7 @@ export function QuoteForm({
   const setLine = (key: number, patch: Partial<LineRow>) => setLines((rows) => rows.map((r) => (r.key === key ? { ...r, ...patch } : r)));
   const groupCount = Math.max(1, ...lines.map((l) => l.group));
 
-  const capped = role !== 'owner';
+  const capped = !can(role, 'discountBeyondCap');
   const setExtra = (key: number, patch: Partial<ExtraRow>) => setExtras((rows) => rows.map((r) => (r.key === key ? { ...r, ...patch } : r)));
   const num = (s: string) => (s.trim() === '' ? Number.NaN : Number(s.replace(',', '.')));
 

@@ -10,8 +10,8 @@ import { paths } from '@/config/paths';
 import { RepriceNotice } from '@/features/reprice/components/reprice-notice';
 import { formatDate, formatDateTime, formatMoney } from '@/lib/format';
 import { useLocalTable } from '@/lib/use-local-table';
-import { useApplyPriceFile, useUploadPriceFile } from '../api/price-files';
-import { ChangeBadge } from '../components/change-badge';
+import { useApplyPriceFile, useUploadPriceFile } from '@/features/price-list/api/price-files';
+import { ChangeBadge } from '@/features/price-list/components/change-badge';
 
 function Stat({ icon, label, value, tone }: { icon: ReactNode; label: string; value: number; tone: string }) {
   return (

@@ -13,10 +13,10 @@ import { paths, pathTo } from '@/config/paths';
 import { CustomerPicker } from '@/features/customers/components/customer-picker';
 import { EstimateQuoteDate } from '@/features/quotes/components/estimate-quote-date';
 import { useTableState } from '@/lib/use-table-state';
-import { useArchiveEstimate, useDuplicateEstimate, useEstimates, type EstimateListQuery } from '../api/estimates';
-import { StateBadge } from '../components/state-badge';
-import { formatHours, formatMoney, formatWhen } from '../lib/format';
-import { useCan } from '../lib/permissions';
+import { useArchiveEstimate, useDuplicateEstimate, useEstimates, type EstimateListQuery } from '@/features/estimates/api/estimates';
+import { StateBadge } from '@/components/estimate-state-badge';
+import { formatHours, formatMoney, formatWhen } from '@/lib/format-figures';
+import { useCan } from '@/lib/permissions';
 
 const PAGE_SIZE = 25;
 

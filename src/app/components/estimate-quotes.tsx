@@ -6,15 +6,15 @@ import type { QuoteDetail } from '@shared/schemas/quotes';
 import { Alert } from '@/components/alert';
 import { Button } from '@/components/button';
 import { pathTo } from '@/config/paths';
-import { useMe } from '@/features/auth/api/get-me';
+import { useMe } from '@/lib/me';
+import { useCan } from '@/lib/permissions';
 import { useCustomer } from '@/features/customers/api/customers';
-import { useCalcCatalog } from '@/features/estimates/api/catalog';
+import { useCalcCatalog } from '@/lib/catalog';
 import { formatDate, formatMoney } from '@/lib/format';
-import { useEstimateQuotes } from '../api/quotes';
-import { canSell } from '../lib/permissions';
-import { QuoteDates } from './quote-timeline';
+import { useEstimateQuotes } from '@/features/quotes/api/quotes';
+import { QuoteDates } from '@/features/quotes/components/quote-timeline';
 import { QuoteForm } from './quote-form';
-import { QuoteStateBadge } from './quote-state-badge';
+import { QuoteStateBadge } from '@/features/quotes/components/quote-state-badge';
 
 /** Estimate states from which a new quote may be made (the server holds the same list). */
 const QUOTABLE: readonly EstimateState[] = ['priced', 'quoted', 'viewed', 'expired', 'declined'];
@@ -30,7 +30,7 @@ function addDays(days: number): string {
  */
 export function EstimateQuotes({ estimate }: { estimate: EstimateDetail }) {
   const role = useMe().data?.role;
-  const seller = canSell(role);
+  const seller = useCan().sendQuotes;
   const quotes = useEstimateQuotes(estimate.id, estimate.number);
   const calc = useCalcCatalog();
   const customer = useCustomer(seller ? estimate.customer.id : undefined);

@@ -10,16 +10,18 @@ import type { Column } from '@/components/data-table';
 import { SearchBox } from '@/components/search-box';
 import { PagedTable } from '@/components/paged-table';
 import { ownerPathTo, paths } from '@/config/paths';
-import { useMe } from '@/features/auth/api/get-me';
+import { useMe } from '@/lib/me';
 import { RepriceAfterPriceChange } from '@/features/reprice/components/reprice-notice';
-import { useWorkshop } from '@/features/workshop/api/get-workshop';
+import { useWorkshop } from '@/lib/workshop';
 import { formatDate } from '@/lib/format';
 import { useTableState } from '@/lib/use-table-state';
-import { useMaterials, useUpdateMaterial } from '../api/price-list';
-import { InlineText } from '../components/inline-text';
-import { KindBadge } from '../components/kind-badge';
-import { AddMaterialDialog, AddPackDialog } from '../components/material-dialogs';
-import { PackPrice } from '../components/price-editor';
+import { useUpdateMaterial } from '@/features/price-list/api/price-list';
+import { useMaterials } from '@/lib/materials';
+import { InlineText } from '@/features/price-list/components/inline-text';
+import { KindBadge } from '@/features/price-list/components/kind-badge';
+import { AddMaterialDialog, AddPackDialog } from '@/features/price-list/components/material-dialogs';
+import { PackPrice } from '@/features/price-list/components/price-editor';
+import { can } from '@shared/roles';
 
 const PAGE_SIZE = 15;
 const nameSchema = UpdateMaterialSchema.shape.name;
@@ -27,7 +29,7 @@ const notesSchema = UpdateMaterialSchema.shape.notes;
 
 export function PriceListPage() {
   const me = useMe();
-  const isOwner = me.data?.role === 'owner';
+  const isOwner = can(me.data?.role, 'editPrices');
   const currency = useWorkshop().data?.settings.pricing.currency ?? 'GBP';
   const table = useTableState({ sort: 'name', filters: ['kind', 'archived'] });
   const [adding, setAdding] = useState(false);

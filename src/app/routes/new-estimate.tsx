@@ -6,10 +6,10 @@ import { PageHeader } from '@/components/card';
 import { Spinner } from '@/components/spinner';
 import { pathTo, paths } from '@/config/paths';
 import { usePiece } from '@/features/pieces/api/pieces';
-import { useCalcCatalog, type CalcCatalog } from '../api/catalog';
-import { useCreateEstimate } from '../api/estimates';
-import { EstimateEditor, type SavePayload } from '../components/estimate-editor';
-import { newDraft } from '../lib/draft';
+import { useCalcCatalog, type CalcCatalog } from '@/lib/catalog';
+import { useCreateEstimate } from '@/features/estimates/api/estimates';
+import { EstimateEditor, type SavePayload } from '@/features/estimates/components/estimate-editor';
+import { newDraft } from '@/features/estimates/lib/draft';
 import { clearBrowserDraft } from '@/lib/browser-draft';
 import type { Piece } from '@shared/schemas/customers';
 
