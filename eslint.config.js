@@ -9,19 +9,28 @@ import tseslint from 'typescript-eslint';
 /**
  * The feature boundary: one zone per folder of src/features, so that a feature may import the kernel (src/lib),
  * shared UI (src/components), config and shared/, but never another feature. A page that needs two features is a
- * composition and lives in src/app/ (routes/ or components/). Exported for tests/unit/lint-rules.test.ts.
+ * composition and lives in src/app/ (routes/ or components/). The kernel below the features (src/lib, src/components,
+ * src/config) imports no feature and nothing of src/app. Exported for tests/unit/lint/import-rules.test.ts.
  */
 export function featureZones(root = import.meta.dirname) {
   const features = readdirSync(`${root}/src/features`, { withFileTypes: true })
     .filter((d) => d.isDirectory())
     .map((d) => d.name)
     .sort();
-  return features.map((feature) => ({
+  const boundary = features.map((feature) => ({
     target: `./src/features/${feature}`,
     from: './src/features',
     except: [`./${feature}`],
     message: 'A feature may not import another feature: move what both need to src/lib (or src/components), or compose the two in src/app.',
   }));
+  // The layers below the features: the kernel, shared UI and config know no feature and no page composition.
+  const kernel = ['./src/lib', './src/components', './src/config'].map((target) => ({
+    target,
+    from: ['./src/features', './src/app'],
+    message: 'src/lib, src/components and src/config are used by the features: they may not import a feature or src/app.',
+  }));
+  const upward = { target: './src/features', from: './src/app', message: 'A feature may not import src/app: the app composes features, not the other way.' };
+  return [...boundary, ...kernel, upward];
 }
 
 /** Import rules for the whole code base: the feature boundary, and no import cycle in src/, server/ or shared/. */

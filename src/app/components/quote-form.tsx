@@ -3,6 +3,7 @@ import { useId, useState, type FormEvent } from 'react';
 import type { Role } from '@shared/schemas/auth';
 import type { RevisionSummary } from '@shared/schemas/estimates';
 import { CreateQuoteSchema, type CreateQuoteInput, type QuoteDetail } from '@shared/schemas/quotes';
+import { can } from '@shared/roles';
 import { Alert } from '@/components/alert';
 import { Button } from '@/components/button';
 import { SelectField, TextField } from '@/components/field';
@@ -11,7 +12,6 @@ import { serverFieldErrors, zodFieldErrors } from '@/lib/form-errors';
 import { formatMoney } from '@/lib/format';
 import { useEstimates } from '@/features/estimates/api/estimates';
 import { useCreateQuote } from '@/features/quotes/api/quotes';
-import { can } from '@shared/roles';
 
 /** A further line of the quote: another estimate of the customer's (another piece, or another way with this one). */
 interface LineRow {

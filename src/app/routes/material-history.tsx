@@ -2,6 +2,7 @@
 import { Archive, ArchiveRestore, ArrowLeft, FileSpreadsheet, PenLine } from 'lucide-react';
 import { Link, useParams } from 'react-router-dom';
 import { UpdatePackSchema, type PackDto, type PriceHistoryEntry } from '@shared/schemas/price-list';
+import { can } from '@shared/roles';
 import { Alert } from '@/components/alert';
 import { Button } from '@/components/button';
 import { Card, PageHeader } from '@/components/card';
@@ -18,7 +19,6 @@ import { InlineText } from '@/features/price-list/components/inline-text';
 import { KindBadge } from '@/features/price-list/components/kind-badge';
 import { PriceChart } from '@/features/price-list/components/price-chart';
 import { PackPrice } from '@/features/price-list/components/price-editor';
-import { can } from '@shared/roles';
 
 function SourceTag({ source }: { source: string }) {
   const fromFile = source.startsWith('file: ');

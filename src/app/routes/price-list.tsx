@@ -3,6 +3,7 @@ import { useState } from 'react';
 import { Link } from 'react-router-dom';
 import { MATERIAL_KINDS } from '@shared/schemas/catalog';
 import { MATERIAL_KIND_LABELS, UpdateMaterialSchema, type MaterialDto, type MaterialKind, type MaterialListQuery } from '@shared/schemas/price-list';
+import { can } from '@shared/roles';
 import { Alert } from '@/components/alert';
 import { Button } from '@/components/button';
 import { PageHeader } from '@/components/card';
@@ -21,7 +22,6 @@ import { InlineText } from '@/features/price-list/components/inline-text';
 import { KindBadge } from '@/features/price-list/components/kind-badge';
 import { AddMaterialDialog, AddPackDialog } from '@/features/price-list/components/material-dialogs';
 import { PackPrice } from '@/features/price-list/components/price-editor';
-import { can } from '@shared/roles';
 
 const PAGE_SIZE = 15;
 const nameSchema = UpdateMaterialSchema.shape.name;

@@ -44,6 +44,7 @@ beforeAll(() => {
   write('src/features/estimates/api/estimates.ts', "export const estimates = 2;\n");
   write('src/features/estimates/routes/estimate.ts', "import { quotes } from '@/features/quotes/api/quotes';\nexport const page = quotes;\n");
   write('src/features/estimates/routes/relative.ts', "import { quotes } from '../../quotes/api/quotes';\nexport const page = quotes;\n");
+  write('src/lib/reaches-up.ts', "import { quotes } from '@/features/quotes/api/quotes';\nexport const k = quotes;\n");
   write('src/app/routes/estimate.ts', "import { estimates } from '@/features/estimates/api/estimates';\nimport { quotes } from '@/features/quotes/api/quotes';\nexport const page = [estimates, quotes];\n");
   // A cycle in shared/, and a clean pair beside it.
   write('shared/a.ts', "import { b } from './b';\nexport const a = () => b();\n");
@@ -72,6 +73,11 @@ describe('import rules', () => {
     const found = await lint();
     expect(found.get('src/features/estimates/routes/estimate.ts')).toEqual(['import-x/no-restricted-paths']);
     expect(found.get('src/features/estimates/routes/relative.ts')).toEqual(['import-x/no-restricted-paths']);
+  });
+
+  it('report the kernel importing a feature', async () => {
+    const found = await lint();
+    expect(found.get('src/lib/reaches-up.ts')).toEqual(['import-x/no-restricted-paths']);
   });
 
   it('let a feature import itself and the kernel, and a composition in src/app import two features', async () => {

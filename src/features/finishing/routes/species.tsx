@@ -2,6 +2,7 @@ import { Archive, ArchiveRestore, Circle, CircleDashed, CircleDot, Pencil, Plus 
 import { useState, type FormEvent } from 'react';
 import { PORES } from '@shared/schemas/catalog';
 import { CreateSpeciesSchema, type SpeciesDto, type SpeciesListQuery } from '@shared/schemas/finishing-admin';
+import { can } from '@shared/roles';
 import { Alert } from '@/components/alert';
 import { Button } from '@/components/button';
 import { PageHeader } from '@/components/card';
@@ -14,7 +15,6 @@ import { useMe } from '@/lib/me';
 import { serverFieldErrors, zodFieldErrors } from '@/lib/form-errors';
 import { useTableState } from '@/lib/use-table-state';
 import { useCreateSpecies, useSpecies, useUpdateSpecies } from '../api/finishing';
-import { can } from '@shared/roles';
 
 const PAGE_SIZE = 20;
 const PORE_LABELS: Record<(typeof PORES)[number], string> = { open: 'Open-pored', closed: 'Closed-pored', ebonised: 'Ebonised' };

@@ -4,6 +4,7 @@ import { Link, useParams } from 'react-router-dom';
 import { APPLIES_TO, cutUnit, gallonName, STAGE_KINDS, type GallonBasis, type Stage } from '@shared/schemas/catalog';
 import { SystemUpdateSchema, type FinishingSystemDto } from '@shared/schemas/finishing-admin';
 import type { MaterialDto } from '@shared/schemas/price-list';
+import { can } from '@shared/roles';
 import { Alert } from '@/components/alert';
 import { Button } from '@/components/button';
 import { Card, PageHeader } from '@/components/card';
@@ -16,7 +17,6 @@ import { useMaterials } from '@/lib/materials';
 import { serverFieldErrors, zodFieldErrors } from '@/lib/form-errors';
 import { plainMessage } from '@/lib/form-errors';
 import { useSaveSystem, useSystem } from '../api/finishing';
-import { can } from '@shared/roles';
 
 const APPLIES_LABELS: Record<(typeof APPLIES_TO)[number], string> = { all: 'every part', 'open-pored': 'open-pored woods only', 'show-faces': 'show faces only' };
 

@@ -2,6 +2,7 @@ import { Archive, ArchiveRestore, Copy, Layers, PencilRuler } from 'lucide-react
 import { useState, type FormEvent } from 'react';
 import { Link, useNavigate } from 'react-router-dom';
 import { CopySystemSchema, type FinishingSystemDto } from '@shared/schemas/finishing-admin';
+import { can } from '@shared/roles';
 import { Alert } from '@/components/alert';
 import { Button } from '@/components/button';
 import { PageHeader } from '@/components/card';
@@ -14,7 +15,6 @@ import { serverFieldErrors, zodFieldErrors } from '@/lib/form-errors';
 import { formatDate } from '@/lib/format';
 import { useLocalTable } from '@/lib/use-local-table';
 import { useArchiveSystem, useCopySystem, useSystems } from '../api/finishing';
-import { can } from '@shared/roles';
 
 function CopyDialog({ from, onClose }: { from: FinishingSystemDto | null; onClose: () => void }) {
   const copy = useCopySystem();

@@ -6,6 +6,7 @@ import { AlertTriangle, CircleCheck, ShoppingBasket } from 'lucide-react';
 import { useState } from 'react';
 import { Link } from 'react-router-dom';
 import type { ForecastRow } from '@shared/schemas/planning';
+import { can } from '@shared/roles';
 import { Alert } from '@/components/alert';
 import { Button } from '@/components/button';
 import { Card, PageHeader } from '@/components/card';
@@ -14,7 +15,6 @@ import { paths } from '@/config/paths';
 import { useMe } from '@/lib/me';
 import { formatDate, formatMoney } from '@/lib/format';
 import { useForecast, useSetStock, useStock } from '../api/forecast';
-import { can } from '@shared/roles';
 
 const nf = new Intl.NumberFormat('en-GB', { maximumFractionDigits: 1 });
 

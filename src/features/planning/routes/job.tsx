@@ -6,6 +6,7 @@ import { AlertTriangle, ArrowDownRight, ArrowLeft, ArrowUpRight, Ban, CircleChec
 import { useState } from 'react';
 import { Link, useParams } from 'react-router-dom';
 import type { JobDetail, StagePlanVsActual } from '@shared/schemas/planning';
+import { can } from '@shared/roles';
 import { Alert } from '@/components/alert';
 import { Button } from '@/components/button';
 import { Card, PageHeader } from '@/components/card';
@@ -21,7 +22,6 @@ import { OverbookingList, WhyNotSooner } from '../components/consequences';
 import { JobStateBadge } from '../components/job-state-badge';
 import { MarkDoneDialog, type SessionToMark } from '../components/mark-done-dialog';
 import { dateTime, hoursText, restText, toMinutes } from '../lib/time';
-import { can } from '@shared/roles';
 
 function Difference({ estimated, actual }: { estimated: number; actual: number }) {
   if (estimated <= 0) return <span className="text-walnut-400">—</span>;

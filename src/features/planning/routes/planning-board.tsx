@@ -6,6 +6,7 @@ import { AlertTriangle, CalendarDays, ChevronLeft, ChevronRight, CircleCheck, Dr
 import { useState, type ReactNode } from 'react';
 import { Link } from 'react-router-dom';
 import type { DueSession, PlanningBoard } from '@shared/schemas/planning';
+import { can } from '@shared/roles';
 import { Alert } from '@/components/alert';
 import { Button } from '@/components/button';
 import { Card, PageHeader } from '@/components/card';
@@ -18,7 +19,6 @@ import { MarkDoneDialog, type SessionToMark } from '../components/mark-done-dial
 import { PolishersCard } from '../components/polishers-card';
 import { jobPath, Timeline, TimelineLegend } from '../components/timeline';
 import { addDays, clock, dateTime, dayLabel, hoursText, mondayOf } from '../lib/time';
-import { can } from '@shared/roles';
 
 
 function Fact({ icon, label, children, tone = 'plain' }: { icon: ReactNode; label: string; children: ReactNode; tone?: 'plain' | 'over' | 'good' }) {
