@@ -8,13 +8,13 @@ import { Button } from '@/components/button';
 import { pathTo } from '@/config/paths';
 import { useMe } from '@/lib/me';
 import { useCan } from '@/lib/permissions';
-import { useCustomer } from '@/features/customers/api/customers';
 import { useCalcCatalog } from '@/lib/catalog';
 import { formatDate, formatMoney } from '@/lib/format';
+import { useCustomer } from '@/features/customers/api/customers';
 import { useEstimateQuotes } from '@/features/quotes/api/quotes';
 import { QuoteDates } from '@/features/quotes/components/quote-timeline';
-import { QuoteForm } from './quote-form';
 import { QuoteStateBadge } from '@/features/quotes/components/quote-state-badge';
+import { QuoteForm } from './quote-form';
 
 /** Estimate states from which a new quote may be made (the server holds the same list). */
 const QUOTABLE: readonly EstimateState[] = ['priced', 'quoted', 'viewed', 'expired', 'declined'];

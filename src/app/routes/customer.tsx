@@ -8,14 +8,14 @@ import { Button } from '@/components/button';
 import { Card } from '@/components/card';
 import { DataTable, type Column } from '@/components/data-table';
 import { Spinner } from '@/components/spinner';
-import { pathTo } from '@/config/paths';
-import { useEstimates } from '@/features/estimates/api/estimates';
 import { StateBadge } from '@/components/estimate-state-badge';
+import { pathTo } from '@/config/paths';
 import { formatHours, formatMoney, formatWhen } from '@/lib/format-figures';
 import { useCan } from '@/lib/permissions';
+import { useWorkshop } from '@/lib/workshop';
+import { useEstimates } from '@/features/estimates/api/estimates';
 import { usePieces } from '@/features/pieces/api/pieces';
 import { AddPieceDialog } from '@/features/pieces/components/add-piece-dialog';
-import { useWorkshop } from '@/lib/workshop';
 import { useArchiveCustomer, useCustomer } from '@/features/customers/api/customers';
 import { CustomerFormDialog } from '@/features/customers/components/customer-form-dialog';
 

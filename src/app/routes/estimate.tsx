@@ -4,20 +4,20 @@ import { OPEN_STATES, type EstimateDetail } from '@shared/schemas/estimates';
 import { Alert } from '@/components/alert';
 import { Button } from '@/components/button';
 import { Spinner } from '@/components/spinner';
+import { StateBadge } from '@/components/estimate-state-badge';
 import { pathTo } from '@/config/paths';
-import { estimatePdfUrl } from '@/features/quotes/api/quotes';
-import { EstimateQuotes } from '@/app/components/estimate-quotes';
 import { useCalcCatalog } from '@/lib/catalog';
+import { formatDate, formatWhen } from '@/lib/format-figures';
+import { useCan } from '@/lib/permissions';
+import { estimatePdfUrl } from '@/features/quotes/api/quotes';
 import { useArchiveEstimate, useDuplicateEstimate, useEstimate, useSetEstimateState } from '@/features/estimates/api/estimates';
 import { CautionsPanel } from '@/features/estimates/components/cautions';
 import { ResultsDetail } from '@/features/estimates/components/results-detail';
 import { ResultsSummary } from '@/features/estimates/components/results-summary';
 import { RevisionsList } from '@/features/estimates/components/revisions-list';
-import { StateBadge } from '@/components/estimate-state-badge';
 import { UnitsToggle } from '@/features/estimates/components/units-toggle';
 import { useDisplayUnits } from '@/features/estimates/lib/display-units';
-import { formatDate, formatWhen } from '@/lib/format-figures';
-import { useCan } from '@/lib/permissions';
+import { EstimateQuotes } from '@/app/components/estimate-quotes';
 
 function Meta({ d }: { d: EstimateDetail }) {
   const link = 'font-medium text-walnut-800 underline decoration-amber-400 underline-offset-2 hover:text-amber-700';

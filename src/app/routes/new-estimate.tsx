@@ -1,17 +1,17 @@
 import { useState } from 'react';
 import { Link, useNavigate, useSearchParams } from 'react-router-dom';
 import { PIECE_KIND_LABELS } from '@shared/schemas/customers';
+import type { Piece } from '@shared/schemas/customers';
 import { Alert } from '@/components/alert';
 import { PageHeader } from '@/components/card';
 import { Spinner } from '@/components/spinner';
 import { pathTo, paths } from '@/config/paths';
-import { usePiece } from '@/features/pieces/api/pieces';
 import { useCalcCatalog, type CalcCatalog } from '@/lib/catalog';
+import { clearBrowserDraft } from '@/lib/browser-draft';
+import { usePiece } from '@/features/pieces/api/pieces';
 import { useCreateEstimate } from '@/features/estimates/api/estimates';
 import { EstimateEditor, type SavePayload } from '@/features/estimates/components/estimate-editor';
 import { newDraft } from '@/features/estimates/lib/draft';
-import { clearBrowserDraft } from '@/lib/browser-draft';
-import type { Piece } from '@shared/schemas/customers';
 
 function NewEstimateForm({ piece, calc }: { piece: Piece; calc: CalcCatalog }) {
   const navigate = useNavigate();

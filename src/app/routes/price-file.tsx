@@ -7,9 +7,9 @@ import { Button } from '@/components/button';
 import { Card, PageHeader } from '@/components/card';
 import { DataTable, type Column } from '@/components/data-table';
 import { paths } from '@/config/paths';
-import { RepriceNotice } from '@/features/reprice/components/reprice-notice';
 import { formatDate, formatDateTime, formatMoney } from '@/lib/format';
 import { useLocalTable } from '@/lib/use-local-table';
+import { RepriceNotice } from '@/features/reprice/components/reprice-notice';
 import { useApplyPriceFile, useUploadPriceFile } from '@/features/price-list/api/price-files';
 import { ChangeBadge } from '@/features/price-list/components/change-badge';
 
