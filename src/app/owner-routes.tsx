@@ -6,7 +6,7 @@ import type { ComponentType } from 'react';
 import type { RouteObject } from 'react-router-dom';
 import type { Access } from '@shared/roles';
 import { paths } from '@/config/paths';
-import { RequireAccess } from './require-role';
+import { RequireAccess } from './require-access';
 
 function guarded(access: Access, load: () => Promise<{ Component: ComponentType }>): RouteObject['lazy'] {
   return async () => {

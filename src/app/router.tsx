@@ -7,7 +7,7 @@ import { UsersPage } from '@/features/users/routes/users';
 import { AppLayout } from './layout';
 import { NotFound } from './not-found';
 import { ownerRoutes } from './owner-routes';
-import { RequireAccess } from './require-role';
+import { RequireAccess } from './require-access';
 import { RouteError } from './route-error';
 
 // Pages for some roles only are wrapped in RequireAccess with a permission of shared/roles.ts (the server enforces
