@@ -2,6 +2,8 @@
  * Estimates and their revisions. Every save recomputes with the shared engine against the current price list and
  * stores an immutable revision (inputs, price-list version and snapshot, results, cautions, who and when).
  */
+import { formatDate } from '@shared/format';
+import { currentYear, dayOf, daysFromToday, today as workshopToday } from '@shared/time';
 import { Op, QueryTypes, type Sequelize, type Transaction } from 'sequelize';
 import { validationSentence } from '@shared/schemas/error-map';
 import type { z } from 'zod';
@@ -62,14 +64,9 @@ function underInput<T>(fn: () => T): T {
   }
 }
 
-function addDays(date: Date, days: number): string {
-  const d = new Date(date.getTime() + days * 86_400_000);
-  return d.toISOString().slice(0, 10);
-}
-
 async function nextNumber(sequelize: Sequelize, transaction: Transaction): Promise<string> {
   const [row] = await sequelize.query<{ n: string }>("SELECT nextval('estimate_number_seq') AS n", { type: QueryTypes.SELECT, transaction });
-  return `EST-${new Date().getFullYear()}-${String(row!.n).padStart(4, '0')}`;
+  return `EST-${currentYear()}-${String(row!.n).padStart(4, '0')}`;
 }
 
 function priced(rawInput: unknown, loaded: LoadedCatalog) {
@@ -187,7 +184,7 @@ export async function createEstimate(sequelize: Sequelize, actorId: number, body
         pieceId: piece.id,
         ownerId: actorId,
         title: body.title || piece.description,
-        validUntil: addDays(new Date(), loaded.settings.quoteValidityDays),
+        validUntil: daysFromToday(loaded.settings.quoteValidityDays, loaded.settings.timeZone),
         currentRevisionId: null,
         currency: loaded.settings.pricing.currency,
       },
@@ -260,7 +257,7 @@ export async function priceListLabels(versions: string[], current?: string, tran
       { replacements: { versions: unique }, type: QueryTypes.SELECT, transaction },
     )) as { version: string; first: Date }[];
     for (const r of rows) {
-      const day = new Date(r.first).toLocaleDateString('en-GB', { day: 'numeric', month: 'short', year: 'numeric', timeZone: 'UTC' });
+      const day = formatDate(dayOf(new Date(r.first)));
       labels.set(r.version, r.version === current ? `today's prices (in use since ${day})` : `prices of ${day}`);
     }
   }
@@ -280,7 +277,7 @@ export async function repriceEstimate(sequelize: Sequelize, actorId: number, id:
     const catalog = loaded ?? (await loadCatalog(sequelize, { transaction }));
     if (samePricing(current, catalog, () => priced(current.input, catalog).result)) return { ...(await getEstimate(id, transaction)), changed: false };
     const before = { total: estimate.total, revision: estimate.revisionCount, catalogVersion: current.catalogVersion };
-    const today = new Date().toLocaleDateString('en-GB', { day: 'numeric', month: 'short', year: 'numeric', timeZone: 'UTC' });
+    const today = formatDate(workshopToday());
     await writeRevision(estimate, estimate.revisionCount + 1, current.input, catalog, actorId, `Repriced with prices of ${today}`, transaction);
     await audit({ userId: actorId, action: 'estimate.reprice', entityType: 'estimate', entityId: id, before, after: { total: estimate.total, revision: estimate.revisionCount, catalogVersion: catalog.catalog.version } }, transaction);
     return { ...(await getEstimate(id, transaction)), changed: true };

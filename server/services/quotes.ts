@@ -3,6 +3,8 @@
  * discount within the owner's cap, a validity date and a deposit. Sending makes the PDF, e-mails it through the
  * outbox with the customer's signed link, and moves the estimate along.
  */
+import { formatDate, formatMoney } from '@shared/format';
+import { currentYear, dayOf, daysFromToday, today } from '@shared/time';
 import { createHash, createHmac, randomBytes, timingSafeEqual } from 'node:crypto';
 import fs from 'node:fs/promises';
 import { Op, QueryTypes, type Sequelize, type Transaction, type WhereOptions } from 'sequelize';
@@ -49,7 +51,6 @@ type ListQuery = z.output<typeof QuoteListQuerySchema>;
 /** Estimate states from which a new quote may be made. */
 const QUOTABLE: readonly EstimateState[] = ['priced', 'quoted', 'viewed', 'expired', 'declined'];
 
-const today = () => new Date().toISOString().slice(0, 10);
 const iso = (d: Date | null) => (d ? d.toISOString() : null);
 
 // ------------------------------------------------------------------------------------------------ links
@@ -165,7 +166,7 @@ export async function pieceAgreement(pieceIds: readonly number[], transaction?: 
 export async function alreadyAgreed(found: { line: QuoteLine; quote: Quote }, ownEstimateIds: readonly number[], transaction?: Transaction): Promise<HttpProblem> {
   const { line, quote: agreed } = found;
   const [estimate, piece] = await Promise.all([Estimate.findByPk(line.estimateId, { transaction }), Piece.findByPk(line.pieceId, { transaction })]);
-  const on = agreed.acceptedAt ? ` on ${agreed.acceptedAt.toISOString().slice(0, 10)}` : '';
+  const on = agreed.acceptedAt ? ` on ${dayOf(agreed.acceptedAt)}` : '';
   if (ownEstimateIds.includes(line.estimateId)) {
     return new HttpProblem(409, 'estimate_already_agreed', 'Already agreed', `Quote ${agreed.number} for estimate ${estimate?.number ?? line.estimateId} was accepted${on}: no other quote for it can be sent or accepted.`);
   }
@@ -331,7 +332,7 @@ export async function expireQuotes(transaction?: Transaction): Promise<void> {
 
 async function nextNumber(sequelize: Sequelize, transaction: Transaction): Promise<string> {
   const [row] = await sequelize.query<{ n: string }>("SELECT nextval('quote_number_seq') AS n", { type: QueryTypes.SELECT, transaction });
-  return `Q-${new Date().getFullYear()}-${String(row!.n).padStart(4, '0')}`;
+  return `Q-${currentYear()}-${String(row!.n).padStart(4, '0')}`;
 }
 
 interface LineSpec {
@@ -428,7 +429,7 @@ export async function createQuote(sequelize: Sequelize, actor: { id: number; rol
       piecesSeen.set(x.estimate.pieceId, x.group);
     }
 
-    const validUntil = input.validUntil ?? new Date(Date.now() + settings.quoteValidityDays * 86_400_000).toISOString().slice(0, 10);
+    const validUntil = input.validUntil ?? daysFromToday(settings.quoteValidityDays, settings.timeZone);
     if (validUntil < today()) throw problems.badRequest('valid_until_past', 'validUntil: must be today or later', 'validUntil');
     const priced = specs.map((x) => ({ ...x, pricing: quotePricing(x.revision, x.discountPct, depositPct) }));
     if (new Set(priced.map((x) => x.pricing.currency)).size > 1) throw problems.badRequest('mixed_currency', 'lines: the estimates are priced in different currencies', 'lines');
@@ -506,10 +507,6 @@ export async function createQuote(sequelize: Sequelize, actor: { id: number; rol
   return getQuote(id);
 }
 
-function formatMoney(amount: string, currency: string): string {
-  return new Intl.NumberFormat('en-GB', { style: 'currency', currency }).format(Number(amount));
-}
-
 /**
  * Sends (or sends again) a quote: a new signed link (an earlier link stops working), the PDF, and an e-mail through
  * the outbox. The quote counts as sent only once the mail server has taken the message.
@@ -532,7 +529,7 @@ export async function sendQuote(sequelize: Sequelize, config: Config, actorId: n
     const { workshop } = await loadSettings(transaction);
     const pdf = await renderQuotePdf(await buildDocument(quote.id, config.uploadsDir, transaction));
     const url = quoteLink(config, link.token);
-    const validUntil = new Date(`${quote.validUntil}T12:00:00Z`).toLocaleDateString('en-GB', { day: 'numeric', month: 'long', year: 'numeric', timeZone: 'UTC' });
+    const validUntil = formatDate(quote.validUntil, { month: 'long' });
     const total = formatMoney(quote.total, quote.currency);
     const deposit = formatMoney(quote.deposit, quote.currency);
     const author = quote.createdBy ? await User.findByPk(quote.createdBy, { transaction }) : null;
