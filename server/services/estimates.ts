@@ -2,6 +2,7 @@
  * Estimates and their revisions. Every save recomputes with the shared engine against the current price list and
  * stores an immutable revision (inputs, price-list version and snapshot, results, cautions, who and when).
  */
+import { estimateStateSql } from './quote-expiry';
 import { formatDate } from '@shared/format';
 import { currentYear, dayOf, daysFromToday, today as workshopToday } from '@shared/time';
 import { Op, QueryTypes, type Sequelize, type Transaction } from 'sequelize';
@@ -127,7 +128,7 @@ interface RevisionRow {
  */
 export async function getEstimate(id: number, transaction?: Transaction): Promise<EstimateDetail> {
   const sequelize = Estimate.sequelize!;
-  const [e] = await sequelize.query<SummaryRow & { current_revision_id: number | null }>(`${SUMMARY_SELECT}, e.current_revision_id ${SUMMARY_FROM} WHERE e.id = :id`, {
+  const [e] = await sequelize.query<SummaryRow & { current_revision_id: number | null }>(`${SUMMARY_SELECT()}, e.current_revision_id ${SUMMARY_FROM} WHERE e.id = :id`, {
     replacements: { id },
     type: QueryTypes.SELECT,
     transaction,
@@ -378,14 +379,14 @@ export async function duplicateEstimate(sequelize: Sequelize, actorId: number, i
 const SORTS: Record<ListQuery['sort'], string> = {
   number: 'e.number',
   customer: 'c.name',
-  state: 'e.state',
+  state: 'state',
   labourHours: 'e.labour_hours',
   total: 'e.total',
   updatedAt: 'e.updated_at',
 };
 
 /** An estimate's list row: its columns and the names it shows, as SQL (see summaryFromRow). */
-const SUMMARY_SELECT = `SELECT e.id, e.number, e.title, e.state, e.labour_hours, e.total, e.currency, e.revision_count,
+const SUMMARY_SELECT = () => `SELECT e.id, e.number, e.title, ${estimateStateSql('e')} AS state, e.labour_hours, e.total, e.currency, e.revision_count,
        e.valid_until::text AS valid_until, e.archived, e.created_at, e.updated_at, c.id AS customer_id, c.name AS customer_name,
        p.id AS piece_id, p.description AS piece_description, p.kind AS piece_kind, u.id AS owner_id, u.name AS owner_name`;
 const SUMMARY_FROM = `FROM estimates e
@@ -445,7 +446,7 @@ export async function listEstimates(q: ListQuery): Promise<Page<EstimateSummary>
   const conditions = ['e.archived = :archived'];
   const replacements: Record<string, unknown> = { archived: q.archived === 'true', limit: q.pageSize, offset: offset(q.page, q.pageSize) };
   if (q.state) {
-    conditions.push('e.state = :state');
+    conditions.push(`${estimateStateSql('e')} = :state`);
     replacements.state = q.state;
   }
   if (q.customerId) {
@@ -470,7 +471,7 @@ export async function listEstimates(q: ListQuery): Promise<Page<EstimateSummary>
   // The capped count rides along in the same round trip (an uncorrelated sub-select PostgreSQL runs once).
   const countUpTo = `(SELECT count(*)::int FROM (SELECT 1 FROM estimates e WHERE ${where} LIMIT :countLimit) t)`;
   const rows = await sequelize.query<SummaryRow & { counted: number }>(
-    `${SUMMARY_SELECT}, ${countUpTo} AS counted ${SUMMARY_FROM}
+    `${SUMMARY_SELECT()}, ${countUpTo} AS counted ${SUMMARY_FROM}
       WHERE ${where}
       ORDER BY ${SORTS[q.sort]} ${direction(q.dir)}, e.id DESC
       LIMIT :limit OFFSET :offset`,

@@ -3,11 +3,13 @@
  * discount within the owner's cap, a validity date and a deposit. Sending makes the PDF, e-mails it through the
  * outbox with the customer's signed link, and moves the estimate along.
  */
+import { expireQuotes, quoteStateSql } from './quote-expiry';
+import { canMoveQuote, mirrorEstimate, moveQuote, quoteStateOn } from '@shared/schemas/state-moves';
 import { formatDate, formatMoney } from '@shared/format';
 import { currentYear, dayOf, daysFromToday, today } from '@shared/time';
 import { createHash, createHmac, randomBytes, timingSafeEqual } from 'node:crypto';
 import fs from 'node:fs/promises';
-import { Op, QueryTypes, type Sequelize, type Transaction, type WhereOptions } from 'sequelize';
+import { literal, Op, QueryTypes, type Sequelize, type Transaction, type WhereOptions } from 'sequelize';
 import type { z } from 'zod';
 import { CUSTOMER_VENTILATION_TEXT, customerCautions, estimate as runEstimate } from '@shared/calc';
 import { money, percentOf } from '@shared/money';
@@ -241,7 +243,7 @@ function summary(q: Quote, e: Estimate, c: Customer, revision: number): QuoteSum
   return {
     id: q.id,
     number: q.number,
-    state: q.state,
+    state: quoteStateOn(q.state, q.validUntil, today()),
     estimate: { id: e.id, number: e.number, title: e.title, revision },
     customer: { id: c.id, name: c.name, email: c.email },
     total: Number(q.total).toFixed(2),
@@ -288,7 +290,6 @@ export async function lineDtos(lines: readonly QuoteLine[], transaction?: Transa
 }
 
 export async function getQuote(id: number, transaction?: Transaction): Promise<QuoteDetail> {
-  await expireQuotes();
   await lapseCheckouts(id, transaction);
   const { quote: q, estimate, customer } = await load(id, transaction);
   const payments = await Payment.findAll({ where: { quoteId: id }, order: [['id', 'ASC']], transaction });
@@ -316,19 +317,8 @@ export async function getQuote(id: number, transaction?: Transaction): Promise<Q
 
 // ------------------------------------------------------------------------------------------ life cycle
 
-/** Quotes past their date that nobody answered become expired, and so do their estimates. */
-export async function expireQuotes(transaction?: Transaction): Promise<void> {
-  const sequelize = Quote.sequelize!;
-  await sequelize.query(
-    `WITH gone AS (
-       UPDATE quotes SET state = 'expired', updated_at = now()
-        WHERE state IN ('quoted', 'viewed') AND valid_until < current_date
-        RETURNING id)
-     UPDATE estimates SET state = 'expired', updated_at = now()
-      WHERE id IN (SELECT l.estimate_id FROM quote_lines l JOIN gone g ON g.id = l.quote_id) AND state IN ('quoted', 'viewed')`,
-    { transaction },
-  );
-}
+/** Written by writes and the app's sweep; reads compute it (quote-expiry.ts). */
+export { expireQuotes };
 
 async function nextNumber(sequelize: Sequelize, transaction: Transaction): Promise<string> {
   const [row] = await sequelize.query<{ n: string }>("SELECT nextval('quote_number_seq') AS n", { type: QueryTypes.SELECT, transaction });
@@ -599,11 +589,11 @@ export async function sendQuote(sequelize: Sequelize, config: Config, actorId: n
 export async function markSent(sequelize: Sequelize, id: number): Promise<void> {
   await sequelize.transaction(async (transaction) => {
     const { quote, estimates } = await lockQuote(id, transaction);
-    if (!['draft', 'quoted', 'viewed'].includes(quote.state)) return;
-    if (quote.state === 'draft') await quote.update({ state: 'quoted', sentAt: new Date() }, { transaction });
-    else await quote.update({ sentAt: new Date() }, { transaction });
+    if (!canMoveQuote(quote.state, 'send')) return;
+    await quote.update({ state: moveQuote(quote.state, 'send'), sentAt: new Date() }, { transaction });
     for (const estimate of estimates) {
-      if (['priced', 'expired', 'declined'].includes(estimate.state)) await estimate.update({ state: 'quoted' }, { transaction });
+      const state = mirrorEstimate(estimate.state, 'send');
+      if (state !== estimate.state) await estimate.update({ state }, { transaction });
     }
   });
 }
@@ -611,11 +601,11 @@ export async function markSent(sequelize: Sequelize, id: number): Promise<void> 
 export async function withdrawQuote(sequelize: Sequelize, actorId: number, id: number): Promise<QuoteDetail> {
   await sequelize.transaction(async (transaction) => {
     const { quote, estimates } = await lockQuote(id, transaction);
-    if (!['draft', 'quoted', 'viewed'].includes(quote.state)) throw problems.conflict('quote_closed', `Quote ${quote.number} is ${quote.state}.`);
-    await quote.update({ state: 'withdrawn', revoked: true }, { transaction });
+    if (!canMoveQuote(quoteStateOn(quote.state, quote.validUntil, today()), 'withdraw')) throw problems.conflict('quote_closed', `Quote ${quote.number} is ${quote.state}.`);
+    await quote.update({ state: moveQuote(quote.state, 'withdraw'), revoked: true }, { transaction });
     for (const estimate of estimates) {
-      const stillOpen = await openQuotesNaming(estimate.id, quote.id, transaction);
-      if (['quoted', 'viewed'].includes(estimate.state) && stillOpen === 0) await estimate.update({ state: 'priced' }, { transaction });
+      const state = mirrorEstimate(estimate.state, 'withdraw', { otherOpenQuotes: await openQuotesNaming(estimate.id, quote.id, transaction) });
+      if (state !== estimate.state) await estimate.update({ state }, { transaction });
     }
     await audit({ userId: actorId, action: 'quote.withdraw', entityType: 'quote', entityId: id }, transaction);
   });
@@ -637,16 +627,15 @@ export async function openQuotesNaming(estimateId: number, exceptQuoteId: number
 const SORTS: Record<ListQuery['sort'], unknown[]> = {
   number: ['number'],
   customer: [{ model: Estimate, as: 'estimate' }, 'title'],
-  state: ['state'],
+  state: [literal(quoteStateSql('"Quote"'))],
   total: ['total'],
   updatedAt: ['updatedAt'],
   validUntil: ['validUntil'],
 };
 
 export async function listQuotes(q: ListQuery): Promise<Page<QuoteSummary>> {
-  await expireQuotes();
   const where: WhereOptions<Quote> = {};
-  if (q.state) Object.assign(where, { state: q.state });
+  if (q.state) Object.assign(where, { [Op.and]: [Quote.sequelize!.where(Quote.sequelize!.literal(quoteStateSql('"Quote"')), q.state)] });
   if (q.estimateId) Object.assign(where, { estimateId: q.estimateId });
   if (q.q) {
     const like = containsPattern(q.q);
@@ -682,10 +671,9 @@ export async function listQuotes(q: ListQuery): Promise<Page<QuoteSummary>> {
 
 /** Quotes by state: how many, and their value (accepted totals where accepted). */
 export async function pipeline(sequelize: Sequelize): Promise<PipelineRow[]> {
-  await expireQuotes();
   const rows = await sequelize.query<{ state: QuoteState; currency: string; count: string; value: string }>(
-    `SELECT state, currency, count(*) AS count, coalesce(sum(coalesce(accepted_total, total)), 0)::numeric(14,2)::text AS value
-       FROM quotes WHERE state <> 'withdrawn' GROUP BY state, currency ORDER BY state, currency`,
+    `SELECT ${quoteStateSql()} AS state, currency, count(*) AS count, coalesce(sum(coalesce(accepted_total, total)), 0)::numeric(14,2)::text AS value
+       FROM quotes WHERE state <> 'withdrawn' GROUP BY 1, currency ORDER BY 1, currency`,
     { type: QueryTypes.SELECT },
   );
   return rows.map((r) => ({ state: r.state, currency: r.currency, count: Number(r.count), value: r.value }));
