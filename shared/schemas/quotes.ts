@@ -357,7 +357,8 @@ export const QuoteListQuerySchema = z.object({
   page: z.coerce.number().int().min(1).max(100_000).default(1),
   pageSize: z.coerce.number().int().min(1).max(100).default(25),
 });
-export type QuoteListQuery = z.input<typeof QuoteListQuerySchema>;
+export type QuoteListQueryInput = z.input<typeof QuoteListQuerySchema>;
+export type QuoteListQuery = z.output<typeof QuoteListQuerySchema>;
 
 export interface PipelineRow {
   state: QuoteState;
