@@ -76,6 +76,7 @@ export const CreateQuoteSchema = z
   })
   .strict();
 export type CreateQuoteInput = z.input<typeof CreateQuoteSchema>;
+export type CreateQuote = z.output<typeof CreateQuoteSchema>;
 
 export interface QuotePricing {
   lines: { code: string; label: string; amount: string }[];
