@@ -1,4 +1,5 @@
 import fs from 'node:fs';
+import { startExpirySweep } from './services/quote-expiry';
 import path from 'node:path';
 import express, { type Express, type RequestHandler } from 'express';
 import session from 'express-session';
@@ -154,11 +155,15 @@ export function createApp({ config, sequelize, databaseUrl, serveClient = true }
   }
   app.use(errorHandler);
 
+  // Quotes past their date are written as expired on a schedule (reads compute it): never by a GET.
+  const stopExpirySweep = startExpirySweep(sequelize);
+
   return {
     app,
     routes,
     caches,
     close: async () => {
+      await stopExpirySweep();
       await caches.close();
       await sessionPool.end();
     },

@@ -1,4 +1,5 @@
 import type { ErrorRequestHandler, RequestHandler, Response } from 'express';
+import { StateMoveError } from '@shared/schemas/state-moves';
 import { MulterError } from 'multer';
 import { ConnectionError, UniqueConstraintError } from 'sequelize';
 import { ZodError, type z } from 'zod';
@@ -122,6 +123,18 @@ function clientProblem(status: number, type: string | undefined, err: Error & { 
 }
 
 /** The last error handler: every error leaves as problem+json. */
+/** The events of the state table, as they read after "it cannot be". */
+const PAST: Record<StateMoveError['event'], string> = {
+  send: 'sent',
+  view: 'opened',
+  accept: 'accepted',
+  decline: 'declined',
+  withdraw: 'withdrawn',
+  expire: 'expired',
+  pay: 'paid',
+  superseded: 'withdrawn',
+};
+
 export const errorHandler: ErrorRequestHandler = (err: unknown, _req, res, next) => {
   if (res.headersSent) {
     next(err);
@@ -129,6 +142,7 @@ export const errorHandler: ErrorRequestHandler = (err: unknown, _req, res, next)
   }
   if (err instanceof HttpProblem) return sendProblem(res, err);
   if (err instanceof ZodError) return sendProblem(res, fromZod(err));
+  if (err instanceof StateMoveError) return sendProblem(res, problems.conflict('state_move_refused', `This quote is ${err.from}: it cannot be ${PAST[err.event]} now.`));
   if (err instanceof UniqueConstraintError) {
     const field = Object.keys(err.fields ?? {})[0];
     return sendProblem(res, new HttpProblem(409, 'already_exists', 'Already exists', `${field ?? 'a value'} is already in use`, field ? { field } : {}));

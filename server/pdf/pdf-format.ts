@@ -2,65 +2,20 @@
  * Formatting for the customer's PDF documents: money, dates, quantities with units, and text made safe for the
  * embedded Lora font (which lacks a few spaces and symbols).
  */
-import Decimal from 'decimal.js';
+import { formatDate as formatDay, formatMoney as formatAmount } from '@shared/format';
 
-const moneyFormats = new Map<string, Intl.NumberFormat>();
-
-function moneyFormat(currency: string): Intl.NumberFormat | null {
-  const code = currency.trim().toUpperCase();
-  let fmt = moneyFormats.get(code);
-  if (!fmt) {
-    try {
-      fmt = new Intl.NumberFormat('en-GB', { style: 'currency', currency: code });
-    } catch {
-      return null;
-    }
-    moneyFormats.set(code, fmt);
-  }
-  return fmt;
-}
+/** Numbers, hours, days and percentages read as on every other page (shared/format.ts). */
+export { formatDays, formatHours, formatNumber, formatPercent } from '@shared/format';
 
 /**
- * A decimal-string amount in its currency, exactly (no binary rounding).
+ * A decimal-string amount in its currency, exactly (no binary rounding), as shared/format.ts writes it; the minus is
+ * the hyphen, which the embedded font has.
  *
  * @example formatMoney('4994', 'GBP') // "£4,994.00"
  */
 export function formatMoney(amount: string, currency: string): string {
-  let value: Decimal;
-  try {
-    value = new Decimal(amount.trim());
-  } catch {
-    return `${amount} ${currency}`.trim();
-  }
-  if (!value.isFinite()) return `${amount} ${currency}`.trim();
-  const fmt = moneyFormat(currency);
-  if (!fmt) return `${value.toFixed(2)} ${currency}`.trim();
-  return fmt.format(value.toFixed() as `${number}`);
+  return formatAmount(amount, currency).replace(/\u2212/g, '-');
 }
-
-const numberFormat = new Intl.NumberFormat('en-GB', { maximumFractionDigits: 2 });
-
-/** @example formatNumber(1234.5) // "1,234.5" */
-export function formatNumber(value: number): string {
-  return Number.isFinite(value) ? numberFormat.format(value) : '–';
-}
-
-/** @example formatHours(46.5) // "46.5 h" */
-export function formatHours(hours: number): string {
-  return `${formatNumber(hours)} h`;
-}
-
-/** @example formatDays(1) // "1 day" */
-export function formatDays(days: number): string {
-  return `${formatNumber(days)} ${days === 1 ? 'day' : 'days'}`;
-}
-
-/** @example formatPercent(30) // "30%" */
-export function formatPercent(pct: number): string {
-  return `${formatNumber(pct)}%`;
-}
-
-const longDate = new Intl.DateTimeFormat('en-GB', { day: 'numeric', month: 'long', year: 'numeric', timeZone: 'UTC' });
 
 /**
  * A local 'YYYY-MM-DD' date in words; anything else is shown as given.
@@ -68,10 +23,7 @@ const longDate = new Intl.DateTimeFormat('en-GB', { day: 'numeric', month: 'long
  * @example formatDate('2027-03-12') // "12 March 2027"
  */
 export function formatDate(iso: string): string {
-  const m = /^(\d{4})-(\d{2})-(\d{2})$/.exec(iso.trim());
-  if (!m) return iso;
-  const t = Date.UTC(Number(m[1]), Number(m[2]) - 1, Number(m[3]));
-  return Number.isNaN(t) ? iso : longDate.format(t);
+  return /^\d{4}-\d{2}-\d{2}$/.test(iso.trim()) ? formatDay(iso.trim(), { month: 'long' }) : iso;
 }
 
 /** Characters Lora has no glyph for, and what to draw instead. */

@@ -8,10 +8,10 @@ import { secureRouter, type RouteInfo } from '../http/guard';
 import { parseOr400, problems } from '../http/problem';
 import { renderQuotePdf } from '../pdf/quote-pdf';
 import { renderAcceptancePdf } from '../pdf/acceptance-pdf';
-import { outboxDetail, outboxSummary, retryMessage } from '../services/mail';
+import { getOutboxMessage, listOutbox, outboxAttachment, retryOutboxMessage } from '../services/outbox';
 import { flaggedPayments, refundPayment } from '../services/payments';
-import { acceptanceRecordOf, buildDocument, createQuote, estimateDocument, getQuote, listQuotes, markSent, optionReport, pipeline, sendQuote, withdrawQuote } from '../services/quotes';
-import { OutboxMessage, Quote } from '../models';
+import { acceptanceRecordOf, buildDocument, createQuote, estimateDocument, getQuote, listQuotes, optionReport, pipeline, sendQuote, withdrawQuote } from '../services/quotes';
+import { Quote } from '../models';
 
 const IdParam = z.object({ id: IdSchema });
 const ALL = 'signed-in' as const;
@@ -74,37 +74,13 @@ export function quoteRoutes(config: Config, sequelize: Sequelize, table: RouteIn
   });
 
   const o = secureRouter('/api/outbox', table);
-  o.get('', 'sendQuotes', async (req, res) => {
-    const query = parseOr400(OutboxQuery, req.query);
-    const { rows, count } = await OutboxMessage.findAndCountAll({
-      where: query.status ? { status: query.status } : {},
-      attributes: { exclude: ['attachment', 'htmlBody', 'textBody'] },
-      order: [['createdAt', 'DESC'], ['id', 'DESC']],
-      limit: query.pageSize,
-      offset: (query.page - 1) * query.pageSize,
-    });
-    res.json({ rows: rows.map(outboxSummary), total: count, page: query.page, pageSize: query.pageSize });
-  });
-  o.get('/:id', 'sendQuotes', async (req, res) => {
-    const m = await OutboxMessage.findByPk(parseOr400(IdParam, req.params).id, { attributes: { exclude: ['attachment'] } });
-    if (!m) throw problems.notFound('Message');
-    res.json(outboxDetail(m));
-  });
+  o.get('', 'sendQuotes', async (req, res) => res.json(await listOutbox(parseOr400(OutboxQuery, req.query))));
+  o.get('/:id', 'sendQuotes', async (req, res) => res.json(await getOutboxMessage(parseOr400(IdParam, req.params).id)));
   o.get('/:id/attachment', 'sendQuotes', async (req, res) => {
-    const m = await OutboxMessage.findByPk(parseOr400(IdParam, req.params).id);
-    if (!m || !m.attachment) throw problems.notFound('Attachment');
-    pdfResponse(res, (m.attachmentName ?? 'attachment').replace(/\.pdf$/, ''), m.attachment);
+    const { name, pdf } = await outboxAttachment(parseOr400(IdParam, req.params).id);
+    pdfResponse(res, name, pdf);
   });
-  /**
-   * Tries a failed message again (only a failed one: 409 otherwise). A quote not yet sent becomes sent once its
-   * message goes; nothing else about the quote or its estimate changes.
-   */
-  o.post('/:id/retry', 'sendQuotes', async (req, res) => {
-    const m = await retryMessage(config, parseOr400(IdParam, req.params).id);
-    if (m.status === 'sent' && m.quoteId) await markSent(sequelize, m.quoteId);
-    const fresh = await OutboxMessage.findByPk(m.id, { attributes: { exclude: ['attachment'] } });
-    res.json(outboxDetail(fresh!));
-  });
+  o.post('/:id/retry', 'sendQuotes', async (req, res) => res.json(await retryOutboxMessage(sequelize, config, parseOr400(IdParam, req.params).id)));
 
   const p = secureRouter('/api/payments', table);
   /** Payments the owner should look at: paid twice, or a different amount from the deposit. */

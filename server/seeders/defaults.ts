@@ -7,6 +7,7 @@ import type { Sequelize, Transaction } from 'sequelize';
 import { DEFAULT_FACTORS, DEFAULT_SHELLAC, DEFAULT_SPECIES, DEFAULT_SYSTEMS } from '@shared/calc';
 import { DEMO_MATERIALS } from '@shared/calc/presets/demo-materials';
 import type { WorkshopSettings } from '@shared/schemas/workshop';
+import { DEFAULT_TIME_ZONE, today } from '@shared/time';
 import { FinishingSystem, LabourRate, Material, MaterialPack, PackPrice, Species, Workshop } from '../models';
 
 /** Settings of a new workshop (the owner reviews them on the settings page). */
@@ -39,6 +40,7 @@ export const DEFAULT_SETTINGS: WorkshopSettings = {
   dryingRoom: { mode: 'bays', bays: 3, rackAreaM2: 12, temperatureC: 20, humidityPct: 55 },
   quoteValidityDays: 30,
   paperSize: 'A4',
+  timeZone: DEFAULT_TIME_ZONE,
 };
 
 /** Inserts the preset species and systems whose keys are missing. */
@@ -66,12 +68,12 @@ async function presets(transaction: Transaction): Promise<number> {
 /** Materials the presets use, with their pack sizes; prices stay at zero until the owner enters them. */
 async function materials(transaction: Transaction): Promise<void> {
   if ((await Material.count({ transaction })) > 0) return;
-  const today = new Date().toISOString().slice(0, 10);
+  const effectiveFrom = today();
   for (const m of DEMO_MATERIALS) {
     const material = await Material.create({ key: m.key, name: m.name, kind: m.kind, unit: m.unit }, { transaction });
     for (const p of m.packs) {
       const pack = await MaterialPack.create({ materialId: material.id, size: p.size, label: p.label ?? '', supplierCode: null }, { transaction });
-      await PackPrice.create({ packId: pack.id, price: '0', effectiveFrom: today, userId: null, source: 'default' }, { transaction });
+      await PackPrice.create({ packId: pack.id, price: '0', effectiveFrom, userId: null, source: 'default' }, { transaction });
     }
   }
 }

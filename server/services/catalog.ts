@@ -6,6 +6,7 @@ import { createHash } from 'node:crypto';
 import { QueryTypes, type Sequelize, type Transaction } from 'sequelize';
 import { CatalogSchema, type Catalog, type Material as CatalogMaterial } from '@shared/schemas/catalog';
 import { WorkshopSettingsSchema, type WorkshopSettings } from '@shared/schemas/workshop';
+import { DEFAULT_TIME_ZONE, setWorkshopTimeZone, today } from '@shared/time';
 import { HttpProblem, problems } from '../http/problem';
 import { FinishingSystem, LabourRate, Material, Species, Workshop } from '../models';
 import type { SharedCaches } from './shared-caches';
@@ -43,6 +44,7 @@ export async function loadSettings(transaction?: Transaction): Promise<{ worksho
     const issue = parsed.error.issues[0]!;
     throw new HttpProblem(500, 'settings_invalid', 'Workshop settings unreadable', `Stored setting ${issue.path.join('.')} is invalid: ${issue.message}`);
   }
+  setWorkshopTimeZone(parsed.data.timeZone ?? DEFAULT_TIME_ZONE);
   return { workshop, settings: parsed.data };
 }
 
@@ -80,7 +82,7 @@ const recent = new Map<string, LoadedCatalog>();
  * list changes); otherwise a fingerprint query says whether a recently built one still holds.
  */
 export async function loadCatalog(sequelize: Sequelize, opts: { onDate?: string; transaction?: Transaction; cache?: SharedCaches } = {}): Promise<LoadedCatalog> {
-  const onDate = opts.onDate ?? new Date().toISOString().slice(0, 10);
+  const onDate = opts.onDate ?? today();
   if (opts.cache && !opts.transaction) return opts.cache.catalog(onDate, () => loadCatalog(sequelize, { onDate }));
   const key = `${onDate}|${await catalogStamp(sequelize, opts.transaction)}`;
   const hit = recent.get(key);

@@ -2,6 +2,9 @@
  * Estimates and their revisions. Every save recomputes with the shared engine against the current price list and
  * stores an immutable revision (inputs, price-list version and snapshot, results, cautions, who and when).
  */
+import { estimateStateSql } from './quote-expiry';
+import { formatDate } from '@shared/format';
+import { currentYear, dayOf, daysFromToday, today as workshopToday } from '@shared/time';
 import { Op, QueryTypes, type Sequelize, type Transaction } from 'sequelize';
 import { validationSentence } from '@shared/schemas/error-map';
 import type { z } from 'zod';
@@ -62,14 +65,9 @@ function underInput<T>(fn: () => T): T {
   }
 }
 
-function addDays(date: Date, days: number): string {
-  const d = new Date(date.getTime() + days * 86_400_000);
-  return d.toISOString().slice(0, 10);
-}
-
 async function nextNumber(sequelize: Sequelize, transaction: Transaction): Promise<string> {
   const [row] = await sequelize.query<{ n: string }>("SELECT nextval('estimate_number_seq') AS n", { type: QueryTypes.SELECT, transaction });
-  return `EST-${new Date().getFullYear()}-${String(row!.n).padStart(4, '0')}`;
+  return `EST-${currentYear()}-${String(row!.n).padStart(4, '0')}`;
 }
 
 function priced(rawInput: unknown, loaded: LoadedCatalog) {
@@ -130,7 +128,7 @@ interface RevisionRow {
  */
 export async function getEstimate(id: number, transaction?: Transaction): Promise<EstimateDetail> {
   const sequelize = Estimate.sequelize!;
-  const [e] = await sequelize.query<SummaryRow & { current_revision_id: number | null }>(`${SUMMARY_SELECT}, e.current_revision_id ${SUMMARY_FROM} WHERE e.id = :id`, {
+  const [e] = await sequelize.query<SummaryRow & { current_revision_id: number | null }>(`${SUMMARY_SELECT()}, e.current_revision_id ${SUMMARY_FROM} WHERE e.id = :id`, {
     replacements: { id },
     type: QueryTypes.SELECT,
     transaction,
@@ -187,7 +185,7 @@ export async function createEstimate(sequelize: Sequelize, actorId: number, body
         pieceId: piece.id,
         ownerId: actorId,
         title: body.title || piece.description,
-        validUntil: addDays(new Date(), loaded.settings.quoteValidityDays),
+        validUntil: daysFromToday(loaded.settings.quoteValidityDays, loaded.settings.timeZone),
         currentRevisionId: null,
         currency: loaded.settings.pricing.currency,
       },
@@ -260,7 +258,7 @@ export async function priceListLabels(versions: string[], current?: string, tran
       { replacements: { versions: unique }, type: QueryTypes.SELECT, transaction },
     )) as { version: string; first: Date }[];
     for (const r of rows) {
-      const day = new Date(r.first).toLocaleDateString('en-GB', { day: 'numeric', month: 'short', year: 'numeric', timeZone: 'UTC' });
+      const day = formatDate(dayOf(new Date(r.first)));
       labels.set(r.version, r.version === current ? `today's prices (in use since ${day})` : `prices of ${day}`);
     }
   }
@@ -280,7 +278,7 @@ export async function repriceEstimate(sequelize: Sequelize, actorId: number, id:
     const catalog = loaded ?? (await loadCatalog(sequelize, { transaction }));
     if (samePricing(current, catalog, () => priced(current.input, catalog).result)) return { ...(await getEstimate(id, transaction)), changed: false };
     const before = { total: estimate.total, revision: estimate.revisionCount, catalogVersion: current.catalogVersion };
-    const today = new Date().toLocaleDateString('en-GB', { day: 'numeric', month: 'short', year: 'numeric', timeZone: 'UTC' });
+    const today = formatDate(workshopToday());
     await writeRevision(estimate, estimate.revisionCount + 1, current.input, catalog, actorId, `Repriced with prices of ${today}`, transaction);
     await audit({ userId: actorId, action: 'estimate.reprice', entityType: 'estimate', entityId: id, before, after: { total: estimate.total, revision: estimate.revisionCount, catalogVersion: catalog.catalog.version } }, transaction);
     return { ...(await getEstimate(id, transaction)), changed: true };
@@ -381,14 +379,14 @@ export async function duplicateEstimate(sequelize: Sequelize, actorId: number, i
 const SORTS: Record<ListQuery['sort'], string> = {
   number: 'e.number',
   customer: 'c.name',
-  state: 'e.state',
+  state: 'state',
   labourHours: 'e.labour_hours',
   total: 'e.total',
   updatedAt: 'e.updated_at',
 };
 
 /** An estimate's list row: its columns and the names it shows, as SQL (see summaryFromRow). */
-const SUMMARY_SELECT = `SELECT e.id, e.number, e.title, e.state, e.labour_hours, e.total, e.currency, e.revision_count,
+const SUMMARY_SELECT = () => `SELECT e.id, e.number, e.title, ${estimateStateSql('e')} AS state, e.labour_hours, e.total, e.currency, e.revision_count,
        e.valid_until::text AS valid_until, e.archived, e.created_at, e.updated_at, c.id AS customer_id, c.name AS customer_name,
        p.id AS piece_id, p.description AS piece_description, p.kind AS piece_kind, u.id AS owner_id, u.name AS owner_name`;
 const SUMMARY_FROM = `FROM estimates e
@@ -448,7 +446,7 @@ export async function listEstimates(q: ListQuery): Promise<Page<EstimateSummary>
   const conditions = ['e.archived = :archived'];
   const replacements: Record<string, unknown> = { archived: q.archived === 'true', limit: q.pageSize, offset: offset(q.page, q.pageSize) };
   if (q.state) {
-    conditions.push('e.state = :state');
+    conditions.push(`${estimateStateSql('e')} = :state`);
     replacements.state = q.state;
   }
   if (q.customerId) {
@@ -473,7 +471,7 @@ export async function listEstimates(q: ListQuery): Promise<Page<EstimateSummary>
   // The capped count rides along in the same round trip (an uncorrelated sub-select PostgreSQL runs once).
   const countUpTo = `(SELECT count(*)::int FROM (SELECT 1 FROM estimates e WHERE ${where} LIMIT :countLimit) t)`;
   const rows = await sequelize.query<SummaryRow & { counted: number }>(
-    `${SUMMARY_SELECT}, ${countUpTo} AS counted ${SUMMARY_FROM}
+    `${SUMMARY_SELECT()}, ${countUpTo} AS counted ${SUMMARY_FROM}
       WHERE ${where}
       ORDER BY ${SORTS[q.sort]} ${direction(q.dir)}, e.id DESC
       LIMIT :limit OFFSET :offset`,

@@ -5,6 +5,7 @@
  * the deposit) is recorded and flagged, never counted; one that arrives for an already paid deposit is refunded
  * through the SDK. The database keeps the rules too: one pending checkout per quote, one counted deposit per quote.
  */
+import { mirrorEstimate, moveQuote } from '@shared/schemas/state-moves';
 import Stripe from 'stripe';
 import { Op, UniqueConstraintError, type Sequelize, type Transaction } from 'sequelize';
 import { money } from '@shared/money';
@@ -196,10 +197,10 @@ async function completed(session: Stripe.Checkout.Session, transaction: Transact
     return { handled: true, flag, ...(flag === 'amount-mismatch' ? {} : { refund: payment.id }) };
   }
   await payment.update({ ...base, flag: null, note: null }, { transaction });
-  await quote.update({ state: 'deposit-paid', depositPaidAt: new Date() }, { transaction });
+  await quote.update({ state: moveQuote(quote.state, 'pay'), depositPaidAt: new Date() }, { transaction });
   // The estimates of the lines the customer chose (a quote of one piece: its estimate).
   const chosen = await QuoteLine.findAll({ where: { quoteId: quote.id, chosen: true }, attributes: ['estimateId'], transaction });
-  await Estimate.update({ state: 'deposit-paid' }, { where: { id: chosen.length ? chosen.map((l) => l.estimateId) : [quote.estimateId] }, transaction });
+  await Estimate.update({ state: mirrorEstimate('accepted', 'pay') }, { where: { id: chosen.length ? chosen.map((l) => l.estimateId) : [quote.estimateId] }, transaction });
   await audit({ userId: null, action: 'quote.deposit_paid', entityType: 'quote', entityId: quote.id, after: { amountMinor: received, session: session.id } }, transaction);
   return { handled: true };
 }

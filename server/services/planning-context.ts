@@ -20,19 +20,11 @@ export async function lockBoard(transaction: Transaction): Promise<void> {
   await Job.sequelize!.query('SELECT pg_advisory_xact_lock(:key)', { replacements: { key: BOARD_LOCK }, transaction });
 }
 
-function pad(n: number): string {
-  return String(n).padStart(2, '0');
-}
-
-/** The server's local date and time as "YYYY-MM-DDTHH:MM" (board times carry no time zone). */
-export function localNow(d = new Date()): string {
-  return `${d.getFullYear()}-${pad(d.getMonth() + 1)}-${pad(d.getDate())}T${pad(d.getHours())}:${pad(d.getMinutes())}`;
-}
-
-/** A local date moved by whole days. */
-export function addDays(date: string, days: number): string {
-  return fromMinutes(toMinutes(date.slice(0, 10)) + days * 1440).slice(0, 10);
-}
+/**
+ * The workshop's wall clock as "YYYY-MM-DDTHH:MM" (board times carry no time zone), and calendar arithmetic: both
+ * from the one time module, in the workshop's zone as the settings last read it.
+ */
+export { addDays, nowLocal as localNow } from '@shared/time';
 
 export interface Planning {
   ctx: PlanningContext;

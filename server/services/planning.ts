@@ -4,6 +4,7 @@
  * only on confirmation); progress marks sessions done with actual hours, and a slip moves the rest of the job.
  * Every write that takes or frees places runs in one transaction under the board lock, and re-checks there.
  */
+import { mondayOf } from '@shared/time';
 import { Op, QueryTypes, type Sequelize, type Transaction } from 'sequelize';
 import { CalendarError, fromMinutes, toMinutes } from '@shared/calc';
 import { bookAt, findEarliestStart, occupancy, PlanningError, shiftRemaining, type JobPlan, type WhyNot } from '@shared/calc/planning';
@@ -612,19 +613,12 @@ export async function markSessionDone(sequelize: Sequelize, actorId: number, job
 
 // ------------------------------------------------------------------------------------------------ board
 
-/** Monday of the week holding a local date. */
-function mondayOf(date: string): string {
-  const day = Math.floor(toMinutes(date) / 1440);
-  const weekday = (((day + 3) % 7) + 7) % 7;
-  return addDays(date, -weekday);
-}
-
 export async function getBoard(q: { from?: string; weeks: number }): Promise<PlanningBoard> {
-  const now = localNow();
+  const planning = await loadPlanning(undefined, false);
+  const now = localNow(planning.settings.timeZone);
   const today = now.slice(0, 10);
   const from = q.from ?? mondayOf(today);
   const to = addDays(from, q.weeks * 7 - 1);
-  const planning = await loadPlanning(undefined, false);
   const { jobs, sessions, booked } = await loadBoardJobs(from < today ? from : today);
   const days = occupancy(booked, planning.ctx, from, to);
   const end = addDays(to, 1);

@@ -22,16 +22,15 @@ import type {
   UpdatePackInput,
 } from '@shared/schemas/price-list';
 import type { z } from 'zod';
+import { today } from '@shared/time';
 import { problems } from '../http/problem';
 import { FinishingSystem, Material, MaterialPack, PackPrice } from '../models';
 import { audit } from './audit';
 import { withCatalogVersionChange } from './catalog-version';
 import { loadSettings } from './catalog';
 
-/** Today as the price list reads it (UTC date, as loadCatalog does). */
-export function today(): string {
-  return new Date().toISOString().slice(0, 10);
-}
+/** Today as the price list reads it: the workshop's day (shared/time.ts), as loadCatalog does. */
+export { today };
 
 /** A NUMERIC price as shown: at least two decimals, no trailing zeros beyond them ("11.4000" → "11.40"). */
 export function showPrice(value: string | number | Decimal): string {

@@ -2,6 +2,9 @@
  * What the customer can do through their signed link, without an account: read the quote, download the PDF,
  * accept (typed name, terms ticked; time and address kept) or decline, and pay the deposit.
  */
+import { mirrorEstimate, moveQuote, QUOTE_MOVES, quoteStateOn } from '@shared/schemas/state-moves';
+import { today } from '@shared/time';
+import type { QuoteState } from '@shared/schemas/quotes';
 import { Op, UniqueConstraintError, type Sequelize, type Transaction } from 'sequelize';
 import type { z } from 'zod';
 import { customerCautions } from '@shared/calc';
@@ -38,7 +41,6 @@ const linkInvalid = () => new HttpProblem(404, 'link_invalid', 'Link not valid',
 /** Finds the quote a link opens; a tampered or unknown token is a 404 that says so. */
 async function byToken(config: Config, token: string, transaction?: Transaction): Promise<Quote> {
   if (!tokenSigned(token, config.linkSecret)) throw linkInvalid();
-  await expireQuotes(transaction);
   const quote = await Quote.findOne({ where: { tokenHash: hashToken(token) }, transaction });
   if (!quote || quote.state === 'draft') throw linkInvalid();
   return quote;
@@ -46,6 +48,8 @@ async function byToken(config: Config, token: string, transaction?: Transaction)
 
 /** The link's quote locked for an answer, its estimate locked first (see lockQuote). */
 async function lockByToken(config: Config, token: string, transaction: Transaction): Promise<Awaited<ReturnType<typeof lockQuote>>> {
+  // An answer is a write: the quotes that ran out are written down first, so that it meets them expired.
+  await expireQuotes(transaction);
   const found = await byToken(config, token, transaction);
   const locked = await lockQuote(found.id, transaction);
   if (locked.quote.tokenHash !== hashToken(token)) throw linkInvalid();
@@ -53,9 +57,10 @@ async function lockByToken(config: Config, token: string, transaction: Transacti
 }
 
 function closedReason(q: Quote): PublicQuote['closed'] {
-  if (q.state === 'withdrawn' || q.revoked) return 'withdrawn';
-  if (q.state === 'expired') return 'expired';
-  if (q.state === 'accepted' || q.state === 'declined' || q.state === 'deposit-paid') return q.state;
+  const state = quoteStateOn(q.state, q.validUntil, today());
+  if (state === 'withdrawn' || q.revoked) return 'withdrawn';
+  if (state === 'expired') return 'expired';
+  if (state === 'accepted' || state === 'declined' || state === 'deposit-paid') return state;
   return null;
 }
 
@@ -74,10 +79,10 @@ function closedProblem(q: Quote): HttpProblem {
 export async function viewQuote(config: Config, token: string): Promise<PublicQuote> {
   const found = await byToken(config, token);
   await lapseCheckouts(found.id);
-  if (found.state === 'quoted' && !found.revoked) {
+  if (quoteStateOn(found.state, found.validUntil, today()) === 'quoted' && !found.revoked) {
     // Conditional, so that an answer given meanwhile is never overwritten by "viewed".
-    const [n] = await Quote.update({ state: 'viewed', viewedAt: new Date() }, { where: { id: found.id, state: 'quoted', revoked: false } });
-    if (n > 0) await Estimate.update({ state: 'viewed' }, { where: { id: found.estimateId, state: 'quoted' } });
+    const [n] = await Quote.update({ state: moveQuote('quoted', 'view'), viewedAt: new Date() }, { where: { id: found.id, state: 'quoted', revoked: false } });
+    if (n > 0) await Estimate.update({ state: mirrorEstimate('quoted', 'view') }, { where: { id: found.estimateId, state: 'quoted' } });
   }
   const quote = (await Quote.findByPk(found.id))!;
   const estimate = (await Estimate.findByPk(quote.estimateId))!;
@@ -103,7 +108,7 @@ export async function viewQuote(config: Config, token: string): Promise<PublicQu
     lines: lines.map(({ hoursExact: _, ...l }) => l),
     recommended: lines.filter((l) => l.recommended).map((l) => l.id),
     number: quote.number,
-    state: quote.state,
+    state: quoteStateOn(quote.state, quote.validUntil, today()),
     closed: closedReason(quote),
     workshop: { name: workshop!.name, email: workshop!.email, phone: workshop!.phone, address: workshop!.address },
     customerName: customer!.name,
@@ -212,7 +217,7 @@ export async function acceptQuote(sequelize: Sequelize, config: Config, token: s
       const extras = quote.extras.filter((x) => input.extras.includes(x.id)).map((x) => x.id);
       const amounts = choiceFigures({ lines: choice, depositPct: Number(quote.depositPct), extras: quote.extras }, chosenIds, extras);
       await quote.update(
-        { state: 'accepted', acceptedAt: new Date(), acceptedName: input.name, acceptedIp: ip, acceptedExtras: extras, acceptedTotal: amounts.total, acceptedDeposit: amounts.deposit },
+        { state: moveQuote(quote.state, 'accept'), acceptedAt: new Date(), acceptedName: input.name, acceptedIp: ip, acceptedExtras: extras, acceptedTotal: amounts.total, acceptedDeposit: amounts.deposit },
         { transaction },
       );
       for (const l of lines) {
@@ -225,15 +230,14 @@ export async function acceptQuote(sequelize: Sequelize, config: Config, token: s
         ? await QuoteLine.findAll({ where: { pieceId: { [Op.in]: pieces }, quoteId: { [Op.ne]: quote.id } }, attributes: ['quoteId'], transaction })
         : [];
       const [, withdrawn] = await Quote.update(
-        { state: 'withdrawn', revoked: true },
-        { where: { id: { [Op.in]: [...new Set(others.map((o) => o.quoteId))] }, state: { [Op.in]: ['draft', 'quoted', 'viewed'] } }, transaction, returning: ['id', 'number'] },
+        { state: QUOTE_MOVES.superseded.to as QuoteState, revoked: true },
+        { where: { id: { [Op.in]: [...new Set(others.map((o) => o.quoteId))] }, state: { [Op.in]: [...QUOTE_MOVES.superseded.from] } }, transaction, returning: ['id', 'number'] },
       );
       for (const estimate of estimates) {
-        if (chosen.some((l) => l.estimateId === estimate.id)) await estimate.update({ state: 'accepted' }, { transaction });
-        else if (['quoted', 'viewed'].includes(estimate.state) && (await openQuotesNaming(estimate.id, quote.id, transaction)) === 0) {
-          // An option not taken, with no other quote open for it.
-          await estimate.update({ state: 'declined' }, { transaction });
-        }
+        const taken = chosen.some((l) => l.estimateId === estimate.id);
+        const otherOpenQuotes = taken || !['quoted', 'viewed'].includes(estimate.state) ? 0 : await openQuotesNaming(estimate.id, quote.id, transaction);
+        const state = mirrorEstimate(estimate.state, 'accept', { chosen: taken, otherOpenQuotes });
+        if (state !== estimate.state) await estimate.update({ state }, { transaction });
       }
       await audit(
         {
@@ -263,10 +267,10 @@ export async function declineQuote(sequelize: Sequelize, config: Config, token: 
   await sequelize.transaction(async (transaction) => {
     const { quote, estimates } = await lockByToken(config, token, transaction);
     if (closedReason(quote)) throw closedProblem(quote);
-    await quote.update({ state: 'declined', declinedAt: new Date(), declineReason: reason || null }, { transaction });
-    // An estimate is declined only when no other quote naming it is still open.
+    await quote.update({ state: moveQuote(quote.state, 'decline'), declinedAt: new Date(), declineReason: reason || null }, { transaction });
     for (const estimate of estimates) {
-      if ((await openQuotesNaming(estimate.id, quote.id, transaction)) === 0) await estimate.update({ state: 'declined' }, { transaction });
+      const state = mirrorEstimate(estimate.state, 'decline', { otherOpenQuotes: await openQuotesNaming(estimate.id, quote.id, transaction) });
+      if (state !== estimate.state) await estimate.update({ state }, { transaction });
     }
     await audit({ userId: null, action: 'quote.decline', entityType: 'quote', entityId: quote.id, after: { reason, ip } }, transaction);
   });

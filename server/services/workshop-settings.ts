@@ -3,6 +3,7 @@
  * labour rates. Cross-checks that only the database can make (a rate or material that must exist) answer 400
  * naming the field, like the schema's own checks.
  */
+import { isRealDate } from '@shared/schemas/dates';
 import { Op, type Sequelize } from 'sequelize';
 import { validationSentence } from '@shared/schemas/error-map';
 import type { Workshop as WorkshopDto } from '@shared/schemas/workshop';
@@ -59,8 +60,7 @@ export async function updateWorkshop(sequelize: Sequelize, actorId: number, inpu
     days.set(d.day, i);
   });
   s.calendar.closedDates.forEach((date, i) => {
-    const d = new Date(`${date}T00:00:00Z`);
-    if (Number.isNaN(d.getTime()) || d.toISOString().slice(0, 10) !== date) errors.push({ field: `settings.calendar.closedDates.${i}`, message: 'is not a real date' });
+    if (!isRealDate(date)) errors.push({ field: `settings.calendar.closedDates.${i}`, message: 'is not a real date' });
   });
   const rate = await LabourRate.findOne({ where: { key: s.pricing.polisherRate } });
   if (!rate) errors.push({ field: 'settings.pricing.polisherRate', message: `must be one of the labour rates (no rate "${s.pricing.polisherRate}")` });

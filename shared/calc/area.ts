@@ -5,7 +5,7 @@
 import { MAX_LENGTH_MM, parseLength } from '../units';
 import type { LengthUnit } from '../units';
 import type { Complexity } from '../schemas/catalog';
-import type { CutOutInput, Part, ShapeInput } from '../schemas/calc';
+import type { ParsedCutOut, Part, ShapeInput } from '../schemas/calc';
 
 /** A point in millimetres. */
 export type Point = readonly [number, number];
@@ -258,7 +258,7 @@ export function resolveShape(shape: ShapeInput, unit: LengthUnit): Shape {
   }
 }
 
-function resolveCutOut(cut: CutOutInput, unit: LengthUnit): CutOut {
+function resolveCutOut(cut: ParsedCutOut, unit: LengthUnit): CutOut {
   const { count, ...shape } = cut;
   return { ...(resolveShape(shape, unit) as Extract<Shape, { kind: CutOut['kind'] }>), count };
 }

@@ -11,6 +11,7 @@ import type {
 import { UnitParseError, formatArea, formatMass, formatVolume } from '../units';
 import type { LengthUnit } from '../units';
 import { formatAmount, money, sumMoney } from '../money';
+import { today as workshopToday } from '../time';
 import type { Money } from '../money';
 import { partArea, resolvePart } from './area';
 import type { PartArea, ResolvedPart } from './area';
@@ -268,11 +269,6 @@ function sumCharged(charges: ReadonlyArray<Money | bigint>): Money {
   return money(formatCents(cents));
 }
 
-function todayLocal(): string {
-  const d = new Date();
-  const pad = (n: number): string => String(n).padStart(2, '0');
-  return `${d.getFullYear()}-${pad(d.getMonth() + 1)}-${pad(d.getDate())}`;
-}
 
 /**
  * Estimates a French-polishing job. Validates the input (throws a ZodError whose issues name the field),
@@ -367,7 +363,7 @@ export function estimate(rawInput: EstimateInput, catalog: Catalog, options: Est
       requests.push({ stage: w.stage.key, stageKind: w.stage.kind, session: s, handsOnMin: w.labourMin / w.stage.sessions, restMin: w.stage.restHours * 60 * factor });
     }
   }
-  const startText = input.startDate ?? options.today ?? todayLocal();
+  const startText = input.startDate ?? options.today ?? workshopToday();
   const startDay = toMinutes(startText.slice(0, 10));
   let scheduled: ScheduledSession[];
   try {

@@ -30,7 +30,7 @@ export const LoginSchema = z.object({
   email: z.string({ message: 'is required' }).trim().min(1, { message: 'is required' }).max(254),
   password: z.string({ message: 'is required' }).min(1, { message: 'is required' }).max(200),
 });
-export type LoginInput = z.infer<typeof LoginSchema>;
+export type LoginInput = z.input<typeof LoginSchema>;
 
 export const UserSchema = z.object({
   id: z.number().int(),
@@ -51,7 +51,7 @@ export const CreateUserSchema = z
     password: PasswordSchema,
   })
   .strict();
-export type CreateUserInput = z.infer<typeof CreateUserSchema>;
+export type CreateUserInput = z.input<typeof CreateUserSchema>;
 
 export const UpdateUserSchema = z
   .object({
@@ -60,7 +60,7 @@ export const UpdateUserSchema = z
     active: z.boolean().optional(),
   })
   .strict();
-export type UpdateUserInput = z.infer<typeof UpdateUserSchema>;
+export type UpdateUserInput = z.input<typeof UpdateUserSchema>;
 
 export const ResetPasswordSchema = z.object({ password: PasswordSchema }).strict();
 

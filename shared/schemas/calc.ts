@@ -31,7 +31,7 @@ export const LengthSchema = z.union([
   z.number({ error: 'must be a length: a number or text such as "190 cm"' }).positive({ message: 'must be more than zero' }).max(100_000, { message: 'is longer than 100 m' }),
   z.string().min(1, { message: 'must not be empty' }).max(64, { message: 'is too long to be a length' }),
 ], { error: 'must be a length: a number or text such as "190 cm"' });
-export type LengthInput = z.infer<typeof LengthSchema>;
+export type LengthInput = z.input<typeof LengthSchema>;
 
 /** A coordinate of a polygon point: a length that may be zero. */
 export const CoordinateSchema = z.union([
@@ -56,7 +56,7 @@ const EdgeStripSchema = z.object({ kind: z.literal('edge-strip'), length: Length
 export const ShapeSchema = z.discriminatedUnion('kind', [
   RectangleSchema, TrapezoidSchema, CircleSchema, EllipseSchema, PolygonSchema, BandSchema, TurnedLegSchema, TaperedLegSchema, EdgeStripSchema,
 ]);
-export type ShapeInput = z.infer<typeof ShapeSchema>;
+export type ShapeInput = z.input<typeof ShapeSchema>;
 export type ShapeKind = ShapeInput['kind'];
 
 /** Shapes a cut-out may take, with how many such openings there are per face. */
@@ -66,7 +66,9 @@ export const CutOutSchema = z.discriminatedUnion('kind', [
   EllipseSchema.extend({ count: z.number().int().min(1).max(1000).default(1) }),
   PolygonSchema.extend({ count: z.number().int().min(1).max(1000).default(1) }),
 ]);
-export type CutOutInput = z.infer<typeof CutOutSchema>;
+export type CutOutInput = z.input<typeof CutOutSchema>;
+/** Parsed (count filled in); `CutOut` is the engine's resolved opening (shared/calc/area.ts). */
+export type ParsedCutOut = z.output<typeof CutOutSchema>;
 
 /** One part of a piece, as the finisher measures it. */
 export const PartSchema = z.object({
@@ -94,8 +96,11 @@ const PartsListSchema = z
   .min(1, { message: 'needs at least one part' })
   .max(MAX_PARTS, { message: `has more than ${MAX_PARTS} parts` });
 
-/** The piece: a template with its dimensions, or an explicit parts list. */
-export const PieceSchema = z
+/**
+ * The case geometry: the measured shape the estimator works on (a template with its dimensions, or an explicit parts
+ * list). Sent as `piece` in an estimate's input; "piece" alone means the customer's instrument (customers.ts).
+ */
+export const CaseGeometrySchema = z
   .object({
     template: z.enum(TEMPLATE_KEYS as [TemplateKey, ...TemplateKey[]]).optional(),
     dimensions: z.record(z.string(), LengthSchema).default({}),
@@ -121,6 +126,9 @@ export const PieceSchema = z
       }
     }
   });
+
+export type CaseGeometryInput = z.input<typeof CaseGeometrySchema>;
+export type CaseGeometry = z.output<typeof CaseGeometrySchema>;
 
 /** Workshop climate during the job. */
 export const ClimateSchema = z.object({
@@ -170,7 +178,7 @@ function lengthsOf(input: {
 /** What the estimator is asked to price. Only the piece is required; everything else has a default. */
 export const EstimateInputSchema = z
   .object({
-    piece: PieceSchema.optional(),
+    piece: CaseGeometrySchema.optional(),
     /** A parts list given at the top level instead of inside piece. */
     parts: PartsListSchema.optional(),
     system: z.string().regex(/^[a-z0-9][a-z0-9-]{0,63}$/, { message: 'must be a finishing-system key like "full-repolish"' }).default('full-repolish'),

@@ -59,7 +59,8 @@ export const CustomerListQuerySchema = z.object({
   page,
   pageSize,
 });
-export type CustomerListQuery = z.input<typeof CustomerListQuerySchema>;
+export type CustomerListQueryInput = z.input<typeof CustomerListQuerySchema>;
+export type CustomerListQuery = z.output<typeof CustomerListQuerySchema>;
 
 /** Kinds of piece a workshop polishes. */
 export const PIECE_KINDS = ['grand', 'upright', 'square', 'furniture'] as const;
@@ -136,7 +137,8 @@ export const PieceListQuerySchema = z.object({
   page,
   pageSize,
 });
-export type PieceListQuery = z.input<typeof PieceListQuerySchema>;
+export type PieceListQueryInput = z.input<typeof PieceListQuerySchema>;
+export type PieceListQuery = z.output<typeof PieceListQuerySchema>;
 
 export const PhotoCaptionSchema = z.object({ caption: z.string().trim().max(300) }).strict();
 

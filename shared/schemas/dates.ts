@@ -2,9 +2,10 @@
  * The one date schema: every date a client sends (API bodies and queries, the supplier price file) is checked here.
  * A date is YYYY-MM-DD naming a real calendar day (no 2026-02-30, no year 0000: nothing rolls over to another day),
  * and within bounds that each field states. Bounds are absolute dates or days from today, read when the value is
- * checked, so that a long-running server keeps moving them.
+ * checked (today being the workshop's, shared/time.ts), so that a long-running server keeps moving them.
  */
 import { z } from 'zod';
+import { addDays, today } from '../time';
 
 /** The widest range any date may take: before it or after it is a typing slip, never a workshop date. */
 export const DATE_FLOOR = '2000-01-01';
@@ -27,27 +28,19 @@ export function isRealDate(s: string): boolean {
   return year >= 1 && month >= 1 && month <= 12 && day >= 1 && day <= daysInMonth(year, month);
 }
 
-function pad(n: number): string {
-  return String(n).padStart(2, '0');
+/** Today in the workshop's time zone (shared/time.ts). */
+export function localToday(now: Date = new Date()): string {
+  return today(undefined, now);
 }
 
-/** Today as a local date (the server's or the browser's clock). */
-export function localToday(now = new Date()): string {
-  return `${now.getFullYear()}-${pad(now.getMonth() + 1)}-${pad(now.getDate())}`;
-}
-
-/** A date moved by whole days (calendar arithmetic in UTC, so no daylight-saving surprises). */
-export function addDaysTo(date: string, days: number): string {
-  const d = new Date(`${date}T00:00:00Z`);
-  d.setUTCDate(d.getUTCDate() + days);
-  return d.toISOString().slice(0, 10);
-}
+/** A date moved by whole days. */
+export const addDaysTo = addDays;
 
 /** A bound: a fixed date, or so many days from today (negative for the past). */
 export type DateBound = string | { daysFromToday: number };
 
 function resolve(bound: DateBound): string {
-  return typeof bound === 'string' ? bound : addDaysTo(localToday(), bound.daysFromToday);
+  return typeof bound === 'string' ? bound : addDays(today(), bound.daysFromToday);
 }
 
 function describe(bound: DateBound, side: 'min' | 'max'): string {

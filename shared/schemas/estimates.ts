@@ -122,6 +122,7 @@ export const EstimateListQuerySchema = z.object({
   page: z.coerce.number().int().min(1).max(100_000).default(1),
   pageSize: z.coerce.number().int().min(1).max(100).default(25),
 });
-export type EstimateListQuery = z.input<typeof EstimateListQuerySchema>;
+export type EstimateListQueryInput = z.input<typeof EstimateListQuerySchema>;
+export type EstimateListQuery = z.output<typeof EstimateListQuerySchema>;
 
 export { EstimateInputSchema };

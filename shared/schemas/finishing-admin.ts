@@ -38,7 +38,7 @@ export const CopySystemSchema = z
     name: z.string({ message: 'is required' }).trim().min(1, { message: 'is required' }).max(80),
   })
   .strict();
-export type CopySystemInput = z.infer<typeof CopySystemSchema>;
+export type CopySystemInput = z.input<typeof CopySystemSchema>;
 
 export const ArchiveSchema = z.object({ archived: z.boolean({ message: 'must be true or false' }) }).strict();
 

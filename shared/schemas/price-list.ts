@@ -126,7 +126,7 @@ export const UpdateMaterialSchema = z
     archived: z.boolean().optional(),
   })
   .strict();
-export type UpdateMaterialInput = z.infer<typeof UpdateMaterialSchema>;
+export type UpdateMaterialInput = z.input<typeof UpdateMaterialSchema>;
 
 export const UpdatePackSchema = z
   .object({
@@ -136,7 +136,7 @@ export const UpdatePackSchema = z
     archived: z.boolean().optional(),
   })
   .strict();
-export type UpdatePackInput = z.infer<typeof UpdatePackSchema>;
+export type UpdatePackInput = z.input<typeof UpdatePackSchema>;
 
 /** A new price for a pack: it takes effect on its date and the old price stays in the history. */
 export const NewPriceSchema = z.object({ price: PriceInputSchema, effectiveFrom: EffectiveDateSchema }).strict();

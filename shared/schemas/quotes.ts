@@ -76,6 +76,7 @@ export const CreateQuoteSchema = z
   })
   .strict();
 export type CreateQuoteInput = z.input<typeof CreateQuoteSchema>;
+export type CreateQuote = z.output<typeof CreateQuoteSchema>;
 
 export interface QuotePricing {
   lines: { code: string; label: string; amount: string }[];
@@ -357,7 +358,8 @@ export const QuoteListQuerySchema = z.object({
   page: z.coerce.number().int().min(1).max(100_000).default(1),
   pageSize: z.coerce.number().int().min(1).max(100).default(25),
 });
-export type QuoteListQuery = z.input<typeof QuoteListQuerySchema>;
+export type QuoteListQueryInput = z.input<typeof QuoteListQuerySchema>;
+export type QuoteListQuery = z.output<typeof QuoteListQuerySchema>;
 
 export interface PipelineRow {
   state: QuoteState;

@@ -1,6 +1,7 @@
 import { z } from 'zod';
 import { FactorsSchema, PricingSchema, SafetySettingsSchema, ShellacSettingsSchema, WorkingCalendarSchema } from './catalog';
 import { LENGTH_UNITS, UNIT_SYSTEMS, VOLUME_MEASURES } from '../unit-names';
+import { isTimeZone } from '../time';
 
 export { CALENDAR_WEEKDAYS as WEEKDAYS } from './catalog';
 
@@ -33,6 +34,11 @@ export const WorkshopSettingsSchema = z.object({
   dryingRoom: DryingRoomSchema,
   quoteValidityDays: z.number().int().min(1).max(365),
   paperSize: z.enum(['A4', 'Letter']),
+  /**
+   * The workshop's time zone (IANA name): what "today" means for quotes, prices and the board. Stored for every
+   * workshop (migration 2026.12.04T19.00); a client that leaves it out keeps the workshop on DEFAULT_TIME_ZONE.
+   */
+  timeZone: z.string().refine(isTimeZone, { message: 'must be a time zone name like Europe/London' }).optional(),
 });
 export type WorkshopSettings = z.infer<typeof WorkshopSettingsSchema>;
 

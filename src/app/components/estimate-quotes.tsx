@@ -1,3 +1,4 @@
+import { daysFromToday } from '@shared/time';
 import { FileSignature, Plus } from 'lucide-react';
 import { useState } from 'react';
 import { Link, useNavigate } from 'react-router-dom';
@@ -18,11 +19,6 @@ import { QuoteForm } from './quote-form';
 
 /** Estimate states from which a new quote may be made (the server holds the same list). */
 const QUOTABLE: readonly EstimateState[] = ['priced', 'quoted', 'viewed', 'expired', 'declined'];
-
-function addDays(days: number): string {
-  const d = new Date(Date.now() + days * 86_400_000);
-  return `${d.getFullYear()}-${String(d.getMonth() + 1).padStart(2, '0')}-${String(d.getDate()).padStart(2, '0')}`;
-}
 
 /**
  * The quotes made from one estimate, with their states and dates; sales and the owner prepare a new one here once the
@@ -93,7 +89,7 @@ export function EstimateQuotes({ estimate }: { estimate: EstimateDetail }) {
               recipient: customer.data?.email ?? '',
               depositPct: settings.pricing.depositPct,
               maxDiscountPct: settings.pricing.maxDiscountPct,
-              validUntil: addDays(settings.quoteValidityDays),
+              validUntil: daysFromToday(settings.quoteValidityDays, settings.timeZone),
               currency: estimate.currency,
             }}
           />

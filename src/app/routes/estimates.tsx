@@ -13,7 +13,7 @@ import { paths, pathTo } from '@/config/paths';
 import { CustomerPicker } from '@/features/customers/components/customer-picker';
 import { EstimateQuoteDate } from '@/features/quotes/components/estimate-quote-date';
 import { useTableState } from '@/lib/use-table-state';
-import { useArchiveEstimate, useDuplicateEstimate, useEstimates, type EstimateListQuery } from '@/features/estimates/api/estimates';
+import { useArchiveEstimate, useDuplicateEstimate, useEstimates, type EstimateListQueryInput } from '@/features/estimates/api/estimates';
 import { StateBadge } from '@/components/estimate-state-badge';
 import { formatHours, formatMoney, formatWhen } from '@/lib/format-figures';
 import { useCan } from '@/lib/permissions';
@@ -29,12 +29,12 @@ export function EstimatesPage() {
   const duplicate = useDuplicateEstimate();
   const customerId = Number(table.state.filters.customerId) || undefined;
   const archived = table.state.filters.archived === 'true';
-  const query: EstimateListQuery = {
+  const query: EstimateListQueryInput = {
     q: table.state.q || undefined,
     state: (table.state.filters.state as EstimateState) || undefined,
     customerId,
     archived: archived ? 'true' : 'false',
-    sort: table.state.sort as EstimateListQuery['sort'],
+    sort: table.state.sort as EstimateListQueryInput['sort'],
     dir: table.state.dir,
     page: table.state.page,
     pageSize: PAGE_SIZE,

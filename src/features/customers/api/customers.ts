@@ -5,16 +5,16 @@ import type { Customer, CustomerInput, CustomerListQuerySchema } from '@shared/s
 import { api, toQuery } from '@/lib/api';
 
 /** The list's search, filters, sort and page (every field optional; the server fills defaults). */
-export type CustomerListQuery = Partial<z.output<typeof CustomerListQuerySchema>>;
+export type CustomerListQueryInput = Partial<z.output<typeof CustomerListQuerySchema>>;
 
 export const customerKeys = {
   all: ['customers'] as const,
   lists: () => ['customers', 'list'] as const,
-  list: (query: CustomerListQuery) => ['customers', 'list', query] as const,
+  list: (query: CustomerListQueryInput) => ['customers', 'list', query] as const,
   detail: (id: number) => ['customers', 'detail', id] as const,
 };
 
-export const customersQueryOptions = (query: CustomerListQuery) =>
+export const customersQueryOptions = (query: CustomerListQueryInput) =>
   queryOptions({
     queryKey: customerKeys.list(query),
     queryFn: ({ signal }) => api<Page<Customer>>(`/api/customers${toQuery(query)}`, { signal }),
@@ -27,7 +27,7 @@ export const customerQueryOptions = (id: number) =>
     queryFn: ({ signal }) => api<Customer>(`/api/customers/${id}`, { signal }),
   });
 
-export function useCustomers(query: CustomerListQuery, { enabled = true }: { enabled?: boolean } = {}) {
+export function useCustomers(query: CustomerListQueryInput, { enabled = true }: { enabled?: boolean } = {}) {
   return useQuery({ ...customersQueryOptions(query), enabled });
 }
 

@@ -10,7 +10,7 @@ import { PagedTable } from '@/components/paged-table';
 import { pathTo } from '@/config/paths';
 import { useCan } from '@/lib/permissions';
 import { useTableState } from '@/lib/use-table-state';
-import { useCustomers, type CustomerListQuery } from '../api/customers';
+import { useCustomers, type CustomerListQueryInput } from '../api/customers';
 import { CustomerFormDialog } from '../components/customer-form-dialog';
 
 const PAGE_SIZE = 25;
@@ -22,9 +22,9 @@ export function CustomersPage() {
   const can = useCan();
   const navigate = useNavigate();
   const archived = table.state.filters.archived === 'true';
-  const query: CustomerListQuery = {
+  const query: CustomerListQueryInput = {
     q: table.state.q || undefined,
-    sort: table.state.sort as CustomerListQuery['sort'],
+    sort: table.state.sort as CustomerListQueryInput['sort'],
     dir: table.state.dir,
     archived: archived ? 'true' : undefined,
     page: table.state.page,

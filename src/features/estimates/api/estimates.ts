@@ -7,17 +7,17 @@ import type {
 import { api, toQuery } from '@/lib/api';
 
 /** The list's search, filters, sort and page (every field optional; the server fills defaults). */
-export type EstimateListQuery = Partial<z.output<typeof EstimateListQuerySchema>>;
+export type EstimateListQueryInput = Partial<z.output<typeof EstimateListQuerySchema>>;
 
 export const estimateKeys = {
   all: ['estimates'] as const,
   lists: () => ['estimates', 'list'] as const,
-  list: (query: EstimateListQuery) => ['estimates', 'list', query] as const,
+  list: (query: EstimateListQueryInput) => ['estimates', 'list', query] as const,
   detail: (id: number) => ['estimates', 'detail', id] as const,
   revision: (id: number, number: number) => ['estimates', 'detail', id, 'revision', number] as const,
 };
 
-export const estimatesQueryOptions = (query: EstimateListQuery) =>
+export const estimatesQueryOptions = (query: EstimateListQueryInput) =>
   queryOptions({
     queryKey: estimateKeys.list(query),
     queryFn: ({ signal }) => api<Page<EstimateSummary>>(`/api/estimates${toQuery(query)}`, { signal }),
@@ -38,7 +38,7 @@ export const revisionQueryOptions = (id: number, number: number) =>
     staleTime: Infinity,
   });
 
-export function useEstimates(query: EstimateListQuery, { enabled = true }: { enabled?: boolean } = {}) {
+export function useEstimates(query: EstimateListQueryInput, { enabled = true }: { enabled?: boolean } = {}) {
   return useQuery({ ...estimatesQueryOptions(query), enabled });
 }
 

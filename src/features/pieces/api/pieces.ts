@@ -5,16 +5,16 @@ import type { Piece, PieceInput, PieceListQuerySchema } from '@shared/schemas/cu
 import { api, toQuery } from '@/lib/api';
 
 /** The list's search, filters, sort and page (every field optional; the server fills defaults). */
-export type PieceListQuery = Partial<z.output<typeof PieceListQuerySchema>>;
+export type PieceListQueryInput = Partial<z.output<typeof PieceListQuerySchema>>;
 
 export const pieceKeys = {
   all: ['pieces'] as const,
   lists: () => ['pieces', 'list'] as const,
-  list: (query: PieceListQuery) => ['pieces', 'list', query] as const,
+  list: (query: PieceListQueryInput) => ['pieces', 'list', query] as const,
   detail: (id: number) => ['pieces', 'detail', id] as const,
 };
 
-export const piecesQueryOptions = (query: PieceListQuery) =>
+export const piecesQueryOptions = (query: PieceListQueryInput) =>
   queryOptions({
     queryKey: pieceKeys.list(query),
     queryFn: ({ signal }) => api<Page<Piece>>(`/api/pieces${toQuery(query)}`, { signal }),
@@ -27,7 +27,7 @@ export const pieceQueryOptions = (id: number) =>
     queryFn: ({ signal }) => api<Piece>(`/api/pieces/${id}`, { signal }),
   });
 
-export function usePieces(query: PieceListQuery) {
+export function usePieces(query: PieceListQueryInput) {
   return useQuery(piecesQueryOptions(query));
 }
 

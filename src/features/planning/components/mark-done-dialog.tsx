@@ -3,7 +3,7 @@
  * notes. A session finished late moves the rest of the job; the dialog says how far.
  */
 import { useId, useState } from 'react';
-import { localToday } from '@shared/schemas/dates';
+import { nowLocal } from '@shared/time';
 import { SessionDoneSchema, type SessionDoneResult } from '@shared/schemas/planning';
 import { Alert } from '@/components/alert';
 import { Button } from '@/components/button';
@@ -31,8 +31,7 @@ export function MarkDoneDialog({ session, climate, unit, onClose }: { session: S
 function MarkDoneForm({ session, climate, unit, onClose }: { session: SessionToMark; climate: { temperatureC: number; humidityPct: number }; unit: string; onClose: () => void }) {
   // A session cannot be done later than now: the planned end when it has passed, else the present minute.
   const [actualEnd, setActualEnd] = useState(() => {
-    const d = new Date();
-    const now = `${localToday(d)}T${String(d.getHours()).padStart(2, '0')}:${String(d.getMinutes()).padStart(2, '0')}`;
+    const now = nowLocal();
     return session.end < now ? session.end : now;
   });
   const [actualHours, setActualHours] = useState(String(session.handsOnHours));

@@ -32,26 +32,8 @@ export function clock(local: string): string {
   return local.slice(11, 16);
 }
 
-/** A local date moved by whole days. */
-export function addDays(date: string, days: number): string {
-  return fromMinutes(toMinutes(date.slice(0, 10)) + days * MIN_PER_DAY).slice(0, 10);
-}
-
-/** Whole days from `a` to `b` (dates). */
-export function daysBetween(a: string, b: string): number {
-  return Math.round((toMinutes(b.slice(0, 10)) - toMinutes(a.slice(0, 10))) / MIN_PER_DAY);
-}
-
-/** Weekday of a local date, Monday 0 … Sunday 6. */
-export function weekday(date: string): number {
-  const day = Math.floor(toMinutes(date.slice(0, 10)) / MIN_PER_DAY);
-  return (((day + 3) % 7) + 7) % 7;
-}
-
-/** Monday of the week holding a date. */
-export function mondayOf(date: string): string {
-  return addDays(date, -weekday(date));
-}
+/** Calendar arithmetic and the workshop's clock come from the one time module. */
+export { addDays, daysBetween, mondayOf, nowLocal, weekdayIndex as weekday } from '@shared/time';
 
 /** Hours with their unit: "7.5 h", "45 min" below an hour. */
 export function hoursText(hours: number): string {
@@ -71,11 +53,4 @@ export function durationText(min: number): string {
   const h = Math.floor((min % MIN_PER_DAY) / 60);
   const m = Math.round(min % 60);
   return [days ? `${days} day${days === 1 ? '' : 's'}` : '', h ? `${h} h` : '', m ? `${m} min` : ''].filter(Boolean).join(' ') || '0 min';
-}
-
-/** The browser's local date and time as "YYYY-MM-DDTHH:MM", for form defaults. */
-export function nowLocal(): string {
-  const d = new Date();
-  const p = (n: number) => String(n).padStart(2, '0');
-  return `${d.getFullYear()}-${p(d.getMonth() + 1)}-${p(d.getDate())}T${p(d.getHours())}:${p(d.getMinutes())}`;
 }

@@ -14,7 +14,7 @@ import { TextField } from '@/components/field';
 import { Spinner } from '@/components/spinner';
 import { paths, pathTo } from '@/config/paths';
 import { useMe } from '@/lib/me';
-import { formatMoney } from '@/lib/format';
+import { formatMoney, todayIso } from '@/lib/format';
 import { useBoard } from '../api/board';
 import { useCancelJob, useJob, useUpdateJob } from '../api/jobs';
 import { BookingForm } from '../components/booking-form';
@@ -223,7 +223,7 @@ export function JobPage() {
   const canMark = can(role, 'recordProgress');
   const bookable = canPlan && (j.state === 'unbooked' || j.state === 'booked');
   const room = board.data?.room ?? { temperatureC: 20, humidityPct: 55, unit: j.roomUnit };
-  const today = board.data?.today ?? new Date().toISOString().slice(0, 10);
+  const today = board.data?.today ?? todayIso();
 
   return (
     <div className="space-y-6">

@@ -8,19 +8,19 @@ import { api, toQuery } from '@/lib/api';
 const FRESH = { staleTime: 0, refetchOnWindowFocus: true } as const;
 
 /** The list's search, filter, sort and page (every field optional; the server fills defaults). */
-export type QuoteListQuery = Partial<z.output<typeof QuoteListQuerySchema>>;
+export type QuoteListQueryInput = Partial<z.output<typeof QuoteListQuerySchema>>;
 
 export const quoteKeys = {
   all: ['quotes'] as const,
   lists: () => ['quotes', 'list'] as const,
-  list: (query: QuoteListQuery) => ['quotes', 'list', query] as const,
+  list: (query: QuoteListQueryInput) => ['quotes', 'list', query] as const,
   pipeline: () => ['quotes', 'pipeline'] as const,
   detail: (id: number) => ['quotes', 'detail', id] as const,
   ofEstimate: (estimateId: number, number: string) => ['quotes', 'estimate', estimateId, number] as const,
   latest: () => ['quotes', 'latest'] as const,
 };
 
-export const quotesQueryOptions = (query: QuoteListQuery) =>
+export const quotesQueryOptions = (query: QuoteListQueryInput) =>
   queryOptions({
     queryKey: quoteKeys.list(query),
     queryFn: ({ signal }) => api<Page<QuoteSummary>>(`/api/quotes${toQuery(query)}`, { signal }),
@@ -62,7 +62,7 @@ export const latestQuotesQueryOptions = queryOptions({
   staleTime: 60_000,
 });
 
-export function useQuotes(query: QuoteListQuery) {
+export function useQuotes(query: QuoteListQueryInput) {
   return useQuery(quotesQueryOptions(query));
 }
 

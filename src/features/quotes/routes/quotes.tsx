@@ -10,7 +10,7 @@ import { useCan } from '@/lib/permissions';
 import { useCalcCatalog } from '@/lib/catalog';
 import { formatDate, formatMoney } from '@/lib/format';
 import { useTableState } from '@/lib/use-table-state';
-import { useFlaggedPayments, useQuotes, type QuoteListQuery } from '../api/quotes';
+import { useFlaggedPayments, useQuotes, type QuoteListQueryInput } from '../api/quotes';
 import { OptionReport } from '../components/option-report';
 import { Pipeline } from '../components/pipeline';
 import { QuoteStateBadge } from '../components/quote-state-badge';
@@ -53,10 +53,10 @@ export function QuotesPage() {
   const table = useTableState({ sort: 'updatedAt', dir: 'desc', filters: ['state'] });
   const seller = useCan().sendQuotes;
   const calc = useCalcCatalog();
-  const query: QuoteListQuery = {
+  const query: QuoteListQueryInput = {
     q: table.state.q || undefined,
     state: (table.state.filters.state as QuoteState) || undefined,
-    sort: table.state.sort as QuoteListQuery['sort'],
+    sort: table.state.sort as QuoteListQueryInput['sort'],
     dir: table.state.dir,
     page: table.state.page,
     pageSize: PAGE_SIZE,

@@ -2,6 +2,7 @@ import { Building2, CalendarDays, Check, CircleDollarSign, FileText, Flame, Plus
 import { useState, type FormEvent, type ReactNode } from 'react';
 import { COMPLEXITIES, type Material as CatalogMaterial } from '@shared/schemas/catalog';
 import { LENGTH_UNITS } from '@shared/units';
+import { DEFAULT_TIME_ZONE, timeZoneOptions } from '@shared/time';
 import { WEEKDAYS, type Workshop } from '@shared/schemas/workshop';
 import { WorkshopUpdateSchema, type WorkshopUpdateInput } from '@shared/schemas/workshop-admin';
 import { Alert } from '@/components/alert';
@@ -40,7 +41,7 @@ function plain(errors: Record<string, string>): Record<string, string> {
 }
 
 export function toForm(w: Workshop): Form {
-  return { name: w.name, email: w.email ?? '', phone: w.phone ?? '', address: w.address ?? '', settings: structuredClone(w.settings) };
+  return { name: w.name, email: w.email ?? '', phone: w.phone ?? '', address: w.address ?? '', settings: { ...structuredClone(w.settings), timeZone: w.settings.timeZone ?? DEFAULT_TIME_ZONE } };
 }
 
 function Section({ icon, title, intro, children }: { icon: ReactNode; title: string; intro?: string; children: ReactNode }) {
@@ -197,6 +198,7 @@ export function SettingsForm({
 
       <Section icon={<FileText className="h-4 w-4 text-amber-600" aria-hidden />} title="Quotes, paper and units">
         {num(['settings', 'quoteValidityDays'], 'Quotes valid for', 'days', { step: '1' })}
+        {select(['settings', 'timeZone'], 'Time zone', timeZoneOptions(form.settings.timeZone).map((z) => ({ value: z, label: z.replace(/_/g, ' ') })), 'What “today” means for quotes, prices and the planning board')}
         {select(['settings', 'paperSize'], 'Paper size', [
           { value: 'A4', label: 'A4 (210 × 297 mm)' },
           { value: 'Letter', label: 'Letter (8.5 × 11 in)' },

@@ -1,0 +1,101 @@
+/**
+ * The one clock. "Today" is the workshop's own day in the workshop's own time zone (the `timeZone` setting), on
+ * the server, in the browser, in the database's queries and in the engine alike. Calendar dates travel as
+ * 'YYYY-MM-DD' and board times as 'YYYY-MM-DDTHH:MM' without a zone: both are the workshop's wall clock. Date
+ * arithmetic goes through date-fns (with @date-fns/tz for the zone), never by hand.
+ */
+import { TZDate, tz } from '@date-fns/tz';
+import { addDays as addDaysFn, differenceInCalendarDays, format, isValid, parse, startOfISOWeek } from 'date-fns';
+
+/** The zone a workshop starts with until the owner sets its own. */
+export const DEFAULT_TIME_ZONE = 'Europe/London';
+
+const IANA_NAME = /^(UTC|[A-Za-z]+(?:\/[A-Za-z0-9_+-]+)+)$/;
+
+/** An IANA time-zone name the runtime knows ("Europe/London", "America/New_York", "UTC"); never an offset. */
+export function isTimeZone(zone: string): boolean {
+  if (!IANA_NAME.test(zone)) return false;
+  try {
+    new Intl.DateTimeFormat('en-GB', { timeZone: zone });
+    return true;
+  } catch {
+    return false;
+  }
+}
+
+/** Every zone the runtime knows, sorted, with `current` kept in the list even when the runtime lacks it. */
+export function timeZoneOptions(current?: string): string[] {
+  const known = typeof Intl.supportedValuesOf === 'function' ? Intl.supportedValuesOf('timeZone') : [DEFAULT_TIME_ZONE];
+  const all = new Set([...known, 'UTC', DEFAULT_TIME_ZONE]);
+  if (current) all.add(current);
+  return [...all].sort();
+}
+
+let workshopZone = DEFAULT_TIME_ZONE;
+
+/**
+ * Tells the clock which zone the workshop keeps: the server calls it whenever it reads the settings, the browser
+ * when the workshop arrives. An unknown name is ignored (the settings schema refuses it before it is stored).
+ */
+export function setWorkshopTimeZone(zone: string | undefined | null): void {
+  if (zone && isTimeZone(zone)) workshopZone = zone;
+}
+
+/** The workshop's time zone as last read. */
+export function workshopTimeZone(): string {
+  return workshopZone;
+}
+
+/** Calendar arithmetic happens in UTC, where every day has 24 hours: no daylight-saving surprise. */
+const calendar = { in: tz('UTC') };
+
+function calendarDay(date: string): Date {
+  const d = parse(date.slice(0, 10), 'yyyy-MM-dd', new TZDate(0, 'UTC'), calendar);
+  if (!isValid(d)) throw new RangeError(`not a calendar date: ${date}`);
+  return d;
+}
+
+/** Today in the workshop's zone (or the zone given), 'YYYY-MM-DD'. */
+export function today(zone: string = workshopZone, now: Date = new Date()): string {
+  return format(new TZDate(now, zone), 'yyyy-MM-dd');
+}
+
+/** The workshop's wall clock now, 'YYYY-MM-DDTHH:MM' (board times carry no zone). */
+export function nowLocal(zone: string = workshopZone, now: Date = new Date()): string {
+  return format(new TZDate(now, zone), "yyyy-MM-dd'T'HH:mm");
+}
+
+/** The year it is in the workshop's zone (record numbers: Q-2026-0001). */
+export function currentYear(zone: string = workshopZone, now: Date = new Date()): number {
+  return new TZDate(now, zone).getFullYear();
+}
+
+/** The calendar day an instant falls on in the workshop's zone, 'YYYY-MM-DD'. */
+export function dayOf(instant: Date, zone: string = workshopZone): string {
+  return format(new TZDate(instant, zone), 'yyyy-MM-dd');
+}
+
+/** A calendar date moved by whole days (negative for earlier). */
+export function addDays(date: string, days: number): string {
+  return format(addDaysFn(calendarDay(date), days, calendar), 'yyyy-MM-dd', calendar);
+}
+
+/** Whole calendar days from `a` to `b` (dates, or date-times whose time is ignored). */
+export function daysBetween(a: string, b: string): number {
+  return differenceInCalendarDays(calendarDay(b), calendarDay(a), calendar);
+}
+
+/** The Monday of the week holding a date. */
+export function mondayOf(date: string): string {
+  return format(startOfISOWeek(calendarDay(date), calendar), 'yyyy-MM-dd', calendar);
+}
+
+/** Weekday of a date, Monday 0 … Sunday 6. */
+export function weekdayIndex(date: string): number {
+  return daysBetween(mondayOf(date), date);
+}
+
+/** Today moved by whole days, in the workshop's zone: the default "valid until" of a quote, say. */
+export function daysFromToday(days: number, zone: string = workshopZone, now: Date = new Date()): string {
+  return addDays(today(zone, now), days);
+}

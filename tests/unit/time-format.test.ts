@@ -1,0 +1,70 @@
+import fc from 'fast-check';
+import { describe, expect, it } from 'vitest';
+import { formatMoney, formatMoneyDelta } from '../../shared/format';
+import { addDays, daysBetween, isTimeZone, mondayOf, nowLocal, today, weekdayIndex } from '../../shared/time';
+
+const day = fc.date({ min: new Date('2000-01-01T00:00:00Z'), max: new Date('2099-12-31T00:00:00Z'), noInvalidDate: true }).map((d) => d.toISOString().slice(0, 10));
+
+describe('the one clock (shared/time.ts)', () => {
+  it('today is the workshop’s day in its own zone, not the server’s', () => {
+    // 23:30 UTC on 14 March 2027 is already the 15th in Auckland (UTC+13 then) and still the 14th in New York.
+    const instant = new Date('2027-03-14T23:30:00Z');
+    expect(today('Pacific/Auckland', instant)).toBe('2027-03-15');
+    expect(today('America/New_York', instant)).toBe('2027-03-14');
+    expect(today('Europe/London', instant)).toBe('2027-03-14');
+    expect(nowLocal('Europe/London', new Date('2027-07-01T07:05:00Z'))).toBe('2027-07-01T08:05');
+  });
+
+  it('moving a date by n days then back returns it, and the gap is n, across every daylight-saving change', () => {
+    fc.assert(
+      fc.property(day, fc.integer({ min: -800, max: 800 }), (date, n) => {
+        const moved = addDays(date, n);
+        expect(addDays(moved, -n)).toBe(date);
+        expect(daysBetween(date, moved)).toBe(n);
+      }),
+    );
+  });
+
+  it('the Monday of a week is a Monday on or before the date, within six days', () => {
+    fc.assert(
+      fc.property(day, (date) => {
+        const monday = mondayOf(date);
+        expect(new Date(`${monday}T12:00:00Z`).getUTCDay()).toBe(1);
+        expect(weekdayIndex(date)).toBe(daysBetween(monday, date));
+        expect(weekdayIndex(date)).toBeGreaterThanOrEqual(0);
+        expect(weekdayIndex(date)).toBeLessThanOrEqual(6);
+      }),
+    );
+  });
+
+  it('takes IANA zone names only', () => {
+    expect(isTimeZone('Europe/London')).toBe(true);
+    expect(isTimeZone('America/Argentina/Buenos_Aires')).toBe(true);
+    expect(isTimeZone('UTC')).toBe(true);
+    for (const bad of ['Mars/Olympus', '+01:00', 'GMT+1', '', 'europe']) expect(isTimeZone(bad)).toBe(false);
+  });
+});
+
+describe('the one money format (shared/format.ts)', () => {
+  it('writes any amount in cents exactly, with separators and the typographic minus', () => {
+    fc.assert(
+      fc.property(fc.bigInt({ min: -(10n ** 12n), max: 10n ** 12n }), (cents) => {
+        const abs = cents < 0n ? -cents : cents;
+        const whole = (abs / 100n).toString().replace(/\B(?=(\d{3})+(?!\d))/g, ',');
+        const text = `${abs / 100n}.${String(abs % 100n).padStart(2, '0')}`;
+        const expected = `${cents < 0n ? '\u2212' : ''}£${whole}.${String(abs % 100n).padStart(2, '0')}`;
+        expect(formatMoney(cents < 0n ? `-${text}` : text, 'GBP')).toBe(expected);
+      }),
+    );
+  });
+
+  it('keeps up to four decimals for unit prices and rounds half up to cents otherwise', () => {
+    expect(formatMoney('0.0450', 'GBP', { exact: true })).toBe('£0.045');
+    expect(formatMoney('11.4000', 'GBP', { exact: true })).toBe('£11.40');
+    expect(formatMoney('2.005', 'GBP')).toBe('£2.01');
+    expect(formatMoney('4994', 'EUR')).toBe('€4,994.00');
+    expect(formatMoneyDelta('-3.5', 'GBP')).toBe('\u2212£3.50');
+    expect(formatMoneyDelta('12', 'GBP')).toBe('+£12.00');
+    expect(formatMoneyDelta('0.00', 'GBP')).toBe('£0.00');
+  });
+});
