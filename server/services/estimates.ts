@@ -17,6 +17,8 @@ import {
   type EstimateListQuerySchema,
   type EstimateState,
   type EstimateSummary,
+  type RepriceCandidates,
+  type RepriceRow,
   type Revision,
   type RevisionSummary,
 } from '@shared/schemas/estimates';
@@ -285,22 +287,9 @@ export async function repriceEstimate(sequelize: Sequelize, actorId: number, id:
   });
 }
 
-export interface RepriceRow {
-  id: number;
-  number: string;
-  title: string;
-  customer: string;
-  state: EstimateState;
-  catalogVersion: string;
-  /** The price list it was priced with, as people name it ("prices of 2 Dec 2026"). */
-  priceList: string;
-  oldTotal: string;
-  newTotal: string;
-  currency: string;
-}
 
 /** Open estimates priced with another price list than today's, with their total now. */
-export async function repriceCandidates(sequelize: Sequelize): Promise<{ catalogVersion: string; priceList: string; rows: RepriceRow[] }> {
+export async function repriceCandidates(sequelize: Sequelize): Promise<RepriceCandidates> {
   const loaded = await loadCatalog(sequelize);
   const estimates = await Estimate.findAll({
     where: { state: { [Op.in]: [...OPEN_STATES] }, archived: false },

@@ -126,3 +126,42 @@ export type EstimateListQueryInput = z.input<typeof EstimateListQuerySchema>;
 export type EstimateListQuery = z.output<typeof EstimateListQuerySchema>;
 
 export { EstimateInputSchema };
+
+// The repricing of open estimates after a price change (GET /api/estimates/reprice and its POST).
+/** An open estimate whose current revision was priced with an older price list, and its total with today's. */
+export interface RepriceRow {
+  id: number;
+  number: string;
+  title: string;
+  customer: string;
+  state: EstimateState;
+  /** The price list its current revision was priced with (internal version, to compare with). */
+  catalogVersion: string;
+  /** The same, as people name it: "prices of 2 Dec 2026". */
+  priceList: string;
+  oldTotal: string;
+  newTotal: string;
+  currency: string;
+}
+
+export interface RepriceCandidates {
+  /** Today's price list (internal version). */
+  catalogVersion: string;
+  /** Today's price list as people name it. */
+  priceList: string;
+  rows: RepriceRow[];
+}
+
+export interface RepricedEstimate {
+  id: number;
+  number: string;
+  total: string;
+  /** The new revision's number. */
+  revision: number;
+}
+
+export interface RepriceResult {
+  repriced: RepricedEstimate[];
+  /** Estimates today's prices leave as they were: no new revision was made. */
+  unchanged?: RepricedEstimate[];
+}
