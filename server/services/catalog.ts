@@ -10,6 +10,7 @@ import { DEFAULT_TIME_ZONE, setWorkshopTimeZone, today } from '@shared/time';
 import { HttpProblem, problems } from '../http/problem';
 import { FinishingSystem, LabourRate, Material, Species, Workshop } from '../models';
 import type { SharedCaches } from './shared-caches';
+import { allOf } from '../db/queries';
 
 export interface LoadedCatalog {
   catalog: Catalog;
@@ -46,12 +47,6 @@ export async function loadSettings(transaction?: Transaction): Promise<{ worksho
   }
   setWorkshopTimeZone(parsed.data.timeZone ?? DEFAULT_TIME_ZONE);
   return { workshop, settings: parsed.data };
-}
-
-async function sequentially(tasks: readonly (() => Promise<unknown>)[]): Promise<unknown[]> {
-  const out: unknown[] = [];
-  for (const task of tasks) out.push(await task());
-  return out;
 }
 
 /**
@@ -113,7 +108,7 @@ async function buildCatalog(sequelize: Sequelize, onDate: string, transaction?: 
         { replacements: { onDate }, type: QueryTypes.SELECT, transaction },
       ),
   ] as const;
-  const results = transaction ? await sequentially(tasks) : await Promise.all(tasks.map((t) => t()));
+  const results = await allOf(transaction, tasks);
   const [{ settings }, species, systems, materials, rates, priceRows] = results as unknown as [
     Awaited<ReturnType<(typeof tasks)[0]>>,
     Awaited<ReturnType<(typeof tasks)[1]>>,

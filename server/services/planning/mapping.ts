@@ -2,6 +2,7 @@
 import { type Transaction } from 'sequelize';
 import { type JobSessionDto, type JobSummary, type StagePlanVsActual } from '@shared/schemas/planning';
 import { Customer, Estimate, EstimateRevision, type Job, JobSession, Quote } from '../../models';
+import { allOf } from '../../db/queries';
 
 export const ACCEPTED = ['accepted', 'deposit-paid'];
 export const round = (n: number, places = 2) => Math.round(n * 10 ** places) / 10 ** places;
@@ -17,11 +18,11 @@ interface Related {
 }
 
 export async function related(jobs: readonly Job[], transaction?: Transaction): Promise<Related> {
-  const [customers, estimates, quotes, revisions] = await Promise.all([
-    Customer.findAll({ where: { id: jobs.map((j) => j.customerId) }, attributes: ['id', 'name'], transaction }),
-    Estimate.findAll({ where: { id: jobs.map((j) => j.estimateId) }, attributes: ['id', 'number'], transaction }),
-    Quote.findAll({ where: { id: jobs.map((j) => j.quoteId) }, attributes: ['id', 'number'], transaction }),
-    EstimateRevision.findAll({ where: { id: jobs.map((j) => j.revisionId) }, attributes: ['id', 'number'], transaction }),
+  const [customers, estimates, quotes, revisions] = await allOf(transaction, [
+    () => Customer.findAll({ where: { id: jobs.map((j) => j.customerId) }, attributes: ['id', 'name'], transaction }),
+    () => Estimate.findAll({ where: { id: jobs.map((j) => j.estimateId) }, attributes: ['id', 'number'], transaction }),
+    () => Quote.findAll({ where: { id: jobs.map((j) => j.quoteId) }, attributes: ['id', 'number'], transaction }),
+    () => EstimateRevision.findAll({ where: { id: jobs.map((j) => j.revisionId) }, attributes: ['id', 'number'], transaction }),
   ]);
   return {
     customers: new Map(customers.map((c) => [c.id, c])),

@@ -16,6 +16,7 @@ import { workingCopyPath } from '../photos';
 import { linesOf } from './locks';
 import { agreedOf, quotePricing, shownPricing } from './pricing';
 import { iso, lineDtos, load } from './read';
+import { allOf } from '../../db/queries';
 
 // ------------------------------------------------------------------------------------------------ PDF
 
@@ -99,8 +100,9 @@ async function documentFor(a: {
   const r = revision.result;
   const main = await pieceAndWork(a.estimate.pieceId, a.estimate.title, revision, settings.units, a.schedule, a.uploadsDir, transaction);
   const lineDocs: QuoteDocumentLine[] | undefined = a.lines
-    ? await Promise.all(
-        a.lines.map(async (l) => {
+    ? await allOf(
+        transaction,
+        a.lines.map((l) => async () => {
           const rev = a.revisions?.find((x) => x.id === l.revisionId) ?? revision;
           const est = await Estimate.findByPk(l.estimateId, { attributes: ['id', 'title'], transaction });
           const doc = await pieceAndWork(l.pieceId, est?.title ?? '', rev, settings.units, a.schedule, a.uploadsDir, transaction);

@@ -5,6 +5,7 @@ import { dayOf } from '@shared/time';
 import { Op, type Transaction } from 'sequelize';
 import { HttpProblem, problems } from '../../http/problem';
 import { Estimate, Piece, Quote, QuoteLine } from '../../models';
+import { allOf } from '../../db/queries';
 
 export async function pieceAgreement(pieceIds: readonly number[], transaction?: Transaction): Promise<{ line: QuoteLine; quote: Quote } | null> {
   if (pieceIds.length === 0) return null;
@@ -17,7 +18,7 @@ export async function pieceAgreement(pieceIds: readonly number[], transaction?: 
 /** The problem for a piece already agreed: 409 naming the accepted quote (and the estimate it was agreed on). */
 export async function alreadyAgreed(found: { line: QuoteLine; quote: Quote }, ownEstimateIds: readonly number[], transaction?: Transaction): Promise<HttpProblem> {
   const { line, quote: agreed } = found;
-  const [estimate, piece] = await Promise.all([Estimate.findByPk(line.estimateId, { transaction }), Piece.findByPk(line.pieceId, { transaction })]);
+  const [estimate, piece] = await allOf(transaction, [() => Estimate.findByPk(line.estimateId, { transaction }), () => Piece.findByPk(line.pieceId, { transaction })]);
   const on = agreed.acceptedAt ? ` on ${dayOf(agreed.acceptedAt)}` : '';
   if (ownEstimateIds.includes(line.estimateId)) {
     return new HttpProblem(409, 'estimate_already_agreed', 'Already agreed', `Quote ${agreed.number} for estimate ${estimate?.number ?? line.estimateId} was accepted${on}: no other quote for it can be sent or accepted.`);

@@ -13,6 +13,7 @@ import { lapseCheckouts, paymentDto } from '../payments';
 import { anyOf, containsPattern, direction, offset, pageTotal } from '../paging';
 import { linesOf } from './locks';
 import { agreedOf, shownPricing } from './pricing';
+import { allOf } from '../../db/queries';
 
 type ListQuery = QuoteListQuery;
 export const iso = (d: Date | null) => (d ? d.toISOString() : null);
@@ -63,10 +64,10 @@ function summary(q: Quote, e: Estimate, c: Customer, revision: number): QuoteSum
 
 /** A quote's lines for staff screens, with their estimates, revisions and pieces. */
 export async function lineDtos(lines: readonly QuoteLine[], transaction?: Transaction): Promise<QuoteLineDto[]> {
-  const [estimates, revisions, pieces] = await Promise.all([
-    Estimate.findAll({ where: { id: lines.map((l) => l.estimateId) }, attributes: ['id', 'number', 'title'], transaction }),
-    EstimateRevision.findAll({ where: { id: lines.map((l) => l.revisionId) }, attributes: ['id', 'number', 'result'], transaction }),
-    Piece.findAll({ where: { id: lines.map((l) => l.pieceId) }, attributes: ['id', 'description'], transaction }),
+  const [estimates, revisions, pieces] = await allOf(transaction, [
+    () => Estimate.findAll({ where: { id: lines.map((l) => l.estimateId) }, attributes: ['id', 'number', 'title'], transaction }),
+    () => EstimateRevision.findAll({ where: { id: lines.map((l) => l.revisionId) }, attributes: ['id', 'number', 'result'], transaction }),
+    () => Piece.findAll({ where: { id: lines.map((l) => l.pieceId) }, attributes: ['id', 'description'], transaction }),
   ]);
   return lines.map((l) => {
     const e = estimates.find((x) => x.id === l.estimateId);
