@@ -1,6 +1,6 @@
 /**
  * Timing of the estimator engine: median and p90 of estimate() for the default grand and for a 200-part piece,
- * and of the coat calendar for a 60-session schedule, the engine's beside their targets (issue 17). Figures only,
+ * and of the coat calendar for a 60-session schedule, the engine's beside their targets. Figures only,
  * no pass/fail.
  * Run: node --import tsx tests/bench/calc.bench.ts
  */
