@@ -49,13 +49,23 @@ function roundNano(mm: number): number {
 }
 
 /**
- * Converts a value in a length unit to millimetres with mathjs units (exact definitions: 1 in = 25.4 mm).
+ * Metres per unit, as mathjs defines them (unit value × prefix value: 1 in = 0.0254 m, 1 ft = 0.3048 m, 1 cm =
+ * 1 × 0.01 m, 1 mm = 1 × 0.001 m), so that the conversion below does the very floating-point operations mathjs's
+ * `unit(value, from).toNumber('mm')` does (value × metres per unit ÷ metres per mm) and gives the same double
+ * without building mathjs units on every call. tests/unit/calc/units-exact.test.ts checks the equality with mathjs
+ * itself, by property.
+ */
+const METRES_PER: Readonly<Record<LengthUnit, number>> = { mm: 1 * 0.001, cm: 1 * 0.01, m: 1 * 1, in: 0.0254 * 1, ft: 0.3048 * 1 };
+const METRES_PER_MM = METRES_PER.mm;
+
+/**
+ * Converts a value in a length unit to millimetres (exact definitions: 1 in = 25.4 mm), as mathjs units convert it.
  *
  * @example toMillimetres(75, 'in') // 1905
  */
 export function toMillimetres(value: number, from: LengthUnit): number {
   if (from === 'mm') return value;
-  return roundNano(unit(value, MATHJS_NAME[from]).toNumber('mm'));
+  return roundNano((value * METRES_PER[from]) / METRES_PER_MM);
 }
 
 /**
@@ -126,6 +136,23 @@ export interface ParseLengthOptions {
  */
 export function parseLength(value: string | number, defaultUnit: LengthUnit = 'mm', options: ParseLengthOptions = {}): number {
   const allowZero = options.allowZero ?? false;
+  if (typeof value !== 'string') return readLengthValue(value, defaultUnit, allowZero);
+  // Texts come back on every keystroke (the editor and the server read the same parts again and again): what a text
+  // reads as is remembered, bounded. Errors are not remembered: a bad text throws from the reader every time.
+  const key = `${defaultUnit}${allowZero ? '+' : '-'}${value}`;
+  const known = readTexts.get(key);
+  if (known !== undefined) return known;
+  const mm = readLengthValue(value, defaultUnit, allowZero);
+  if (readTexts.size >= READ_TEXTS_MAX) readTexts.clear();
+  readTexts.set(key, mm);
+  return mm;
+}
+
+/** Texts already read, by default unit, zero rule and text (see parseLength). */
+const readTexts = new Map<string, number>();
+const READ_TEXTS_MAX = 4096;
+
+function readLengthValue(value: string | number, defaultUnit: LengthUnit, allowZero: boolean): number {
   if (typeof value === 'number') {
     const shown = String(value);
     if (!Number.isFinite(value)) throw new UnitParseError(shown, 'it is not a finite number');

@@ -38,9 +38,26 @@ export function toMinutes(local: string): number {
  * @example fromMinutes(1500) // "1970-01-02T01:00"
  */
 export function fromMinutes(minutes: number): string {
-  // Civil date from a day count (H. Hinnant's days-to-civil algorithm): far cheaper than Date + toISOString.
   const days = Math.floor(minutes / MIN_PER_DAY);
   const inDay = minutes - days * MIN_PER_DAY;
+  if (!Number.isInteger(inDay)) return `${dayText(days)}T${pad2(Math.floor(inDay / 60))}:${pad2(inDay % 60)}`;
+  let time = TIME_TEXT[inDay];
+  if (time === undefined) {
+    time = `T${pad2(Math.floor(inDay / 60))}:${pad2(inDay % 60)}`;
+    TIME_TEXT[inDay] = time;
+  }
+  return dayText(days) + time;
+}
+
+/** "THH:MM" by minute of the day, and "YYYY-MM-DD" by day number (bounded): a calendar writes the same days again and again. */
+const TIME_TEXT: string[] = [];
+const DAY_TEXT = new Map<number, string>();
+const DAY_TEXT_MAX = 8192;
+
+function dayText(days: number): string {
+  let text = DAY_TEXT.get(days);
+  if (text !== undefined) return text;
+  // Civil date from a day count (H. Hinnant's days-to-civil algorithm): far cheaper than Date + toISOString.
   const z = days + 719_468;
   const era = Math.floor(z / 146_097);
   const doe = z - era * 146_097;
@@ -50,7 +67,10 @@ export function fromMinutes(minutes: number): string {
   const day = doy - Math.floor((153 * mp + 2) / 5) + 1;
   const month = mp < 10 ? mp + 3 : mp - 9;
   const year = yoe + era * 400 + (month <= 2 ? 1 : 0);
-  return `${year}-${pad2(month)}-${pad2(day)}T${pad2(Math.floor(inDay / 60))}:${pad2(inDay % 60)}`;
+  text = `${year}-${pad2(month)}-${pad2(day)}`;
+  if (DAY_TEXT.size >= DAY_TEXT_MAX) DAY_TEXT.clear();
+  DAY_TEXT.set(days, text);
+  return text;
 }
 
 function pad2(n: number): string {

@@ -24,9 +24,9 @@ import {
   CalendarError, climateWarnings, dayOf, fromMinutes, restFactor, scheduleSessions, toMinutes,
 } from './calendar';
 import type { ScheduledSession, SessionRequest } from './calendar';
-import { priceEstimate, usedCost } from './price';
+import { labourCentsOf, priceEstimate, priceFromCents, usedCost } from './price';
 import { cautions, ventilation } from './safety';
-import { formatCents, parseCents, usedCents } from './cents';
+import { centsOf, centsText, formatCents, hundredthsOfHours, parseCents, usedCents, usedCentsNumber } from './cents';
 import { compiledCalendar, materialMap, rateMap, speciesMap } from './lookups';
 
 /** A problem with the input that only the catalog can reveal (an unknown system or species). */
@@ -221,28 +221,43 @@ function workStage(stage: Stage, parts: readonly PartContext[], catalog: Catalog
 
 /**
  * Prices one material's need: packs, cost of the packs and of the quantity used. The cost is worked in whole
- * cents where that gives exactly what decimal money gives (see ./cents), in decimal money otherwise.
+ * cents where that gives exactly what decimal money gives (see ./cents): in safe integers, else in big integers,
+ * else in decimal money.
  */
-function priceMaterial(material: Material, need: number, wholePacks: boolean): { result: MaterialResult; charged: Money | bigint; packsCents: bigint | null } {
+function priceMaterial(material: Material, need: number, wholePacks: boolean): { result: MaterialResult; charged: Money | number; packsFree: boolean } {
   const choice = choosePacks(need, material.packs);
-  const packsCents = parseCents(choice.cost);
-  const usedC = packsCents === null ? null : usedCents(packsCents, choice.bought, choice.need);
-  let charged: Money | bigint;
+  const cost = choice.cost;
+  let charged: Money | number;
   let usedText: string;
   let chargeText: string;
-  if (packsCents !== null && usedC !== null) {
-    charged = wholePacks ? packsCents : usedC;
-    usedText = formatCents(usedC);
-    chargeText = formatCents(charged);
+  let packsFree: boolean;
+  const packsC = centsOf(cost);
+  const usedC = packsC === null ? null : usedCentsNumber(packsC, choice.bought, choice.need);
+  if (packsC !== null && usedC !== null) {
+    packsFree = packsC === 0;
+    charged = wholePacks ? packsC : usedC;
+    usedText = centsText(usedC);
+    chargeText = wholePacks ? centsText(packsC) : usedText;
   } else {
-    const used = usedCost(choice.cost, choice.bought, choice.need);
-    charged = wholePacks ? money(choice.cost) : used;
-    usedText = formatAmount(used);
-    chargeText = formatAmount(charged);
+    const packsCents = parseCents(cost);
+    const usedBig = packsCents === null ? null : usedCents(packsCents, choice.bought, choice.need);
+    if (packsCents !== null && usedBig !== null) {
+      packsFree = packsCents === 0n;
+      const chargedBig = wholePacks ? packsCents : usedBig;
+      usedText = formatCents(usedBig);
+      chargeText = formatCents(chargedBig);
+      charged = money(chargeText);
+    } else {
+      const used = usedCost(cost, choice.bought, choice.need);
+      charged = wholePacks ? money(cost) : used;
+      packsFree = money(cost).isZero();
+      usedText = formatAmount(used);
+      chargeText = formatAmount(charged);
+    }
   }
   return {
     charged,
-    packsCents,
+    packsFree,
     result: {
       key: material.key,
       name: material.name,
@@ -252,21 +267,29 @@ function priceMaterial(material: Material, need: number, wholePacks: boolean): {
       packs: choice.packs,
       bought: choice.bought,
       leftover: round(choice.leftover, 3),
-      packsCost: choice.cost,
+      packsCost: cost,
       usedCost: usedText,
       charge: chargeText,
     },
   };
 }
 
-/** The sum of the materials' charges: in whole cents when every charge is in cents, in decimal money otherwise. */
-function sumCharged(charges: ReadonlyArray<Money | bigint>): Money {
-  let cents = 0n;
+/**
+ * The sum of the materials' charges: in whole cents (a safe integer) when every charge is in cents, in decimal
+ * money otherwise.
+ */
+function sumCharged(charges: ReadonlyArray<Money | number>): { cents: number | null; money: () => Money } {
+  let cents = 0;
+  let exact = true;
   for (const c of charges) {
-    if (typeof c !== 'bigint') return sumMoney(charges.map((x) => (typeof x === 'bigint' ? money(formatCents(x)) : x)));
+    if (typeof c !== 'number') {
+      exact = false;
+      break;
+    }
     cents += c;
   }
-  return money(formatCents(cents));
+  if (exact && Number.isSafeInteger(cents)) return { cents, money: () => money(centsText(cents)) };
+  return { cents: null, money: () => sumMoney(charges.map((x) => (typeof x === 'number' ? money(centsText(x)) : x))) };
 }
 
 
@@ -345,11 +368,16 @@ export function estimate(rawInput: EstimateInput, catalog: Catalog, options: Est
   });
   const materialsCost = sumCharged(priced.map((p) => p.charged));
 
-  // Labour.
-  const labourHours = roundHours(works.reduce((t, w) => t + w.labourMin, 0) / 60);
+  // Labour: to a hundredth of an hour and to the cent in safe integers where they give the decimal working's figures.
+  let labourMinutesTotal = 0;
+  for (const w of works) labourMinutesTotal += w.labourMin;
+  const rawHours = labourMinutesTotal / 60;
+  const hundredths = hundredthsOfHours(rawHours);
+  const labourHours = hundredths === null ? roundHours(rawHours) : hundredths / 100;
   const rate = rateMap(catalog.labourRates).get(catalog.pricing.polisherRate);
   if (!rate) throw new EstimateError('unknown-rate', ['pricing', 'polisherRate'], `Unknown labour rate "${catalog.pricing.polisherRate}"`);
-  const labour = labourCost(labourHours, rate.perHour);
+  const labourCents = hundredths === null ? null : labourCentsOf(hundredths, rate.perHour);
+  const labourText = labourCents === null ? formatAmount(labourCost(labourHours, rate.perHour)) : centsText(labourCents);
 
   // Calendar.
   const climate = input.climate ?? { temperatureC: 20, humidityPct: 50 };
@@ -393,16 +421,23 @@ export function estimate(rawInput: EstimateInput, catalog: Catalog, options: Est
   }
 
   // Price.
-  const price = priceEstimate({ materialsCost, labourHours, labourCost: labour, perHour: rate.perHour, discountPct: input.discountPct, pricing: catalog.pricing });
+  const price =
+    (materialsCost.cents !== null && labourCents !== null
+      ? priceFromCents({ materialsCents: materialsCost.cents, labourHours, labourCents, perHour: rate.perHour, discountPct: input.discountPct, pricing: catalog.pricing })
+      : null) ??
+    priceEstimate({
+      materialsCost: materialsCost.money(), labourHours, labourCost: labourCents === null ? labourCost(labourHours, rate.perHour) : money(centsText(labourCents)),
+      perHour: rate.perHour, discountPct: input.discountPct, pricing: catalog.pricing,
+    });
   if (input.discountPct > catalog.pricing.maxDiscountPct) {
     warnings.push({ code: 'discount-over-cap', text: `A discount of ${input.discountPct} % is above the workshop's cap of ${catalog.pricing.maxDiscountPct} %.` });
   }
 
-  if (money(price.total).isZero()) {
+  if (/^-?0\.00$/.test(price.total)) {
     warnings.push({ code: 'zero-price', text: 'The price comes to 0.00: the labour rate and the materials in use have no prices yet. Enter them in the price list before quoting.' });
   } else {
     const unpriced = priced
-      .filter((p) => p.result.need > 0 && (p.packsCents === null ? money(p.result.packsCost).isZero() : p.packsCents === 0n))
+      .filter((p) => p.result.need > 0 && p.packsFree)
       .map((p) => p.result.name);
     if (unpriced.length > 0) warnings.push({ code: 'unpriced-materials', text: `No price yet for ${unpriced.join(', ')}: they are counted at 0.00.` });
   }
@@ -449,7 +484,7 @@ export function estimate(rawInput: EstimateInput, catalog: Catalog, options: Est
     parts,
     stages: works.map((w) => w.result),
     materials: priced.map((p) => p.result),
-    labour: { hours: labourHours, rate: rate.key, perHour: rate.perHour, cost: formatAmount(labour) },
+    labour: { hours: labourHours, rate: rate.key, perHour: rate.perHour, cost: labourText },
     calendar: {
       start: fromMinutes(jobStart),
       end: fromMinutes(jobEnd),

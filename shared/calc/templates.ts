@@ -121,20 +121,16 @@ interface PartSpec {
 }
 
 function part(spec: PartSpec, wood: { species: string; veneered: boolean }, write: (mm: number) => LengthInput): Part {
-  return {
-    id: spec.id,
-    name: spec.name,
-    shape: spec.shape,
-    faces: spec.faces ?? 1,
-    edges: spec.edges ?? false,
-    ...(spec.thickness === undefined ? {} : { thickness: write(mm(spec.thickness)) }),
-    count: spec.count ?? 1,
-    cutOuts: [],
-    species: wood.species,
-    veneered: wood.veneered,
-    complexity: spec.complexity ?? 'flat',
-    show: spec.show ?? true,
-  };
+  // Fields in the order the parts list has always shown them, the thickness only when the part has one.
+  const out = { id: spec.id, name: spec.name, shape: spec.shape, faces: spec.faces ?? 1, edges: spec.edges ?? false } as Part;
+  if (spec.thickness !== undefined) out.thickness = write(mm(spec.thickness));
+  out.count = spec.count ?? 1;
+  out.cutOuts = [];
+  out.species = wood.species;
+  out.veneered = wood.veneered;
+  out.complexity = spec.complexity ?? 'flat';
+  out.show = spec.show ?? true;
+  return out;
 }
 
 /** The smallest generated dimension, so that a very small piece still gives a valid parts list. */

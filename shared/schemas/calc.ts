@@ -142,37 +142,49 @@ export const LocalDateTimeSchema = dateOrDateTimeSchema({ ...DATE_RULES.calcStar
 
 type Path = Array<string | number>;
 
-/** Every length in an input with its path, for the check against the default unit. */
-function lengthsOf(input: {
-  piece?: { dimensions: Record<string, LengthInput>; parts?: Part[] | undefined } | undefined;
-  parts?: Part[] | undefined;
-}): Array<{ path: Path; value: string | number; allowZero: boolean }> {
-  const found: Array<{ path: Path; value: string | number; allowZero: boolean }> = [];
-  const fromShape = (shape: Record<string, unknown>, path: Path): void => {
-    for (const [name, value] of Object.entries(shape)) {
+/**
+ * Visits every length in an input, in order, for the check against the default unit. The path of a length is
+ * only built when it is asked for (an issue to report): an input of hundreds of parts is read on every keystroke.
+ */
+function eachLength(
+  input: {
+    piece?: { dimensions: Record<string, LengthInput>; parts?: Part[] | undefined } | undefined;
+    parts?: Part[] | undefined;
+  },
+  visit: (value: string | number, allowZero: boolean, path: () => Path) => void,
+): void {
+  const fromShape = (shape: Record<string, unknown>, path: () => Path): void => {
+    for (const name in shape) {
       if (name === 'kind' || name === 'count') continue;
+      const value = shape[name];
       if (name === 'points' && Array.isArray(value)) {
-        value.forEach((pt: unknown, i) => {
-          if (Array.isArray(pt)) pt.forEach((c: unknown, j) => { if (typeof c === 'string' || typeof c === 'number') found.push({ path: [...path, 'points', i, j], value: c, allowZero: true }); });
-        });
+        for (let i = 0; i < value.length; i++) {
+          const pt: unknown = value[i];
+          if (!Array.isArray(pt)) continue;
+          for (let j = 0; j < pt.length; j++) {
+            const c: unknown = pt[j];
+            if (typeof c === 'string' || typeof c === 'number') visit(c, true, () => [...path(), 'points', i, j]);
+          }
+        }
       } else if (typeof value === 'string' || typeof value === 'number') {
-        found.push({ path: [...path, name], value, allowZero: false });
+        visit(value, false, () => [...path(), name]);
       }
     }
   };
   const fromParts = (parts: Part[] | undefined, path: Path): void => {
-    parts?.forEach((part, i) => {
-      fromShape(part.shape, [...path, i, 'shape']);
-      if (part.thickness !== undefined) found.push({ path: [...path, i, 'thickness'], value: part.thickness, allowZero: false });
-      part.cutOuts.forEach((c, j) => fromShape(c, [...path, i, 'cutOuts', j]));
-    });
+    if (!parts) return;
+    for (let i = 0; i < parts.length; i++) {
+      const part = parts[i] as Part;
+      fromShape(part.shape, () => [...path, i, 'shape']);
+      if (part.thickness !== undefined) visit(part.thickness, false, () => [...path, i, 'thickness']);
+      for (let j = 0; j < part.cutOuts.length; j++) fromShape(part.cutOuts[j] as Record<string, unknown>, () => [...path, i, 'cutOuts', j]);
+    }
   };
   if (input.piece) {
-    for (const [name, value] of Object.entries(input.piece.dimensions)) found.push({ path: ['piece', 'dimensions', name], value, allowZero: false });
+    for (const [name, value] of Object.entries(input.piece.dimensions)) visit(value, false, () => ['piece', 'dimensions', name]);
     fromParts(input.piece.parts, ['piece', 'parts']);
   }
   fromParts(input.parts, ['parts']);
-  return found;
 }
 
 /** What the estimator is asked to price. Only the piece is required; everything else has a default. */
@@ -196,16 +208,22 @@ export const EstimateInputSchema = z
     if (!input.piece && !input.parts) ctx.addIssue({ code: 'custom', path: ['piece'], message: 'give a piece (template or parts list)' });
     if (input.piece && input.parts) ctx.addIssue({ code: 'custom', path: ['parts'], message: 'give the parts inside piece or at the top level, not both' });
     const unit: LengthUnit = input.defaultLengthUnit;
-    for (const { path, value, allowZero } of lengthsOf(input)) {
-      // Numbers out of range have already been reported by the field's own schema.
-      if (typeof value === 'number' && !((allowZero ? value >= 0 : value > 0) && value <= 100_000)) continue;
+    const zeroAllowed = { allowZero: true };
+    const zeroRefused = { allowZero: false };
+    eachLength(input, (value, allowZero, path) => {
+      if (typeof value === 'number') {
+        // Numbers out of range have already been reported by the field's own schema; millimetres in range are
+        // taken as they are.
+        if (!((allowZero ? value >= 0 : value > 0) && value <= 100_000)) return;
+        if (unit === 'mm' && !Object.is(value, -0)) return;
+      }
       try {
-        parseLength(value, unit, { allowZero });
+        parseLength(value, unit, allowZero ? zeroAllowed : zeroRefused);
       } catch (error) {
         if (!(error instanceof UnitParseError)) throw error;
-        ctx.addIssue({ code: 'custom', path, message: error.message });
+        ctx.addIssue({ code: 'custom', path: path(), message: error.message });
       }
-    }
+    });
   });
 export type EstimateInput = z.input<typeof EstimateInputSchema>;
 export type ParsedEstimateInput = z.infer<typeof EstimateInputSchema>;

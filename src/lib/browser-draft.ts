@@ -3,7 +3,7 @@
  * a closed tab or a flat battery: written on every change once the user has changed something, offered again on
  * return, and cleared when the work is saved to the server or discarded.
  */
-import { useCallback, useEffect, useState, useSyncExternalStore } from 'react';
+import { useCallback, useEffect, useMemo, useState, useSyncExternalStore } from 'react';
 
 const PREFIX = 'shellwright:draft:';
 
@@ -42,7 +42,8 @@ export function useBrowserDraft<T>(key: string | undefined, value: T, initial: T
     const stored = read<T>(key);
     return stored && JSON.stringify(stored.value) !== JSON.stringify(initial) ? stored : null;
   });
-  const changed = JSON.stringify(value) !== JSON.stringify(initial);
+  // Worked out once per value, not on every render of the form (a long form re-renders on every keystroke).
+  const changed = useMemo(() => JSON.stringify(value) !== JSON.stringify(initial), [value, initial]);
   useEffect(() => {
     if (!key || !changed) return;
     try {

@@ -22,6 +22,35 @@ function renderEditor(onSave: (p: SavePayload) => void = () => {}) {
   return renderWithApp(<EstimateEditor calc={CALC} pieceKind="grand" initial={initial} saveLabel="Save estimate" onSave={onSave} today="2026-03-02" />);
 }
 
+/**
+ * Direct DOM look-ups by accessible name. Role and label queries over the whole editor (over a thousand elements,
+ * two thousand with the parts table) take seconds each in jsdom; these find the same controls by the same names:
+ * a label's exact text and the control it is for, an aria-label, or a button's own words.
+ */
+function labelled(name: string, scope: ParentNode = document): HTMLInputElement {
+  for (const label of scope.querySelectorAll('label')) {
+    if (label.textContent?.trim() === name && label.htmlFor) {
+      const control = document.getElementById(label.htmlFor);
+      if (control) return control as HTMLInputElement;
+    }
+  }
+  for (const el of scope.querySelectorAll<HTMLElement>('[aria-label]')) if (el.getAttribute('aria-label') === name) return el as HTMLInputElement;
+  throw new Error(`Nothing is labelled "${name}"`);
+}
+
+function button(name: string | RegExp, scope: ParentNode = document): HTMLButtonElement {
+  for (const b of scope.querySelectorAll('button')) {
+    const text = b.getAttribute('aria-label') ?? b.textContent?.trim() ?? '';
+    if (typeof name === 'string' ? text === name : name.test(text)) return b;
+  }
+  throw new Error(`No button "${String(name)}"`);
+}
+
+function heading(name: string): HTMLElement {
+  for (const h of document.querySelectorAll<HTMLElement>('h1, h2, h3, h4')) if (h.textContent?.trim() === name) return h;
+  throw new Error(`No heading "${name}"`);
+}
+
 const text = (testId: string) => screen.getByTestId(testId).textContent ?? '';
 const areaValue = (s: string) => Number(s.replace(/[^\d.]/g, ''));
 
@@ -36,7 +65,7 @@ describe('EstimateEditor', () => {
     expect(text('total-days')).toMatch(/^\d+ days?$/);
     expect(text('total-price')).toMatch(/^£[\d,]+\.\d{2}$/);
     // The cautions and the ventilation figure come with every estimate.
-    expect(screen.getByRole('heading', { name: 'Safety cautions' })).toBeTruthy();
+    expect(heading('Safety cautions')).toBeTruthy();
     expect(text('ventilation')).toMatch(/m³\/h/);
     // Area per part, per-stage figures and packs show their units too.
     expect(within(screen.getByTestId('part-area-lid-top')).getAllByText(/m²$/).length).toBeGreaterThan(0);
@@ -47,9 +76,9 @@ describe('EstimateEditor', () => {
   it('typing a dimension updates the area shown', async () => {
     renderEditor();
     const before = areaValue(text('total-area'));
-    fireEvent.change(screen.getByLabelText('Length'), { target: { value: '6 ft 3 in' } });
+    fireEvent.change(labelled('Length'), { target: { value: '6 ft 3 in' } });
     expect(screen.getByText('read as 1905 mm (75.0 in)')).toBeTruthy();
-    fireEvent.change(screen.getByLabelText('Length'), { target: { value: '250 cm' } });
+    fireEvent.change(labelled('Length'), { target: { value: '250 cm' } });
     await waitFor(() => expect(areaValue(text('total-area'))).toBeGreaterThan(before));
     expect(text('piece-area')).toBe(text('total-area'));
   });
@@ -57,7 +86,7 @@ describe('EstimateEditor', () => {
   it('a bad length shows the message beside the field and keeps the last figures, marked out of date', async () => {
     renderEditor();
     const price = text('total-price');
-    const length = screen.getByLabelText('Length');
+    const length = labelled('Length');
     fireEvent.change(length, { target: { value: '190 furlongs' } });
     await waitFor(() => expect(length.getAttribute('aria-invalid')).toBe('true'));
     const message = document.getElementById(length.getAttribute('aria-describedby')!)!;
@@ -72,7 +101,7 @@ describe('EstimateEditor', () => {
 
   it('switches to imperial display and remembers the choice', async () => {
     const first = renderEditor();
-    fireEvent.click(screen.getByRole('button', { name: /Imperial/ }));
+    fireEvent.click(button(/Imperial/));
     expect(text('total-area')).toMatch(/ft²$/);
     expect(text('total-flakes')).toMatch(/(oz|lb)$/);
     first.unmount();
@@ -86,22 +115,22 @@ describe('EstimateEditor', () => {
 
   it('edits the generated parts table: a count changes that part’s area, a bad count is named beside the field', async () => {
     renderEditor();
-    fireEvent.click(screen.getByRole('button', { name: 'Edit the parts table' }));
+    fireEvent.click(button('Edit the parts table'));
     const legs = row(/^Part \d+: Legs$/);
     const area = within(legs).getByTestId(/row-area-/);
     const before = areaValue(area.textContent ?? '');
-    fireEvent.change(within(legs).getByLabelText('Count of Legs'), { target: { value: '6' } });
+    fireEvent.change(labelled('Count of Legs', legs), { target: { value: '6' } });
     await waitFor(() => expect(areaValue(area.textContent ?? '')).toBeCloseTo(before * 2, 2));
-    fireEvent.change(within(legs).getByLabelText('Count of Legs'), { target: { value: 'three' } });
+    fireEvent.change(labelled('Count of Legs', legs), { target: { value: 'three' } });
     await waitFor(() => expect(within(legs).getByRole('alert').textContent).toMatch(/whole number/));
     expect(screen.getByTestId('stale')).toBeTruthy();
   }, 30_000);
 
   it('adds, duplicates and removes parts', async () => {
     renderEditor();
-    fireEvent.click(screen.getByRole('button', { name: 'Edit the parts table' }));
+    fireEvent.click(button('Edit the parts table'));
     const start = rows().length;
-    fireEvent.click(within(row(/: Lyre$/)).getByLabelText('Duplicate Lyre'));
+    fireEvent.click(labelled('Duplicate Lyre', row(/: Lyre$/)));
     expect(rows().length).toBe(start + 1);
     expect(row(/Lyre \(copy\)/)).toBeTruthy();
     fireEvent.click(within(row(/Lyre \(copy\)/)).getByLabelText('Remove Lyre (copy)'));
@@ -109,17 +138,17 @@ describe('EstimateEditor', () => {
     fireEvent.click(screen.getByText('Add a part'));
     expect(rows().length).toBe(start + 1);
     const added = row(/New part/);
-    fireEvent.change(within(added).getByLabelText('Length of New part'), { target: { value: '50 cm' } });
-    fireEvent.change(within(added).getByLabelText('Width of New part'), { target: { value: '40 cm' } });
+    fireEvent.change(labelled('Length of New part', added), { target: { value: '50 cm' } });
+    fireEvent.change(labelled('Width of New part', added), { target: { value: '40 cm' } });
     await waitFor(() => expect(within(added).getByTestId(/row-area-/).textContent).toBe('0.20 m²'));
   }, 30_000);
 
   it('saves the inputs only: the server works out the figures again', async () => {
     const onSave = vi.fn();
     renderEditor(onSave);
-    fireEvent.change(screen.getByLabelText('Length'), { target: { value: '195 cm' } });
-    fireEvent.change(screen.getByLabelText('Sessions of Bodying with the rubber'), { target: { value: '8' } });
-    fireEvent.click(screen.getByRole('button', { name: 'Save estimate' }));
+    fireEvent.change(labelled('Length'), { target: { value: '195 cm' } });
+    fireEvent.change(labelled('Sessions of Bodying with the rubber'), { target: { value: '8' } });
+    fireEvent.click(button('Save estimate'));
     expect(onSave).toHaveBeenCalledTimes(1);
     const payload = onSave.mock.calls[0]![0] as SavePayload;
     expect(payload.input.piece).toMatchObject({ template: 'grand', dimensions: { length: '195 cm' } });
@@ -131,9 +160,9 @@ describe('EstimateEditor', () => {
   it('refuses to save while a field is wrong, and says why', async () => {
     const onSave = vi.fn();
     renderEditor(onSave);
-    fireEvent.change(screen.getByLabelText('Relative humidity'), { target: { value: '140' } });
-    await waitFor(() => expect(screen.getByLabelText('Relative humidity').getAttribute('aria-invalid')).toBe('true'));
-    fireEvent.click(screen.getByRole('button', { name: 'Save estimate' }));
+    fireEvent.change(labelled('Relative humidity'), { target: { value: '140' } });
+    await waitFor(() => expect(labelled('Relative humidity').getAttribute('aria-invalid')).toBe('true'));
+    fireEvent.click(button('Save estimate'));
     expect(onSave).not.toHaveBeenCalled();
     expect(screen.getByText(/Fix the fields marked ▲ first/)).toBeTruthy();
   });
@@ -148,25 +177,25 @@ describe('EstimateEditor keeps unsaved work in the browser', () => {
   it('offers what was typed again after the page is closed, and restores it on request', async () => {
     const first = renderKept();
     expect(screen.queryByText('Unsaved work on this device')).toBeNull();
-    fireEvent.change(screen.getByLabelText('Length'), { target: { value: '250 cm' } });
+    fireEvent.change(labelled('Length'), { target: { value: '250 cm' } });
     await waitFor(() => expect(window.localStorage.getItem('shellwright:draft:new-estimate:piece:1')).toContain('250 cm'));
     first.unmount();
 
     renderKept();
     expect(await screen.findByText('Unsaved work on this device')).toBeTruthy();
-    expect((screen.getByLabelText('Length') as HTMLInputElement).value).not.toBe('250 cm');
-    fireEvent.click(screen.getByRole('button', { name: 'Restore my unsaved work' }));
-    await waitFor(() => expect((screen.getByLabelText('Length') as HTMLInputElement).value).toBe('250 cm'));
+    expect((labelled('Length') as HTMLInputElement).value).not.toBe('250 cm');
+    fireEvent.click(button('Restore my unsaved work'));
+    await waitFor(() => expect((labelled('Length') as HTMLInputElement).value).toBe('250 cm'));
     expect(screen.queryByText('Unsaved work on this device')).toBeNull();
   });
 
   it('discarding forgets the draft, and an unchanged form keeps nothing', async () => {
     const first = renderKept();
-    fireEvent.change(screen.getByLabelText('Length'), { target: { value: '250 cm' } });
+    fireEvent.change(labelled('Length'), { target: { value: '250 cm' } });
     await waitFor(() => expect(window.localStorage.getItem('shellwright:draft:new-estimate:piece:1')).not.toBeNull());
     first.unmount();
     const second = renderKept();
-    fireEvent.click(await screen.findByRole('button', { name: 'Discard it' }));
+    fireEvent.click(await waitFor(() => button('Discard it')));
     expect(window.localStorage.getItem('shellwright:draft:new-estimate:piece:1')).toBeNull();
     second.unmount();
     renderKept();

@@ -18,7 +18,7 @@ import { formatArea } from '../lib/measures';
 import { CautionsPanel } from './cautions';
 import { CellInput, CheckField, LengthInput, MiniSelect } from './fields';
 import { PartsTable } from './parts-table';
-import { ResultsDetail } from './results-detail';
+import { DeferredResultsDetail } from './results-detail';
 import { ResultsSummary } from './results-summary';
 import { StagesEditor } from './stages-editor';
 import { UnitsToggle } from './units-toggle';
@@ -357,7 +357,7 @@ export function EstimateEditor({ calc, pieceKind, initial, saveLabel, saving = f
           )}
         </aside>
       </div>
-      {result && <ResultsDetail result={result} units={units} catalog={catalog} stale={stale} />}
+      {result && <DeferredResultsDetail result={result} units={units} catalog={catalog} stale={stale} />}
     </form>
   );
 }

@@ -1,4 +1,4 @@
-import { lazy, memo, Suspense, type ReactNode } from 'react';
+import { lazy, memo, startTransition, Suspense, useEffect, useState, type ReactNode } from 'react';
 import { cutUnit, type Catalog } from '@shared/schemas/catalog';
 import type { EstimateResult } from '@shared/schemas/calc';
 import type { UnitSystem } from '@shared/units';
@@ -27,6 +27,40 @@ function Section({ title, children, aside, id }: { title: string; children: Reac
 const th = 'px-3 py-2 font-semibold';
 const td = 'px-3 py-1.5';
 const tdNum = 'num px-3 py-1.5 text-right whitespace-nowrap';
+
+type PartResultRow = EstimateResult['parts'][number];
+
+function PartAreaRowView({ part: p, units, wood }: { part: PartResultRow; units: UnitSystem; wood: string }) {
+  return (
+    <tr data-testid={`part-area-${p.id}`}>
+      <td className={`${td} font-medium text-walnut-900`}>{p.name}</td>
+      <td className={td}>
+        {SHAPE_LABELS[p.shape as ShapeKind] ?? p.shape}
+        {p.complexity !== 'flat' && <span className="text-walnut-500">, {COMPLEXITY_LABELS[p.complexity].toLowerCase()}</span>}
+      </td>
+      <td className={td}>
+        {wood}
+        {p.veneered ? ' veneer' : ''}
+        {!p.show && <span className="text-walnut-500"> (hidden face)</span>}
+      </td>
+      <td className={tdNum}>
+        {p.count} × {p.faces}
+      </td>
+      <td className={tdNum}>{formatArea(p.faceAreaM2, units)}</td>
+      <td className={tdNum}>{p.edgeAreaM2 > 0 ? formatArea(p.edgeAreaM2, units) : '—'}</td>
+      <td className={`${tdNum} font-semibold`}>{formatArea(p.areaM2, units)}</td>
+    </tr>
+  );
+}
+
+/** Every estimate is a new object, but most of its parts are the same as before a keystroke: compare them by value. */
+function samePart(a: PartResultRow, b: PartResultRow): boolean {
+  if (a === b) return true;
+  for (const k of Object.keys(a) as Array<keyof PartResultRow>) if (a[k] !== b[k]) return false;
+  return true;
+}
+
+const PartAreaRow = memo(PartAreaRowView, (a, b) => a.units === b.units && a.wood === b.wood && samePart(a.part, b.part));
 
 /** The full detail of an estimate: areas, stages, materials and packs, labour, calendar, price. */
 function ResultsDetailView({ result, units, catalog, stale = false }: { result: EstimateResult; units: UnitSystem; catalog?: Catalog; stale?: boolean }) {
@@ -58,24 +92,7 @@ function ResultsDetailView({ result, units, catalog, stale = false }: { result: 
           </thead>
           <tbody className="divide-y divide-parchment-200">
             {result.parts.map((p) => (
-              <tr key={p.id} data-testid={`part-area-${p.id}`}>
-                <td className={`${td} font-medium text-walnut-900`}>{p.name}</td>
-                <td className={td}>
-                  {SHAPE_LABELS[p.shape as ShapeKind] ?? p.shape}
-                  {p.complexity !== 'flat' && <span className="text-walnut-500">, {COMPLEXITY_LABELS[p.complexity].toLowerCase()}</span>}
-                </td>
-                <td className={td}>
-                  {speciesName.get(p.species) ?? p.species}
-                  {p.veneered ? ' veneer' : ''}
-                  {!p.show && <span className="text-walnut-500"> (hidden face)</span>}
-                </td>
-                <td className={tdNum}>
-                  {p.count} × {p.faces}
-                </td>
-                <td className={tdNum}>{formatArea(p.faceAreaM2, units)}</td>
-                <td className={tdNum}>{p.edgeAreaM2 > 0 ? formatArea(p.edgeAreaM2, units) : '—'}</td>
-                <td className={`${tdNum} font-semibold`}>{formatArea(p.areaM2, units)}</td>
-              </tr>
+              <PartAreaRow key={p.id} part={p} units={units} wood={speciesName.get(p.species) ?? p.species} />
             ))}
           </tbody>
         </table>
@@ -237,3 +254,21 @@ function ResultsDetailView({ result, units, catalog, stale = false }: { result: 
 
 /** Memoised: the editor re-renders on every keystroke, the detail only when the figures change. */
 export const ResultsDetail = memo(ResultsDetailView);
+
+/** How long the figures must stay the same before the detail below them is drawn again: a pause in the typing. */
+export const DETAIL_PAUSE_MS = 250;
+
+/**
+ * The detail as the live editor shows it: the tables and the calendar chart (the heaviest part of the page to draw)
+ * follow the figures once the typing pauses, in a transition that a new keystroke interrupts, so a keystroke's new
+ * totals never wait for them.
+ */
+export const DeferredResultsDetail = memo(function DeferredResultsDetail(props: { result: EstimateResult; units: UnitSystem; catalog?: Catalog; stale?: boolean }) {
+  const [shown, setShown] = useState(props.result);
+  useEffect(() => {
+    if (shown === props.result) return;
+    const timer = setTimeout(() => startTransition(() => setShown(props.result)), DETAIL_PAUSE_MS);
+    return () => clearTimeout(timer);
+  }, [props.result, shown]);
+  return <ResultsDetail {...props} result={shown} />;
+});
