@@ -62,7 +62,9 @@ describe('backup and restore', () => {
     db('restore', target, file);
     const after = await withClient(target, (c) => c.query("SELECT count(*) FROM customers WHERE name = 'Added after the backup'"));
     expect(Number(after.rows[0].count)).toBe(0);
-  });
+    // A hang guard, not a speed target: three runs of the CLI (each a Node.js start, pg_dump or pg_restore) take
+    // most of 30 s on a busy 2-core machine.
+  }, 180_000);
 
   it('refuses to restore a file that is not a backup, and leaves the database as it was', async () => {
     const bogus = path.join(os.tmpdir(), `not-a-backup-${process.pid}.dump`);
@@ -75,5 +77,5 @@ describe('backup and restore', () => {
     } finally {
       fs.rmSync(bogus, { force: true });
     }
-  });
+  }, 180_000);
 });
