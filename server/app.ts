@@ -15,6 +15,7 @@ import type { RouteInfo } from './http/guard';
 import { encodingPolicy, pathPolicy, queryPolicy, textPolicy } from './http/input';
 import { apiNotFound, errorHandler } from './http/problem';
 import { initModels } from './models';
+import { accountRoutes } from './routes/accounts';
 import { auditRoutes } from './routes/audit';
 import { authRoutes } from './routes/auth';
 import { calcRoutes } from './routes/calc';
@@ -28,6 +29,8 @@ import { publicQuoteRoutes } from './routes/public-quotes';
 import { quoteRoutes } from './routes/quotes';
 import { priceListRoutes } from './routes/price-list';
 import { settingsRoutes } from './routes/settings';
+import { reportRoutes } from './routes/reports';
+import { stockRoutes } from './routes/stock';
 import { userRoutes } from './routes/users';
 import { workshopRoutes } from './routes/workshop';
 import { invalidateAfterWrites, SharedCaches } from './services/shared-caches';
@@ -141,6 +144,9 @@ export function createApp({ config, sequelize, databaseUrl, serveClient = true }
   app.use(finishingRoutes(sequelize, routes));
   app.use(auditRoutes(sequelize, routes));
   app.use(...planningRoutes(sequelize, routes));
+  app.use(...stockRoutes(config, sequelize, routes));
+  app.use(...reportRoutes(routes));
+  app.use(...accountRoutes(config, sequelize, routes));
   app.use('/api', apiNotFound);
 
   if (serveClient) {

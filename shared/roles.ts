@@ -37,6 +37,8 @@ export const PERMISSIONS = {
   sendQuotes: ['owner', 'sales'],
   /** Give a discount above the workshop's cap. */
   discountBeyondCap: ['owner'],
+  /** Issue invoices and credit notes, record payments by hand, and follow what is owed. */
+  takePayments: ['owner', 'sales'],
   /** Refund a deposit. */
   refundDeposits: ['owner'],
   /** Read the price list and each material's price history. */
@@ -63,6 +65,12 @@ export const PERMISSIONS = {
   readForecast: ['owner', 'workshop'],
   /** Change the stock on hand. */
   editStock: ['owner'],
+  /** Count the shelf, turn the forecast into purchase orders, send and receive them. */
+  keepStock: ['owner', 'workshop'],
+  /** What a job really cost: labour, materials used, overhead and the realised margin. */
+  readCosting: ['owner'],
+  /** The owner's reports (quotes, capacity, estimates against actuals) and their exports. */
+  readReports: ['owner'],
   /** Read the actual hours against the estimates, and apply what they teach to the settings. */
   reviewActuals: ['owner'],
 } as const satisfies Record<string, readonly Role[]>;

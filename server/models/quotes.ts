@@ -185,6 +185,8 @@ export class Payment extends Model<InferAttributes<Payment>, InferCreationAttrib
   declare refundId: CreationOptional<string | null>;
   declare refundedAt: CreationOptional<Date | null>;
   declare closedAt: CreationOptional<Date | null>;
+  /** What the checkout pays: the deposit, or (after it) the balance. */
+  declare purpose: CreationOptional<'deposit' | 'balance'>;
 
   static initModel(sequelize: Sequelize): void {
     Payment.init(
@@ -205,6 +207,7 @@ export class Payment extends Model<InferAttributes<Payment>, InferCreationAttrib
         refundId: { type: DataTypes.STRING(120), allowNull: true },
         refundedAt: { type: DataTypes.DATE, allowNull: true },
         closedAt: { type: DataTypes.DATE, allowNull: true },
+        purpose: { type: DataTypes.STRING(10), allowNull: false, defaultValue: 'deposit' },
       },
       { sequelize, tableName: 'payments', underscored: true, updatedAt: false },
     );

@@ -6,73 +6,16 @@
  * through the SDK. The database keeps the rules too: one pending checkout per quote, one counted deposit per quote.
  */
 import { mirrorEstimate, moveQuote } from '@shared/schemas/state-moves';
-import Stripe from 'stripe';
+import type Stripe from 'stripe';
 import { Op, UniqueConstraintError, type Sequelize, type Transaction } from 'sequelize';
-import { money } from '@shared/money';
 import type { FlaggedPayment, PaymentDto, PaymentFlag } from '@shared/schemas/quotes';
 import type { Config } from '../config';
 import { HttpProblem, problems } from '../http/problem';
 import { Customer, Estimate, Payment, PaymentEvent, Quote, QuoteLine } from '../models';
 import { audit } from './audit';
-
-/** How long a checkout stays open at the provider (the provider accepts 30 minutes to 24 hours). */
-export const CHECKOUT_MINUTES = 60;
-
-function digitsOf(currency: string): number {
-  return new Intl.NumberFormat('en', { style: 'currency', currency }).resolvedOptions().maximumFractionDigits ?? 2;
-}
-
-/** An amount in the currency's minor unit (pence for GBP, yen for JPY), as the provider counts it. */
-export function minorUnits(amount: string, currency: string): number {
-  return money(amount).times(10 ** digitsOf(currency)).toDecimalPlaces(0).toNumber();
-}
-
-export function fromMinor(minor: number | string, currency: string): string {
-  const digits = digitsOf(currency);
-  return money(String(minor)).dividedBy(10 ** digits).toFixed(2);
-}
-
-function client(config: Config): Stripe {
-  const { apiUrl, secretKey } = config.payments;
-  if (!secretKey) throw new HttpProblem(503, 'payments_unconfigured', 'Payments unavailable', 'Card payments are not set up for this workshop.');
-  if (!apiUrl) return new Stripe(secretKey, { maxNetworkRetries: 1, telemetry: false });
-  const url = new URL(apiUrl);
-  return new Stripe(secretKey, {
-    host: url.hostname,
-    port: Number(url.port || (url.protocol === 'https:' ? 443 : 80)),
-    protocol: url.protocol === 'https:' ? 'https' : 'http',
-    maxNetworkRetries: 0,
-    telemetry: false,
-  });
-}
-
-const unreachable = (err: unknown) =>
-  new HttpProblem(502, 'payments_unreachable', 'Payment service unavailable', `The payment service did not answer: ${err instanceof Error ? err.message : String(err)}. Try again in a moment.`);
-
-export function paymentDto(p: Payment): PaymentDto {
-  const received = p.amountReceivedMinor === null || p.amountReceivedMinor === undefined ? null : fromMinor(p.amountReceivedMinor, p.currency);
-  return {
-    id: p.id,
-    amount: fromMinor(p.amountMinor, p.currency),
-    currency: p.currency,
-    status: p.status,
-    createdAt: p.createdAt.toISOString(),
-    paidAt: p.paidAt ? p.paidAt.toISOString() : null,
-    expiresAt: p.expiresAt ? p.expiresAt.toISOString() : null,
-    amountReceived: received !== null && received !== fromMinor(p.amountMinor, p.currency) ? received : null,
-    flag: p.flag ?? null,
-    note: p.note ?? null,
-    refundedAt: p.refundedAt ? p.refundedAt.toISOString() : null,
-  };
-}
-
-/** Checkouts whose time at the provider has run out are expired here too, so none shows "pending" for ever. */
-export async function lapseCheckouts(quoteId?: number, transaction?: Transaction): Promise<void> {
-  await Payment.update(
-    { status: 'expired', closedAt: new Date() },
-    { where: { status: 'pending', expiresAt: { [Op.lt]: new Date() }, ...(quoteId ? { quoteId } : {}) }, transaction },
-  );
-}
+import { balanceCompleted, recordCardPayment } from './accounts';
+import { deliver } from './mail';
+import { CHECKOUT_MINUTES, client, fromMinor, lapseCheckouts, minorUnits, paymentDto, unreachable } from './payment-provider';
 
 /**
  * The deposit checkout of an accepted quote: the open one when there is one, else a new one at the provider for the
@@ -156,6 +99,8 @@ interface Outcome {
   duplicate?: boolean;
   flag?: PaymentFlag;
   refund?: number;
+  /** A receipt to deliver once the transaction has committed. */
+  mail?: number;
 }
 
 /** What a completed checkout does: counts as the deposit, or is recorded and flagged (and refunded when paid twice). */
@@ -165,6 +110,16 @@ async function completed(session: Stripe.Checkout.Session, transaction: Transact
   const quoteId = payment?.quoteId ?? Number(session.metadata?.quote_id);
   const quote = Number.isInteger(quoteId) && quoteId > 0 ? await Quote.findByPk(quoteId, { transaction, lock: transaction.LOCK.UPDATE }) : null;
   if (!quote) return { handled: false };
+  // A checkout for the balance (after the deposit) is counted by the account's own rules.
+  if ((payment?.purpose ?? session.metadata?.purpose) === 'balance') {
+    if (!payment) {
+      payment = await Payment.create(
+        { quoteId: quote.id, providerSessionId: session.id, amountMinor: session.amount_total ?? 0, currency: quote.currency, paidAt: null, checkoutUrl: null, expiresAt: null, purpose: 'balance' },
+        { transaction },
+      );
+    }
+    return balanceCompleted(session, payment, quote, transaction);
+  }
   const received = session.amount_total ?? 0;
   const currencyOk = String(session.currency ?? '').toLowerCase() === quote.currency.toLowerCase();
   const paymentIntent = typeof session.payment_intent === 'string' ? session.payment_intent : (session.payment_intent?.id ?? null);
@@ -202,7 +157,9 @@ async function completed(session: Stripe.Checkout.Session, transaction: Transact
   const chosen = await QuoteLine.findAll({ where: { quoteId: quote.id, chosen: true }, attributes: ['estimateId'], transaction });
   await Estimate.update({ state: mirrorEstimate('accepted', 'pay') }, { where: { id: chosen.length ? chosen.map((l) => l.estimateId) : [quote.estimateId] }, transaction });
   await audit({ userId: null, action: 'quote.deposit_paid', entityType: 'quote', entityId: quote.id, after: { amountMinor: received, session: session.id } }, transaction);
-  return { handled: true };
+  // The deposit enters the job's ledger, with its receipt for the customer.
+  const mail = await recordCardPayment(quote, payment, 'deposit', transaction);
+  return { handled: true, ...(mail ? { mail } : {}) };
 }
 
 /**
@@ -234,7 +191,9 @@ export async function handleWebhook(sequelize: Sequelize, config: Config, raw: B
     throw err;
   }
   if (outcome.refund) await refundPayment(config, outcome.refund, null).catch(() => undefined);
-  return outcome;
+  const { mail, ...answer } = outcome;
+  if (mail) await deliver(config, mail);
+  return answer;
 }
 
 /**

@@ -3,6 +3,7 @@
  * labour minutes, applied only when the owner confirms), stock on hand, and the material forecast of the booked
  * jobs with a shopping list in packs.
  */
+import Decimal from 'decimal.js';
 import { Op, type Sequelize, type Transaction } from 'sequelize';
 import { choosePacks, sessionShare, toMinutes } from '@shared/calc';
 import { sumMoney } from '@shared/money';
@@ -25,6 +26,7 @@ import { AuditEntry, FinishingSystem, Job, JobSession, Material, MaterialStock, 
 import { audit } from './audit';
 import { loadCatalog } from './catalog';
 import { addDays, localNow } from './planning-context';
+import { move } from './stock/ledger';
 
 const round = (n: number, places = 2) => Math.round(n * 10 ** places) / 10 ** places;
 /** Smallest relative change worth suggesting. */
@@ -221,8 +223,8 @@ export async function setStock(sequelize: Sequelize, actorId: number, materialId
     if (!material) throw problems.notFound('Material');
     const row = await MaterialStock.findByPk(materialId, { transaction, lock: transaction.LOCK.UPDATE });
     const before = row ? Number(row.quantity) : 0;
-    if (row) await row.update({ quantity: quantity.toFixed(3), updatedBy: actorId }, { transaction });
-    else await MaterialStock.create({ materialId, quantity: quantity.toFixed(3), updatedBy: actorId }, { transaction });
+    // Through the ledger, so that the quantity set by hand is a movement like any other.
+    await move({ materialId, kind: 'set', quantity: new Decimal(quantity.toFixed(3)).minus(row?.quantity ?? 0), reason: 'Quantity set by hand', actorId }, transaction);
     await audit({ userId: actorId, action: 'stock.update', entityType: 'material', entityId: materialId, before: { name: material.name, quantity: before, unit: material.unit }, after: { name: material.name, quantity, unit: material.unit } }, transaction);
   });
   return (await listStock()).find((r) => r.materialId === materialId)!;

@@ -16,7 +16,8 @@ import type { AcceptanceRecord } from '../pdf/acceptance-pdf';
 import { Customer, Estimate, EstimateRevision, Payment, Piece, Quote, QuoteLine, Workshop } from '../models';
 import { audit } from './audit';
 import { loadSettings } from './catalog';
-import { cancelCheckout, lapseCheckouts, openCheckout } from './payments';
+import { lapseCheckouts } from './payment-provider';
+import { cancelCheckout, openCheckout } from './payments';
 import {
   acceptanceRecordOf,
   agreedOf,

@@ -163,7 +163,7 @@ export function cachesOf(req: { app?: { locals: Record<string, unknown> } }): Sh
 }
 
 /** API paths whose writes change the price list (and so the catalog), and the users. */
-const CATALOG_WRITES = /^\/api\/(price-list|settings|labour-rates|finishing-systems|species|workshop)(\/|$)/;
+const CATALOG_WRITES = /^\/api\/(price-list|settings|labour-rates|finishing-systems|species|workshop|purchase-orders)(\/|$)/;
 const USER_WRITES = /^\/api\/users(\/|$)/;
 
 /**

@@ -5,6 +5,7 @@
  * Times on the board are local and carry no time zone ("2026-12-07T08:00"), as in the coat calendar.
  */
 import { z } from 'zod';
+import { MaterialsUsedSchema } from './stock';
 import type { AgreedFigures } from './quotes';
 import { DATE_RULES, dateOrDateTimeSchema, dateSchema, localDateTimeSchema } from './dates';
 import type { DayOccupancy, PolisherOverbooking, RoomOverbooking, WhyNot } from '../calc/planning/types';
@@ -107,6 +108,8 @@ export const SessionDoneSchema = z
     materialsUsed: z.string({ message: 'must be text' }).trim().max(1000, { message: 'must be at most 1000 characters' }).optional(),
     /** A problem met in the session (blush, a cut-through edge); empty when none. */
     problem: z.string({ message: 'must be text' }).trim().max(2000, { message: 'must be at most 2000 characters' }).optional(),
+    /** The materials used, in packs (prefilled from the estimate); each takes its quantity off stock on hand. */
+    materials: MaterialsUsedSchema.optional(),
   })
   .strict();
 export type SessionDoneInput = z.input<typeof SessionDoneSchema>;

@@ -85,6 +85,20 @@ export function createRouter() {
           },
         },
         {
+          path: paths.owed,
+          lazy: async () => {
+            const { OwedPage } = await import('@/features/accounts/routes/owed');
+            return { element: <RequireAccess access="takePayments"><OwedPage /></RequireAccess> };
+          },
+        },
+        {
+          path: paths.account,
+          lazy: async () => {
+            const { AccountPage } = await import('@/features/accounts/routes/account');
+            return { element: <RequireAccess access="takePayments"><AccountPage /></RequireAccess> };
+          },
+        },
+        {
           path: paths.users,
           element: (
             <RequireAccess access="manageUsers">
@@ -114,6 +128,20 @@ export function createRouter() {
           lazy: async () => {
             const { ActualsPage } = await import('@/features/actuals/routes/actuals');
             return { element: <RequireAccess access="reviewActuals"><ActualsPage /></RequireAccess> };
+          },
+        },
+        {
+          path: paths.stock,
+          lazy: async () => {
+            const { StockPage } = await import('@/features/stock/routes/stock');
+            return { element: <RequireAccess access="keepStock"><StockPage /></RequireAccess> };
+          },
+        },
+        {
+          path: paths.reports,
+          lazy: async () => {
+            const { ReportsPage } = await import('@/features/reports/routes/reports');
+            return { element: <RequireAccess access="readReports"><ReportsPage /></RequireAccess> };
           },
         },
         ...ownerRoutes,

@@ -1,5 +1,5 @@
-import { BookUser, FileSignature, House, Layers, Mails, NotebookPen, ScrollText, SlidersHorizontal, Tags, TreeDeciduous, Users, type LucideIcon } from 'lucide-react';
-import { CalendarRange, ChartColumnBig, PackageSearch } from 'lucide-react';
+import { BookUser, HandCoins, FileSignature, House, Layers, Mails, NotebookPen, ScrollText, SlidersHorizontal, Tags, TreeDeciduous, Users, type LucideIcon } from 'lucide-react';
+import { CalendarRange, ChartColumnBig, ChartLine, Package, PackageSearch } from 'lucide-react';
 import { allows, type Access } from '@shared/roles';
 import type { Role } from '@shared/schemas/auth';
 import { paths } from './paths';
@@ -18,10 +18,13 @@ export const NAV: NavItem[] = [
   { to: paths.estimates, label: 'Estimates', icon: NotebookPen, access: 'signed-in' },
   { to: paths.quotes, label: 'Quotes', icon: FileSignature, access: 'signed-in' },
   { to: paths.outbox, label: 'Outbox', icon: Mails, access: 'sendQuotes' },
+  { to: paths.owed, label: 'Owed to us', icon: HandCoins, access: 'takePayments' },
   { to: paths.customers, label: 'Customers', icon: BookUser, access: 'signed-in' },
   { to: paths.planning, label: 'Planning', icon: CalendarRange, access: 'signed-in' },
   { to: paths.forecast, label: 'Forecast', icon: PackageSearch, access: 'readForecast' },
+  { to: paths.stock, label: 'Stock', icon: Package, access: 'keepStock' },
   { to: paths.actuals, label: 'Actuals', icon: ChartColumnBig, access: 'reviewActuals' },
+  { to: paths.reports, label: 'Reports', icon: ChartLine, access: 'readReports' },
   { to: paths.priceList, label: 'Price list', icon: Tags, access: 'readPriceList' },
   { to: paths.finishingSystems, label: 'Finishing systems', icon: Layers, access: 'readFinishing' },
   { to: paths.species, label: 'Wood species', icon: TreeDeciduous, access: 'readFinishing' },

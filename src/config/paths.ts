@@ -27,9 +27,14 @@ export const paths = {
   planningJob: '/planning/jobs/:jobId',
   actuals: '/actuals',
   forecast: '/forecast',
+  stock: '/stock',
+  reports: '/reports',
   quotes: '/quotes',
   quote: '/quotes/:quoteId',
   outbox: '/outbox',
+  /** What customers owe, by age; and one job's account (by its accepted quote). */
+  owed: '/accounts/owed',
+  account: '/accounts/quotes/:quoteId',
   /** The customer's page, opened from the signed link in the e-mail (no sign-in). */
   publicQuote: '/q/:token',
 } as const;
@@ -44,6 +49,7 @@ export const pathTo = {
   compareRevisions: (id: number, a: number, b: number) => `/estimates/${id}/compare?a=${a}&b=${b}`,
   estimatesOf: (customerId: number) => `/estimates?customerId=${customerId}`,
   quote: (id: number) => `/quotes/${id}`,
+  account: (quoteId: number) => `/accounts/quotes/${quoteId}`,
 };
 
 /** Addresses of one price-list or finishing record. */

@@ -68,6 +68,15 @@ async function routesFor(page: Page, role: Role): Promise<string[]> {
     if (system) routes.push(`/finishing-systems/${system.id}`);
   }
   if (role === 'owner') routes.push('/price-list/upload', '/price-list/reprice');
+  if (role === 'owner' || role === 'sales') {
+    for (const state of ['deposit-paid', 'accepted']) {
+      const agreed = await getJson<{ rows: { id: number }[] }>(page, `/api/quotes?state=${state}&pageSize=1`);
+      if (agreed.rows[0]) {
+        routes.push(`/accounts/quotes/${agreed.rows[0].id}`);
+        break;
+      }
+    }
+  }
   return routes;
 }
 

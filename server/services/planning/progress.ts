@@ -19,6 +19,8 @@ import {
 import { sessionLabel, sessionsOf } from './mapping';
 import { getJob } from './read';
 import { cannotPlan } from './booking';
+import { MaterialsUsedSchema } from '@shared/schemas/stock';
+import { recordSessionUse } from '../stock/ledger';
 
 /** Minutes a finish time may lie ahead of the server's clock (a browser clock slightly fast). */
 const FINISH_GRACE_MIN = 5;
@@ -64,6 +66,7 @@ export async function markSessionDone(sequelize: Sequelize, actorId: number, job
       doneAt: new Date(),
     });
     await session.save({ transaction });
+    if (input.materials?.length) await recordSessionUse(transaction, actorId, job, session, MaterialsUsedSchema.parse(input.materials));
 
     let result: SessionDoneResult['shift'] = null;
     const doneCount = session.idx + 1;

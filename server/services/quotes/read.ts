@@ -9,7 +9,7 @@ import type { Page } from '@shared/schemas/auth';
 import { type QuoteDetail, type QuoteLineDto, type QuoteListQuery, type QuoteSummary } from '@shared/schemas/quotes';
 import { problems } from '../../http/problem';
 import { Customer, Estimate, EstimateRevision, Payment, Piece, Quote, type QuoteLine } from '../../models';
-import { lapseCheckouts, paymentDto } from '../payments';
+import { lapseCheckouts, paymentDto } from '../payment-provider';
 import { anyOf, containsPattern, direction, offset, pageTotal } from '../paging';
 import { linesOf } from './locks';
 import { agreedOf, shownPricing } from './pricing';

@@ -11,6 +11,8 @@ import { Dialog } from '@/components/dialog';
 import { TextField } from '@/components/field';
 import { serverFieldErrors, zodFieldErrors } from '@/lib/form-errors';
 import { useAddJobPhoto, useMarkDone } from '../api/jobs';
+import { useSessionMaterials } from '../api/session-materials';
+import { draftLines, MaterialsUsedFields, type MaterialUseDraft } from './materials-used';
 import { dateTime, durationText, hoursText } from '../lib/time';
 import { OverbookingList } from './consequences';
 
@@ -39,6 +41,9 @@ function MarkDoneForm({ session, climate, unit, onClose }: { session: SessionToM
   const [humidityPct, setHumidity] = useState(String(climate.humidityPct));
   const [notes, setNotes] = useState('');
   const [materialsUsed, setMaterialsUsed] = useState('');
+  const prefill = useSessionMaterials(session.jobId, session.sessionId);
+  const [useChanges, setUseChanges] = useState<Record<number, Partial<MaterialUseDraft>>>({});
+  const uses = draftLines(prefill.data ?? [], useChanges);
   const [hadProblem, setHadProblem] = useState(false);
   const [problem, setProblem] = useState('');
   const [photo, setPhoto] = useState<File | null>(null);
@@ -63,6 +68,7 @@ function MarkDoneForm({ session, climate, unit, onClose }: { session: SessionToM
       notes,
       materialsUsed: materialsUsed.trim() || undefined,
       problem: hadProblem ? problem : undefined,
+      materials: uses.map((u) => ({ materialId: u.materialId, packId: u.packId, packs: u.packs === '' ? undefined : Number(u.packs) })),
     });
     if (hadProblem && !problem.trim()) {
       setErrors({ ...(parsed.success ? {} : zodFieldErrors(parsed.error)), problem: 'is required: say what went wrong' });
@@ -175,6 +181,7 @@ function MarkDoneForm({ session, climate, unit, onClose }: { session: SessionToM
               </p>
             )}
           </div>
+          <MaterialsUsedFields lines={uses} errors={errors} onChange={(materialId, patch) => setUseChanges((c) => ({ ...c, [materialId]: { ...c[materialId], ...patch } }))} />
           <label className="flex min-h-11 items-center gap-3 text-sm font-medium text-walnut-800">
             <input type="checkbox" checked={hadProblem} onChange={(e) => setHadProblem(e.target.checked)} className="h-5 w-5 accent-amber-600" />
             Something went wrong

@@ -15,6 +15,7 @@ import { Spinner } from '@/components/spinner';
 import { paths, pathTo } from '@/config/paths';
 import { useMe } from '@/lib/me';
 import { formatMoney, todayIso } from '@/lib/format';
+import { JobCostingCard } from '../components/job-costing-card';
 import { useBoard } from '../api/board';
 import { useCancelJob, useJob, useUpdateJob } from '../api/jobs';
 import { BookingForm } from '../components/booking-form';
@@ -241,6 +242,14 @@ export function JobPage() {
                 {j.estimate.number}
               </Link>{' '}
               revision {j.estimate.revision} · quote {j.quote.number}
+              {can(role, 'takePayments') ? (
+                <>
+                  {' · '}
+                  <Link className="underline" to={pathTo.account(j.quote.id)}>
+                    account
+                  </Link>
+                </>
+              ) : null}
             </span>
           </span>
         }
@@ -317,6 +326,8 @@ export function JobPage() {
           </Card>
         )}
       </div>
+
+      {can(role, 'readCosting') && <JobCostingCard jobId={j.id} />}
 
       <Card title="Planned against actual, by stage">
         <StagesTable job={j} />

@@ -11,6 +11,7 @@ import { ApiError } from '@/lib/api';
 import { formatDate, formatMoney } from '@/lib/format';
 import { publicAcceptancePdfUrl, publicPdfUrl, useDepositCancelled, useDepositCheckout, usePublicQuote } from '../api/public-quote';
 import { Answer } from '../components/answer';
+import { Balance } from '../components/balance';
 import { Contact, Letterhead, Safety, Section } from '../components/parts';
 
 function Shell({ workshop, children }: { workshop: PublicQuote['workshop'] | null; children: ReactNode }) {
@@ -375,6 +376,7 @@ export function PublicQuotePage() {
       </section>
 
       {!answerable && <Outcome token={token} q={q} returned={returned} />}
+      {q.state === 'deposit-paid' && <Balance token={token} returned={params.get('balance')} />}
       {q.lines.length > 1 ? <Pieces q={q} /> : <Work q={q} />}
       <Section id="price-heading" title="The price">
         {q.lines.length > 1 && (

@@ -160,6 +160,11 @@ export function QuotePage() {
             <a href={quotePdfUrl(q.id)} target="_blank" rel="noopener" className="inline-flex items-center gap-2 rounded-md border border-walnut-200 bg-white px-4 py-2 text-sm font-medium text-walnut-800 hover:bg-parchment-100">
               <FileText className="h-4 w-4" aria-hidden /> PDF
             </a>
+            {seller && (q.state === 'accepted' || q.state === 'deposit-paid') && (
+              <Link to={pathTo.account(q.id)} className="inline-flex items-center gap-2 rounded-md bg-walnut-800 px-4 py-2 text-sm font-medium text-parchment-50 hover:bg-walnut-700">
+                Account: invoice and payments
+              </Link>
+            )}
             {seller && open && (
               <Button
                 variant="ghost"

@@ -1,0 +1,38 @@
+import { PeriodSchema } from '@shared/schemas/reports';
+import { secureRouter, type RouteInfo } from '../http/guard';
+import { parseOr400 } from '../http/problem';
+import { estimateAccuracy } from '../services/costing/job-costing';
+import { capacityReport } from '../services/reports/capacity-report';
+import { accuracyCsv, capacityCsv, quotesCsv } from '../services/reports/exports';
+import { quotesReport } from '../services/reports/quotes-report';
+import { csvResponse } from './stock';
+
+/** The business's figures: the owner only. */
+
+/** The owner's reports, each for a chosen period, as JSON and as CSV safe to open in a spreadsheet. */
+export function reportRoutes(table: RouteInfo[]) {
+  const r = secureRouter('/api/reports', table);
+  r.get('/quotes', 'readReports', async (req, res) => {
+    res.json(await quotesReport(parseOr400(PeriodSchema, req.query)));
+  });
+  r.get('/quotes.csv', 'readReports', async (req, res) => {
+    const p = parseOr400(PeriodSchema, req.query);
+    csvResponse(res, `quotes-${p.from}-${p.to}`, quotesCsv(await quotesReport(p)));
+  });
+  r.get('/capacity', 'readReports', async (req, res) => {
+    res.json(await capacityReport(parseOr400(PeriodSchema, req.query)));
+  });
+  r.get('/capacity.csv', 'readReports', async (req, res) => {
+    const p = parseOr400(PeriodSchema, req.query);
+    csvResponse(res, `capacity-${p.from}-${p.to}`, capacityCsv(await capacityReport(p)));
+  });
+  r.get('/estimate-accuracy', 'readReports', async (req, res) => {
+    res.json(await estimateAccuracy(parseOr400(PeriodSchema, req.query)));
+  });
+  r.get('/estimate-accuracy.csv', 'readReports', async (req, res) => {
+    const p = parseOr400(PeriodSchema, req.query);
+    csvResponse(res, `estimate-accuracy-${p.from}-${p.to}`, accuracyCsv(await estimateAccuracy(p)));
+  });
+
+  return [r.router];
+}

@@ -1,0 +1,191 @@
+/**
+ * The owner's reports: quotes (sent, opened, accepted, declined, expired by month, how many turn into work and how
+ * long customers take to answer), capacity (the drying room and polishers' hours by week, behind and ahead) and
+ * estimates against the bench by finishing system and piece kind. Each for a chosen period, each chart with its
+ * table beside it, each downloadable as CSV.
+ */
+import { Download } from 'lucide-react';
+import { lazy, Suspense, useCallback, useState, type ReactNode } from 'react';
+import type { CapacityWeek, QuoteMonth } from '@shared/schemas/reports';
+import type { EstimateAccuracyRow } from '@shared/schemas/stock';
+import { Alert } from '@/components/alert';
+import { Card, PageHeader } from '@/components/card';
+import { DataTable, type Column } from '@/components/data-table';
+import { Spinner } from '@/components/spinner';
+import { todayIso } from '@/lib/format';
+import { useLocalTable } from '@/lib/use-local-table';
+import { csvHref, useAccuracyReport, useCapacityReport, useQuotesReport, type PeriodParams } from '../api/reports';
+import { monthLabel, num, pctText, weekLabel } from '../components/labels';
+import { PeriodPicker } from '../components/period-picker';
+
+const QuotesChart = lazy(() => import('../components/quotes-chart'));
+const CapacityChart = lazy(() => import('../components/capacity-chart'));
+
+function shift(date: string, days: number): string {
+  const d = new Date(`${date}T12:00:00Z`);
+  d.setUTCDate(d.getUTCDate() + days);
+  return d.toISOString().slice(0, 10);
+}
+
+function CsvLink({ href, what }: { href: string; what: string }) {
+  return (
+    <a href={href} download className="inline-flex items-center gap-1.5 rounded-md border border-walnut-200 bg-white px-2.5 py-1 text-sm font-medium text-walnut-800 hover:bg-parchment-100">
+      <Download className="h-3.5 w-3.5" aria-hidden /> CSV<span className="sr-only"> of {what}</span>
+    </a>
+  );
+}
+
+function Figure({ label, value, note }: { label: string; value: string; note?: string }) {
+  return (
+    <div className="rounded-xl border border-parchment-200 bg-white px-4 py-3 shadow-card">
+      <p className="text-xs font-semibold tracking-wide text-walnut-500 uppercase">{label}</p>
+      <p className="num text-lg font-semibold text-walnut-900">{value}</p>
+      {note && <p className="text-xs text-walnut-500">{note}</p>}
+    </div>
+  );
+}
+
+/** A chart and its table side by side on a wide screen, one under the other on a phone. */
+function ChartAndTable({ chart, table }: { chart: ReactNode; table: ReactNode }) {
+  return (
+    <div className="grid grid-cols-1 gap-4 xl:grid-cols-2">
+      <div className="min-w-0">
+        <Suspense fallback={<Spinner label="Drawing the chart…" />}>{chart}</Suspense>
+      </div>
+      <div className="min-w-0">{table}</div>
+    </div>
+  );
+}
+
+const quoteColumns: Column<QuoteMonth>[] = [
+  { key: 'month', header: 'Month', sortKey: 'month', render: (m) => monthLabel(m.month) },
+  { key: 'sent', header: 'Sent', sortKey: 'sent', align: 'right', render: (m) => m.sent },
+  { key: 'opened', header: 'Opened', sortKey: 'opened', align: 'right', render: (m) => m.opened },
+  { key: 'accepted', header: 'Accepted', sortKey: 'accepted', align: 'right', render: (m) => m.accepted },
+  { key: 'declined', header: 'Declined', sortKey: 'declined', align: 'right', render: (m) => m.declined },
+  { key: 'expired', header: 'Expired', sortKey: 'expired', align: 'right', render: (m) => m.expired },
+];
+
+function QuotesSection() {
+  const today = todayIso();
+  const [period, setPeriod] = useState<PeriodParams>({ from: `${shift(today, -150).slice(0, 7)}-01`, to: today });
+  const q = useQuotesReport(period, true);
+  const value = useCallback((m: QuoteMonth, key: string) => m[key as keyof QuoteMonth] as string | number, []);
+  const table = useLocalTable(q.data?.months ?? [], { sort: 'month', pageSize: 12, value });
+  return (
+    <Card title="Quotes" actions={<CsvLink href={csvHref('quotes', period)} what="quotes by month" />}>
+      <div className="space-y-4">
+        <PeriodPicker label="quotes" value={period} onChange={setPeriod} />
+        {q.isPending ? (
+          <Spinner label="Counting quotes…" />
+        ) : q.isError ? (
+          <Alert tone="error" title="The quotes report could not be loaded">{q.error.message}</Alert>
+        ) : (
+          <>
+            <div className="grid grid-cols-1 gap-3 sm:grid-cols-3">
+              <Figure label="Sent in the period" value={String(q.data.totals.sent)} note={`${q.data.totals.accepted} accepted · ${q.data.totals.declined} declined · ${q.data.totals.expired} expired`} />
+              <Figure label="Turned into work" value={pctText(q.data.conversionPct)} note="of the quotes sent in the period, accepted" />
+              <Figure
+                label="Time to answer"
+                value={q.data.decide.medianDays === null ? '—' : `${num(q.data.decide.medianDays)} days`}
+                note={q.data.decide.answered ? `median of ${q.data.decide.answered} answers; mean ${num(q.data.decide.meanDays!)} days` : 'no answers yet'}
+              />
+            </div>
+            <ChartAndTable
+              chart={<QuotesChart months={q.data.months} />}
+              table={<DataTable caption="Quotes by month" columns={quoteColumns} rowKey={(m) => m.month} {...table} loading={q.isFetching} empty="No months in the period." />}
+            />
+          </>
+        )}
+      </div>
+    </Card>
+  );
+}
+
+function CapacitySection() {
+  const today = todayIso();
+  const [period, setPeriod] = useState<PeriodParams>({ from: shift(today, -28), to: shift(today, 56) });
+  const c = useCapacityReport(period, true);
+  const unit = c.data?.roomUnit ?? 'bays';
+  const columns: Column<CapacityWeek>[] = [
+    { key: 'week', header: 'Week from', sortKey: 'week', render: (w) => weekLabel(w.week) },
+    { key: 'room', header: `Room (${unit}-days)`, sortKey: 'roomPct', align: 'right', render: (w) => `${num(w.roomBooked)} of ${num(w.roomAvailable)}` },
+    { key: 'roomPct', header: 'Room use', sortKey: 'roomPct', align: 'right', render: (w) => <span className={(w.roomPct ?? 0) > 100 ? 'font-semibold text-brick-700' : ''}>{pctText(w.roomPct)}</span> },
+    { key: 'hours', header: 'Polisher hours', sortKey: 'polisherPct', align: 'right', render: (w) => `${num(w.polisherHoursBooked)} h of ${num(w.polisherHoursAvailable)} h` },
+    { key: 'polisherPct', header: 'Hours use', sortKey: 'polisherPct', align: 'right', render: (w) => <span className={(w.polisherPct ?? 0) > 100 ? 'font-semibold text-brick-700' : ''}>{pctText(w.polisherPct)}</span> },
+  ];
+  const value = useCallback((w: CapacityWeek, key: string) => w[key as keyof CapacityWeek] as string | number | null, []);
+  const table = useLocalTable(c.data?.weeks ?? [], { sort: 'week', pageSize: 13, value });
+  return (
+    <Card title="Capacity" actions={<CsvLink href={csvHref('capacity', period)} what="capacity by week" />}>
+      <div className="space-y-4">
+        <PeriodPicker label="capacity" value={period} onChange={setPeriod} />
+        {c.isPending ? (
+          <Spinner label="Adding up the weeks…" />
+        ) : c.isError ? (
+          <Alert tone="error" title="The capacity report could not be loaded">{c.error.message}</Alert>
+        ) : (
+          <>
+            <div className="grid grid-cols-1 gap-3 sm:grid-cols-3">
+              <Figure label="Weeks behind" value={String(c.data.weeksBehind)} note="before this week" />
+              <Figure label="Weeks ahead" value={String(c.data.weeksAhead)} note="this week and after" />
+              <Figure
+                label="Busiest week"
+                value={pctText(Math.max(0, ...c.data.weeks.map((w) => w.roomPct ?? 0)))}
+                note={`of the drying room's ${unit}; over 100 % is overbooked`}
+              />
+            </div>
+            <ChartAndTable
+              chart={<CapacityChart weeks={c.data.weeks} today={c.data.today} />}
+              table={<DataTable caption="Capacity by week" columns={columns} rowKey={(w) => w.week} {...table} loading={c.isFetching} empty="No weeks in the period." />}
+            />
+          </>
+        )}
+      </div>
+    </Card>
+  );
+}
+
+const accuracyColumns: Column<EstimateAccuracyRow>[] = [
+  { key: 'month', header: 'Month', sortKey: 'month', render: (r) => monthLabel(r.month) },
+  { key: 'system', header: 'Finishing system', sortKey: 'systemName', render: (r) => r.systemName },
+  { key: 'kind', header: 'Piece', sortKey: 'pieceKind', render: (r) => r.pieceKind.charAt(0).toUpperCase() + r.pieceKind.slice(1) },
+  { key: 'est', header: 'Estimated', sortKey: 'estimatedHours', align: 'right', render: (r) => `${num(r.estimatedHours)} h` },
+  { key: 'act', header: 'Actual', sortKey: 'actualHours', align: 'right', render: (r) => `${num(r.actualHours)} h` },
+  { key: 'ratio', header: 'Actual ÷ estimated', sortKey: 'ratio', align: 'right', render: (r) => (r.ratio === null ? '—' : `× ${r.ratio.toFixed(2)}`) },
+  { key: 'sessions', header: 'Sessions', sortKey: 'sessions', align: 'right', render: (r) => r.sessions },
+];
+
+function AccuracySection() {
+  const today = todayIso();
+  const [period, setPeriod] = useState<PeriodParams>({ from: shift(today, -365), to: today });
+  const a = useAccuracyReport(period, true);
+  const value = useCallback((r: EstimateAccuracyRow, key: string) => r[key as keyof EstimateAccuracyRow] as string | number | null, []);
+  const table = useLocalTable(a.data?.rows ?? [], { sort: 'month', pageSize: 15, value });
+  return (
+    <Card title="Estimates against the bench" actions={<CsvLink href={csvHref('estimate-accuracy', period)} what="estimated against actual hours" />}>
+      <div className="space-y-4">
+        <PeriodPicker label="estimate accuracy" value={period} onChange={setPeriod} />
+        <p className="text-sm text-walnut-600">Hands-on hours of the sessions done, by month, finishing system and piece. Above × 1.00 the estimates fell short; the Actuals page turns this into corrections.</p>
+        {a.isPending ? (
+          <Spinner label="Reading the sessions…" />
+        ) : a.isError ? (
+          <Alert tone="error" title="The report could not be loaded">{a.error.message}</Alert>
+        ) : (
+          <DataTable caption="Estimated against actual hours" columns={accuracyColumns} rowKey={(r) => `${r.month}-${r.system}-${r.pieceKind}`} {...table} loading={a.isFetching} empty="No session was marked done in the period." />
+        )}
+      </div>
+    </Card>
+  );
+}
+
+export function ReportsPage() {
+  return (
+    <div className="space-y-6">
+      <PageHeader title="Reports" description="How the business is running: quotes, the workshop's capacity and how estimates compare with the bench. Choose a period for each; download any as CSV." />
+      <QuotesSection />
+      <CapacitySection />
+      <AccuracySection />
+    </div>
+  );
+}
