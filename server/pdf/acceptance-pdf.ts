@@ -3,10 +3,10 @@
  * balance), who accepted (the typed name), when, and from which network address. One page for the customer's and
  * the workshop's files, in the quote's Lora and walnut.
  */
-import PDFDocument from 'pdfkit';
-import { LORA, registerLora } from './pdf-fonts';
-import { formatHours, formatMoney, formatPercent, pdfText } from './pdf-format';
-import { Flow, INK, STYLE, drawTable, type TableRow } from './pdf-layout';
+import { drawContactFooter, drawLetterhead, openPdf } from './pdf-document';
+import { LORA } from './pdf-fonts';
+import { formatHours, formatMoney, formatPercent } from './pdf-format';
+import { INK, STYLE, drawTable, type TableRow } from './pdf-layout';
 
 export interface AcceptanceRecord {
   paperSize: 'A4' | 'Letter';
@@ -40,37 +40,17 @@ export interface AcceptanceRecord {
   terms: string[];
 }
 
-const MARGIN = { top: 60, bottom: 60, left: 56, right: 56 };
 const when = new Intl.DateTimeFormat('en-GB', { day: 'numeric', month: 'long', year: 'numeric', hour: '2-digit', minute: '2-digit', second: '2-digit', timeZone: 'UTC', timeZoneName: 'short' });
 
 export async function renderAcceptancePdf(r: AcceptanceRecord): Promise<Buffer> {
-  const doc = new PDFDocument({
-    size: r.paperSize === 'Letter' ? 'LETTER' : 'A4',
-    margins: { ...MARGIN },
-    bufferPages: true,
-    info: {
-      Title: pdfText(`Acceptance of quote ${r.quoteNumber}`),
-      Author: pdfText(r.workshop.name),
-      Subject: pdfText(`What ${r.acceptedName} agreed to for ${r.piece}`),
-      Creator: 'Shellwright',
-    },
+  const { flow, finish } = openPdf(r.paperSize, {
+    title: `Acceptance of quote ${r.quoteNumber}`,
+    author: r.workshop.name,
+    subject: `What ${r.acceptedName} agreed to for ${r.piece}`,
   });
-  const chunks: Buffer[] = [];
-  const done = new Promise<Buffer>((resolve, reject) => {
-    doc.on('data', (c: Buffer) => chunks.push(c));
-    doc.on('end', () => resolve(Buffer.concat(chunks)));
-    doc.on('error', reject);
-  });
-  registerLora(doc);
-  doc.font(LORA.regular);
-  const flow = new Flow(doc);
-  flow.y = flow.top;
   const money = (a: string) => formatMoney(a, r.currency);
 
-  flow.label(pdfText(r.workshop.name).toUpperCase(), flow.left, flow.y, flow.width);
-  flow.y += 14;
-  flow.paragraph(`Acceptance of quote ${r.quoteNumber}`, { font: LORA.semibold, size: 20, color: INK.walnut }, { after: 4 });
-  flow.paragraph(`${r.piece} · estimate ${r.estimateNumber} · ${r.systemName}`, STYLE.smallMuted, { after: 18 });
+  drawLetterhead(flow, r.workshop.name, `Acceptance of quote ${r.quoteNumber}`, `${r.piece} · estimate ${r.estimateNumber} · ${r.systemName}`);
 
   flow.heading('Who accepted, and when', 80);
   drawTable(flow, {
@@ -125,15 +105,6 @@ export async function renderAcceptancePdf(r: AcceptanceRecord): Promise<Buffer> 
     STYLE.smallItalic,
   );
 
-  const range = doc.bufferedPageRange();
-  for (let i = range.start; i < range.start + range.count; i++) {
-    doc.switchToPage(i);
-    const fy = doc.page.height - 40;
-    flow.hRule(MARGIN.left, doc.page.width - MARGIN.right, fy - 8, INK.rule, 0.5);
-    const contact = [r.workshop.name, r.workshop.phone, r.workshop.email].filter(Boolean).join(' · ');
-    flow.textAt(contact, MARGIN.left, fy, doc.page.width - MARGIN.left - MARGIN.right - 90, { ...STYLE.smallMuted, size: 8 }, { oneLine: true, ellipsis: true });
-    flow.textAt(`Page ${i - range.start + 1} of ${range.count}`, doc.page.width - MARGIN.right - 90, fy, 90, { ...STYLE.smallMuted, size: 8 }, { align: 'right', oneLine: true });
-  }
-  doc.end();
-  return done;
+  drawContactFooter(flow, r.workshop);
+  return finish();
 }

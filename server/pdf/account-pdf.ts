@@ -3,43 +3,22 @@
  * date, what it is for, the tax in it, what has been paid and what is still owed. Drawn from the content stored when
  * the document was issued, so a copy printed later is the same document.
  */
-import PDFDocument from 'pdfkit';
 import type { DocumentContent } from '../models/accounts';
-import { LORA, registerLora } from './pdf-fonts';
-import { formatDate, formatMoney, formatPercent, pdfText } from './pdf-format';
-import { Flow, INK, STYLE, TAGGED_PDF, drawTable, type TableRow } from './pdf-layout';
-
-const MARGIN = { top: 60, bottom: 60, left: 56, right: 56 };
+import { drawContactFooter, drawLetterhead, openPdf } from './pdf-document';
+import { LORA } from './pdf-fonts';
+import { formatDate, formatMoney, formatPercent } from './pdf-format';
+import { INK, STYLE, drawTable, type TableRow } from './pdf-layout';
 
 const TITLES: Record<DocumentContent['kind'], string> = { receipt: 'Receipt', invoice: 'Tax invoice', 'credit-note': 'Credit note' };
 
 export async function renderAccountPdf(c: DocumentContent): Promise<Buffer> {
   const title = `${TITLES[c.kind]} ${c.number}`;
-  const doc = new PDFDocument({
-    ...TAGGED_PDF,
-    size: c.paperSize === 'Letter' ? 'LETTER' : 'A4',
-    margins: { ...MARGIN },
-    bufferPages: true,
-    info: { Title: pdfText(title), Author: pdfText(c.workshop.name), Subject: pdfText(`${TITLES[c.kind]} for quote ${c.quoteNumber}`), Creator: 'Shellwright' },
-  });
-  const chunks: Buffer[] = [];
-  const done = new Promise<Buffer>((resolve, reject) => {
-    doc.on('data', (chunk: Buffer) => chunks.push(chunk));
-    doc.on('end', () => resolve(Buffer.concat(chunks)));
-    doc.on('error', reject);
-  });
-  registerLora(doc);
-  doc.font(LORA.regular);
-  const flow = new Flow(doc);
-  flow.y = flow.top;
+  const { flow, finish } = openPdf(c.paperSize, { title, author: c.workshop.name, subject: `${TITLES[c.kind]} for quote ${c.quoteNumber}` });
   const money = (a: string) => formatMoney(a, c.currency);
   const tax = `${c.taxLabel} at ${formatPercent(c.taxPct)}`;
 
-  flow.label(c.workshop.name, flow.left, flow.y, flow.width);
-  flow.y += 14;
-  flow.paragraph(title, { font: LORA.semibold, size: 20, color: INK.walnut }, { after: 4 });
   const refs = [`Issued ${formatDate(c.issuedOn)}`, `quote ${c.quoteNumber}`, ...(c.jobNumbers.length ? [`job ${c.jobNumbers.join(', ')}`] : []), ...(c.againstNumber ? [`against invoice ${c.againstNumber}`] : [])];
-  flow.paragraph(refs.join(' · '), STYLE.smallMuted, { after: 16 });
+  drawLetterhead(flow, c.workshop.name, title, refs.join(' · '));
 
   // From and to, side by side.
   const half = (flow.width - 20) / 2;
@@ -121,17 +100,8 @@ export async function renderAccountPdf(c: DocumentContent): Promise<Buffer> {
     STYLE.smallMuted,
   );
 
-  const range = doc.bufferedPageRange();
-  for (let i = range.start; i < range.start + range.count; i++) {
-    doc.switchToPage(i);
-    const fy = doc.page.height - 40;
-    flow.hRule(MARGIN.left, doc.page.width - MARGIN.right, fy - 8, INK.rule, 0.5);
-    const contact = [c.workshop.name, c.workshop.phone, c.workshop.email].filter(Boolean).join(' · ');
-    flow.textAt(contact, MARGIN.left, fy, doc.page.width - MARGIN.left - MARGIN.right - 140, { ...STYLE.smallMuted, size: 8 }, { oneLine: true, ellipsis: true });
-    flow.textAt(`${c.number} · page ${i - range.start + 1} of ${range.count}`, doc.page.width - MARGIN.right - 140, fy, 140, { ...STYLE.smallMuted, size: 8 }, { align: 'right', oneLine: true });
-  }
-  doc.end();
-  return done;
+  drawContactFooter(flow, c.workshop, (page, pages) => `${c.number} · page ${page} of ${pages}`, 140);
+  return finish();
 }
 
 /** "−120.00" for a deduction shown in the account table (pdfText turns the minus sign into one the font has). */

@@ -2,10 +2,9 @@
  * A purchase order for one supplier: what the workshop wants, in the supplier's packs, with the prices of the
  * workshop's price list and the delivery hoped for. A tagged PDF in the house Lora and walnut.
  */
-import PDFDocument from 'pdfkit';
-import { LORA, registerLora } from './pdf-fonts';
-import { formatDate, formatMoney, formatNumber, pdfText } from './pdf-format';
-import { Flow, INK, STYLE, TAGGED_PDF, drawTable, type TableRow } from './pdf-layout';
+import { drawContactFooter, drawLetterhead, openPdf } from './pdf-document';
+import { formatDate, formatMoney, formatNumber } from './pdf-format';
+import { STYLE, drawTable, type TableRow } from './pdf-layout';
 
 export interface PurchaseOrderDocument {
   paperSize: 'A4' | 'Letter';
@@ -21,32 +20,11 @@ export interface PurchaseOrderDocument {
   note: string;
 }
 
-const MARGIN = { top: 60, bottom: 60, left: 56, right: 56 };
-
 export async function renderPurchaseOrderPdf(o: PurchaseOrderDocument): Promise<Buffer> {
-  const doc = new PDFDocument({
-    ...TAGGED_PDF,
-    size: o.paperSize === 'Letter' ? 'LETTER' : 'A4',
-    margins: { ...MARGIN },
-    bufferPages: true,
-    info: { Title: pdfText(`Purchase order ${o.number}`), Author: pdfText(o.workshop.name), Subject: pdfText(`Order for ${o.supplier}`), Creator: 'Shellwright' },
-  });
-  const chunks: Buffer[] = [];
-  const done = new Promise<Buffer>((resolve, reject) => {
-    doc.on('data', (c: Buffer) => chunks.push(c));
-    doc.on('end', () => resolve(Buffer.concat(chunks)));
-    doc.on('error', reject);
-  });
-  registerLora(doc);
-  doc.font(LORA.regular);
-  const flow = new Flow(doc);
-  flow.y = flow.top;
+  const { flow, finish } = openPdf(o.paperSize, { title: `Purchase order ${o.number}`, author: o.workshop.name, subject: `Order for ${o.supplier}` });
   const money = (a: string) => formatMoney(a, o.currency);
 
-  flow.label(pdfText(o.workshop.name).toUpperCase(), flow.left, flow.y, flow.width);
-  flow.y += 14;
-  flow.paragraph(`Purchase order ${o.number}`, { font: LORA.semibold, size: 20, color: INK.walnut }, { after: 4 });
-  flow.paragraph(`For ${o.supplier} · ordered on ${formatDate(o.date)}`, STYLE.smallMuted, { after: 18 });
+  drawLetterhead(flow, o.workshop.name, `Purchase order ${o.number}`, `For ${o.supplier} · ordered on ${formatDate(o.date)}`);
 
   flow.heading('Delivery', 80);
   drawTable(flow, {
@@ -90,15 +68,6 @@ export async function renderPurchaseOrderPdf(o: PurchaseOrderDocument): Promise<
     flow.paragraph(o.note, STYLE.body);
   }
 
-  const range = doc.bufferedPageRange();
-  for (let i = range.start; i < range.start + range.count; i++) {
-    doc.switchToPage(i);
-    const fy = doc.page.height - 40;
-    flow.hRule(MARGIN.left, doc.page.width - MARGIN.right, fy - 8, INK.rule, 0.5);
-    const contact = [o.workshop.name, o.workshop.phone, o.workshop.email].filter(Boolean).join(' · ');
-    flow.textAt(contact, MARGIN.left, fy, doc.page.width - MARGIN.left - MARGIN.right - 90, { ...STYLE.smallMuted, size: 8 }, { oneLine: true, ellipsis: true });
-    flow.textAt(`Page ${i - range.start + 1} of ${range.count}`, doc.page.width - MARGIN.right - 90, fy, 90, { ...STYLE.smallMuted, size: 8 }, { align: 'right', oneLine: true });
-  }
-  doc.end();
-  return done;
+  drawContactFooter(flow, o.workshop);
+  return finish();
 }

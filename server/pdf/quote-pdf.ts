@@ -3,13 +3,13 @@
  * the price with deposit and balance, optional extras, terms and the safety notes. Lora throughout, walnut and
  * amber on white, A4 or US Letter; running header, workshop name and "Page N of M" on every page.
  */
-import PDFDocument from 'pdfkit';
 import sharp from 'sharp';
 import { pdfJob } from '../services/image-jobs';
 import type { QuoteDocument, QuoteDocumentLine } from './quote-document';
-import { LORA, registerLora } from './pdf-fonts';
+import { openPdf } from './pdf-document';
+import { LORA } from './pdf-fonts';
 import { formatDate, formatDays, formatHours, formatMoney, formatNumber, formatPercent, paragraphs, pdfText } from './pdf-format';
-import { Flow, INK, STYLE, TAGGED_PDF, drawTable, tableHeight, type TableRow, type TableSpec, type TextStyle } from './pdf-layout';
+import { type Flow, INK, STYLE, drawTable, tableHeight, type TableRow, type TableSpec, type TextStyle } from './pdf-layout';
 
 const MARGIN = { top: 66, bottom: 70, left: 56, right: 56 };
 
@@ -24,31 +24,16 @@ export async function renderQuotePdf(q: QuoteDocument): Promise<Buffer> {
 
 function layOut(q: QuoteDocument, photo: Photo | null, linePhotos: (Photo | null)[]): Promise<Buffer> {
   const several = (q.lines?.length ?? 0) > 1;
-  const doc = new PDFDocument({
-    ...TAGGED_PDF,
-    size: q.paperSize === 'Letter' ? 'LETTER' : 'A4',
-    margins: { ...MARGIN },
-    bufferPages: true,
-    autoFirstPage: true,
-    info: {
-      Title: pdfText(`Quote ${q.quote.number} for ${q.customer.name}`),
-      Author: pdfText(q.workshop.name),
-      Subject: pdfText(`Quote for the French polishing of ${several ? [...new Set(q.lines!.map((l) => l.piece.description))].join(', ') : q.piece.description}`),
-      Creator: 'Shellwright',
-      Keywords: pdfText(`quote, ${q.quote.number}, ${q.quote.estimateNumber}`),
+  const { flow, finish } = openPdf(
+    q.paperSize,
+    {
+      title: `Quote ${q.quote.number} for ${q.customer.name}`,
+      author: q.workshop.name,
+      subject: `Quote for the French polishing of ${several ? [...new Set(q.lines!.map((l) => l.piece.description))].join(', ') : q.piece.description}`,
+      keywords: `quote, ${q.quote.number}, ${q.quote.estimateNumber}`,
     },
-  });
-  const chunks: Buffer[] = [];
-  const done = new Promise<Buffer>((resolve, reject) => {
-    doc.on('data', (chunk: Buffer) => chunks.push(chunk));
-    doc.on('end', () => resolve(Buffer.concat(chunks)));
-    doc.on('error', reject);
-  });
-
-  registerLora(doc);
-  doc.font(LORA.regular);
-  const flow = new Flow(doc);
-  flow.y = flow.top;
+    MARGIN,
+  );
 
   drawMasthead(flow, q);
   drawParties(flow, q, photo);
@@ -61,8 +46,7 @@ function layOut(q: QuoteDocument, photo: Photo | null, linePhotos: (Photo | null
   drawSafety(flow, q);
   drawPageFurniture(flow, q);
 
-  doc.end();
-  return done;
+  return finish();
 }
 
 interface Photo {
