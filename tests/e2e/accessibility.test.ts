@@ -3,26 +3,15 @@
  * escaping: data full of HTML and script never runs as code.
  */
 import { createRequire } from 'node:module';
-import type { Browser, Page } from 'playwright-core';
-import { afterAll, beforeAll, describe, expect, it } from 'vitest';
+import type { Page } from 'playwright-core';
+import { describe, expect, it } from 'vitest';
 import { DEMO_PASSWORD } from '../../server/seeders/demo';
-import { closeTestApp } from '../helpers/app';
-import { launchBrowser, screenshot, startServer } from '../helpers/browser';
+import { browserSuite, screenshot } from '../helpers/browser';
 
 const axePath = createRequire(import.meta.url).resolve('axe-core/axe.min.js');
 
-let browser: Browser;
-let server: Awaited<ReturnType<typeof startServer>>;
 
-beforeAll(async () => {
-  server = await startServer({ services: true });
-  browser = await launchBrowser();
-});
-afterAll(async () => {
-  await browser?.close();
-  await server?.stop();
-  await closeTestApp();
-});
+const suite = browserSuite({ services: true });
 
 interface Violation {
   id: string;
@@ -41,7 +30,7 @@ async function axe(page: Page): Promise<Violation[]> {
 }
 
 async function signIn(page: Page, email: string): Promise<void> {
-  await page.goto(`${server.baseUrl}/signin`);
+  await page.goto(`${suite.server.baseUrl}/signin`);
   await page.getByLabel('E-mail').fill(email);
   await page.getByLabel('Password').fill(DEMO_PASSWORD);
   await page.getByRole('button', { name: 'Sign in' }).click();
@@ -49,8 +38,8 @@ async function signIn(page: Page, email: string): Promise<void> {
 }
 
 async function api<T>(page: Page, method: 'GET' | 'POST', url: string, data?: object): Promise<T> {
-  const csrf = ((await (await page.request.get(`${server.baseUrl}/api/auth/csrf`)).json()) as { csrfToken: string }).csrfToken;
-  const res = method === 'GET' ? await page.request.get(`${server.baseUrl}${url}`) : await page.request.post(`${server.baseUrl}${url}`, { data, headers: { 'x-csrf-token': csrf } });
+  const csrf = ((await (await page.request.get(`${suite.server.baseUrl}/api/auth/csrf`)).json()) as { csrfToken: string }).csrfToken;
+  const res = method === 'GET' ? await page.request.get(`${suite.server.baseUrl}${url}`) : await page.request.post(`${suite.server.baseUrl}${url}`, { data, headers: { 'x-csrf-token': csrf } });
   if (!res.ok()) throw new Error(`${method} ${url}: ${res.status()} ${await res.text()}`);
   return (await res.json()) as T;
 }
@@ -63,15 +52,15 @@ async function settle(page: Page): Promise<void> {
 describe('accessibility of the main pages', () => {
   it('the sign-in page', async () => {
     // axe is injected as a script: the page's content security policy would refuse it, so this context bypasses it.
-    const page = await browser.newPage({ bypassCSP: true });
-    await page.goto(`${server.baseUrl}/signin`);
+    const page = await suite.browser.newPage({ bypassCSP: true });
+    await page.goto(`${suite.server.baseUrl}/signin`);
     await settle(page);
     expect(await axe(page)).toEqual([]);
     await page.close();
   });
 
   it('every page in the owner\u2019s navigation, and the record pages', async () => {
-    const page = await browser.newPage({ viewport: { width: 1366, height: 900 }, bypassCSP: true });
+    const page = await suite.browser.newPage({ viewport: { width: 1366, height: 900 }, bypassCSP: true });
     await signIn(page, 'owner@example.com');
     const estimates = await api<{ rows: { id: number; customer: { id: number }; piece: { id: number } }[] }>(page, 'GET', '/api/estimates?pageSize=5');
     const first = estimates.rows[0]!;
@@ -82,7 +71,7 @@ describe('accessibility of the main pages', () => {
     ];
     const found: Record<string, Violation[]> = {};
     for (const path of pages) {
-      await page.goto(`${server.baseUrl}${path}`);
+      await page.goto(`${suite.server.baseUrl}${path}`);
       await settle(page);
       const v = await axe(page);
       if (v.length) found[path] = v;
@@ -94,13 +83,13 @@ describe('accessibility of the main pages', () => {
   });
 
   it('the customer\u2019s quote page', async () => {
-    const page = await browser.newPage();
+    const page = await suite.browser.newPage();
     await signIn(page, 'sales@example.com');
     const list = await api<{ rows: { id: number; state: string }[] }>(page, 'GET', '/api/estimates?state=priced&pageSize=5');
     const quote = await api<{ id: number }>(page, 'POST', `/api/estimates/${list.rows[0]!.id}/quotes`, { message: 'Thank you for your enquiry.' });
     const sent = await api<{ link: string }>(page, 'POST', `/api/quotes/${quote.id}/send`, {});
-    const customer = await browser.newPage({ bypassCSP: true });
-    await customer.goto(sent.link.replace(/^http:\/\/[^/]+/, server.baseUrl));
+    const customer = await suite.browser.newPage({ bypassCSP: true });
+    await customer.goto(sent.link.replace(/^http:\/\/[^/]+/, suite.server.baseUrl));
     await settle(customer);
     expect(await axe(customer)).toEqual([]);
     await screenshot(customer, 'a11y-public-quote');
@@ -111,7 +100,7 @@ describe('accessibility of the main pages', () => {
 
 describe('output escaping', () => {
   it('HTML and script in data show as text and never run', async () => {
-    const page = await browser.newPage({ viewport: { width: 1366, height: 900 } });
+    const page = await suite.browser.newPage({ viewport: { width: 1366, height: 900 } });
     const dialogs: string[] = [];
     page.on('dialog', (d) => {
       dialogs.push(d.message());
@@ -122,7 +111,7 @@ describe('output escaping', () => {
     const customer = await api<{ id: number }>(page, 'POST', '/api/customers', { name: `Evil ${evil}`, notes: evil, address: evil });
     const piece = await api<{ id: number }>(page, 'POST', '/api/pieces', { customerId: customer.id, kind: 'furniture', description: `Chest ${evil}`, conditionNotes: evil });
     for (const path of ['/customers', `/customers/${customer.id}`, `/pieces/${piece.id}`]) {
-      await page.goto(`${server.baseUrl}${path}`);
+      await page.goto(`${suite.server.baseUrl}${path}`);
       await settle(page);
       expect(await page.evaluate(() => (window as unknown as { __pwned?: number }).__pwned)).toBeUndefined();
     }

@@ -7,26 +7,16 @@ import { execFileSync } from 'node:child_process';
 import fs from 'node:fs';
 import os from 'node:os';
 import path from 'node:path';
-import type { Browser, Page } from 'playwright-core';
+import type { Page } from 'playwright-core';
 import request from 'supertest';
-import { afterAll, beforeAll, describe, expect, it } from 'vitest';
+import { describe, expect, it } from 'vitest';
 import type { AccountDto } from '../../shared/schemas/accounts';
 import { DEMO_PASSWORD } from '../../server/seeders/demo';
-import { closeTestApp, demoEmail, getTestApp, signInAs, type Session } from '../helpers/app';
-import { launchBrowser, screenshot, startServer, watchConsole } from '../helpers/browser';
+import { demoEmail, getTestApp, signInAs, type Session } from '../helpers/app';
+import { browserSuite, screenshot, watchConsole } from '../helpers/browser';
 
-let browser: Browser;
-let server: Awaited<ReturnType<typeof startServer>>;
 
-beforeAll(async () => {
-  server = await startServer({ services: true });
-  browser = await launchBrowser();
-});
-afterAll(async () => {
-  await browser?.close();
-  await server?.stop();
-  await closeTestApp();
-});
+const suite = browserSuite({ services: true });
 
 const post = (s: Session, url: string, body: object) => s.agent.post(url).set('x-csrf-token', s.csrf).send(body);
 const put = (s: Session, url: string, body: object) => s.agent.put(url).set('x-csrf-token', s.csrf).send(body);
@@ -43,7 +33,7 @@ function pdfText(pdf: Buffer): string {
 }
 
 async function signIn(page: Page, role: 'sales' | 'owner'): Promise<void> {
-  await page.goto(`${server.baseUrl}/signin`);
+  await page.goto(`${suite.server.baseUrl}/signin`);
   await page.getByLabel('E-mail').fill(demoEmail(role));
   await page.getByLabel('Password').fill(DEMO_PASSWORD);
   await page.getByRole('button', { name: 'Sign in' }).click();
@@ -70,17 +60,17 @@ describe('from a paid deposit to a settled invoice', () => {
       const token = link.split('/q/')[1]!;
       await request(app).post(`/api/public/quotes/${token}/accept`).send({ name: 'Isolde Marchbanks', acceptTerms: true, extras: [] }).expect(200);
       const checkout = await request(app).post(`/api/public/quotes/${token}/deposit`).send({}).expect(200);
-      await server.services!.payments!.pay(String(checkout.body.url).split('/checkout/')[1]!);
+      await suite.server.services!.payments!.pay(String(checkout.body.url).split('/checkout/')[1]!);
       const before = (await sales.agent.get(`/api/accounts/quotes/${q.body.id}`).expect(200)).body as AccountDto;
       const { agreedTotal, paid: deposit, balance } = before.figures;
       expect(before.documents.map((d) => d.kind)).toEqual(['receipt']);
 
       // Sales: the account panel, a cash part-payment of 100.00, then the invoice.
-      const staff = await browser.newContext({ viewport: { width: 1440, height: 900 } });
+      const staff = await suite.browser.newContext({ viewport: { width: 1440, height: 900 } });
       const page = await staff.newPage();
       const errors = watchConsole(page);
       await signIn(page, 'sales');
-      await page.goto(`${server.baseUrl}/quotes/${q.body.id}`);
+      await page.goto(`${suite.server.baseUrl}/quotes/${q.body.id}`);
       await page.getByRole('link', { name: 'Account: invoice and payments' }).click();
       const panel = page.getByTestId('account-panel');
       await panel.waitFor();
@@ -108,7 +98,7 @@ describe('from a paid deposit to a settled invoice', () => {
       expect(errors).toEqual([]);
 
       // The customer pays the rest by card from their quote page.
-      const customer = await browser.newContext({ viewport: { width: 390, height: 844 } });
+      const customer = await suite.browser.newContext({ viewport: { width: 390, height: 844 } });
       const phone = await customer.newPage();
       const customerErrors = watchConsole(phone);
       await phone.goto(link);
@@ -117,7 +107,7 @@ describe('from a paid deposit to a settled invoice', () => {
       expect(await box.getByTestId('balance-owed').textContent()).toBe(gbp(afterCash.toFixed(2)));
       expect(await box.textContent()).not.toMatch(/margin|overhead|per hour/i);
       await box.getByRole('button', { name: /Pay the balance of/ }).click();
-      await phone.waitForURL((u) => u.href.startsWith(server.services!.payments!.url));
+      await phone.waitForURL((u) => u.href.startsWith(suite.server.services!.payments!.url));
       expect(await phone.locator('.amount').textContent()).toBe(gbp(afterCash.toFixed(2)));
       await phone.getByRole('button', { name: /^Pay / }).click();
       await phone.waitForURL((u) => u.href.startsWith(`${link}?balance=paid`));
@@ -131,9 +121,9 @@ describe('from a paid deposit to a settled invoice', () => {
       expect(after.figures).toMatchObject({ agreedTotal, balance: '0.00' });
       const invoice = after.documents.find((d) => d.kind === 'invoice')!;
       const lastReceipt = after.documents.filter((d) => d.kind === 'receipt').at(-1)!;
-      const invoiceText = pdfText(Buffer.from(await (await page.request.get(`${server.baseUrl}/api/accounts/documents/${invoice.id}/pdf`)).body()));
+      const invoiceText = pdfText(Buffer.from(await (await page.request.get(`${suite.server.baseUrl}/api/accounts/documents/${invoice.id}/pdf`)).body()));
       for (const s of [`Tax invoice ${invoice.number}`, gbp(agreedTotal), gbp(deposit), gbp('100.00'), 'Balance due', gbp(afterCash.toFixed(2))]) expect(invoiceText).toContain(s);
-      const receiptText = pdfText(Buffer.from(await (await page.request.get(`${server.baseUrl}/api/accounts/documents/${lastReceipt.id}/pdf`)).body()));
+      const receiptText = pdfText(Buffer.from(await (await page.request.get(`${suite.server.baseUrl}/api/accounts/documents/${lastReceipt.id}/pdf`)).body()));
       expect(receiptText).toContain(`Receipt ${lastReceipt.number}`);
       expect(receiptText).toContain(gbp(afterCash.toFixed(2)));
       expect(receiptText).toMatch(/Still to pay £0\.00/);

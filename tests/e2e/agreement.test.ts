@@ -7,24 +7,14 @@ import { execFileSync } from 'node:child_process';
 import fs from 'node:fs';
 import os from 'node:os';
 import path from 'node:path';
-import type { Browser, Page } from 'playwright-core';
-import { afterAll, beforeAll, describe, expect, it } from 'vitest';
+import type { Page } from 'playwright-core';
+import { describe, expect, it } from 'vitest';
 import { DEMO_PASSWORD } from '../../server/seeders/demo';
-import { closeTestApp, demoEmail, getTestApp, signInAs, type Session } from '../helpers/app';
-import { launchBrowser, screenshot, startServer, watchConsole } from '../helpers/browser';
+import { demoEmail, getTestApp, signInAs, type Session } from '../helpers/app';
+import { browserSuite, screenshot, watchConsole } from '../helpers/browser';
 
-let browser: Browser;
-let server: Awaited<ReturnType<typeof startServer>>;
 
-beforeAll(async () => {
-  server = await startServer({ services: true });
-  browser = await launchBrowser();
-});
-afterAll(async () => {
-  await browser?.close();
-  await server?.stop();
-  await closeTestApp();
-});
+const suite = browserSuite({ services: true });
 
 const post = (s: Session, url: string, body: object) => s.agent.post(url).set('x-csrf-token', s.csrf).send(body);
 const gbp = (amount: string) => new Intl.NumberFormat('en-GB', { style: 'currency', currency: 'GBP' }).format(Number(amount));
@@ -40,7 +30,7 @@ function pdfText(pdf: Buffer): string {
 }
 
 async function signIn(page: Page, role: 'sales' | 'workshop'): Promise<void> {
-  await page.goto(`${server.baseUrl}/signin`);
+  await page.goto(`${suite.server.baseUrl}/signin`);
   await page.getByLabel('E-mail').fill(demoEmail(role));
   await page.getByLabel('Password').fill(DEMO_PASSWORD);
   await page.getByRole('button', { name: 'Sign in' }).click();
@@ -69,7 +59,7 @@ describe('what the customer agreed, everywhere', () => {
     const link: string = sent.body.link;
 
     // The customer ticks one extra, accepts and pays.
-    const customer = await browser.newContext({ viewport: { width: 1280, height: 900 } });
+    const customer = await suite.browser.newContext({ viewport: { width: 1280, height: 900 } });
     const phone = await customer.newPage();
     const customerErrors = watchConsole(phone);
     await phone.goto(link);
@@ -84,7 +74,7 @@ describe('what the customer agreed, everywhere', () => {
     const outcome = phone.getByTestId('outcome');
     await outcome.waitFor();
     await outcome.getByRole('button', { name: /Pay the deposit/ }).click();
-    await phone.waitForURL((u) => u.href.startsWith(server.services!.payments!.url));
+    await phone.waitForURL((u) => u.href.startsWith(suite.server.services!.payments!.url));
     expect(await phone.locator('.amount').textContent()).toBe(acceptDeposit);
     await phone.getByRole('button', { name: /^Pay / }).click();
     await phone.waitForURL((u) => u.href.startsWith(`${link}?deposit=paid`));
@@ -111,11 +101,11 @@ describe('what the customer agreed, everywhere', () => {
     await customer.close();
 
     // Staff quote page.
-    const staff = await browser.newContext({ viewport: { width: 1440, height: 900 } });
+    const staff = await suite.browser.newContext({ viewport: { width: 1440, height: 900 } });
     const page = await staff.newPage();
     const errors = watchConsole(page);
     await signIn(page, 'sales');
-    await page.goto(`${server.baseUrl}/quotes/${q.body.id}`);
+    await page.goto(`${suite.server.baseUrl}/quotes/${q.body.id}`);
     await expect.poll(() => page.locator('h1 [data-quote-state]').textContent()).toBe('Deposit paid');
     expect(await page.getByTestId('agreed-total').textContent()).toBe(gbp(agreed.total));
     expect(await page.getByTestId('quote-deposit').textContent()).toBe(gbp(agreed.deposit));
@@ -124,12 +114,12 @@ describe('what the customer agreed, everywhere', () => {
     await screenshot(page, 'agreement-staff-quote');
 
     // The estimate's agreed figure.
-    await page.goto(`${server.baseUrl}/estimates/${e.body.id}`);
+    await page.goto(`${suite.server.baseUrl}/estimates/${e.body.id}`);
     expect(await page.getByTestId('estimate-agreed-total').textContent()).toBe(gbp(agreed.total));
 
     // The PDFs.
-    const acceptance = pdfText(Buffer.from(await (await page.request.get(`${server.baseUrl}/api/quotes/${q.body.id}/acceptance.pdf`)).body()));
-    const quotePdf = pdfText(Buffer.from(await (await page.request.get(`${server.baseUrl}/api/quotes/${q.body.id}/pdf`)).body()));
+    const acceptance = pdfText(Buffer.from(await (await page.request.get(`${suite.server.baseUrl}/api/quotes/${q.body.id}/acceptance.pdf`)).body()));
+    const quotePdf = pdfText(Buffer.from(await (await page.request.get(`${suite.server.baseUrl}/api/quotes/${q.body.id}/pdf`)).body()));
     for (const text of [acceptance, quotePdf]) {
       expect(text).toContain(gbp(agreed.total));
       expect(text).toContain(gbp(agreed.deposit));
@@ -143,10 +133,10 @@ describe('what the customer agreed, everywhere', () => {
     const workshop = await signInAs(app, 'workshop');
     const job = await post(workshop, '/api/jobs', { quoteId: q.body.id }).expect(201);
     expect(job.body.sessions.filter((s: { stageKind: string }) => s.stageKind === 'extra').length).toBeGreaterThan(0);
-    const shop = await browser.newContext({ viewport: { width: 1440, height: 900 } });
+    const shop = await suite.browser.newContext({ viewport: { width: 1440, height: 900 } });
     const jobPage = await shop.newPage();
     await signIn(jobPage, 'workshop');
-    await jobPage.goto(`${server.baseUrl}/planning/jobs/${job.body.id}`);
+    await jobPage.goto(`${suite.server.baseUrl}/planning/jobs/${job.body.id}`);
     const fact = (label: string) => jobPage.locator(`[data-fact="${label}"] dd`);
     await fact('Agreed total').waitFor();
     expect(await fact('Agreed total').textContent()).toBe(gbp(agreed.total));

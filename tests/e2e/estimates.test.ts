@@ -1,22 +1,12 @@
-import type { Browser, Page } from 'playwright-core';
+import type { Page } from 'playwright-core';
 import sharp from 'sharp';
-import { afterAll, beforeAll, describe, expect, it } from 'vitest';
+import { describe, expect, it } from 'vitest';
 import { DEMO_PASSWORD } from '../../server/seeders/demo';
-import { closeTestApp, demoEmail } from '../helpers/app';
-import { launchBrowser, screenshot, startServer, watchConsole } from '../helpers/browser';
+import { demoEmail } from '../helpers/app';
+import { browserSuite, screenshot, watchConsole } from '../helpers/browser';
 
-let browser: Browser;
-let server: Awaited<ReturnType<typeof startServer>>;
 
-beforeAll(async () => {
-  server = await startServer();
-  browser = await launchBrowser();
-});
-afterAll(async () => {
-  await browser?.close();
-  await server?.stop();
-  await closeTestApp();
-});
+const suite = browserSuite();
 
 /** A small walnut-brown image, as a photo of the piece would be. */
 function photo(background: string): Promise<Buffer> {
@@ -24,7 +14,7 @@ function photo(background: string): Promise<Buffer> {
 }
 
 async function signInAsEstimator(page: Page): Promise<void> {
-  await page.goto(`${server.baseUrl}/signin`);
+  await page.goto(`${suite.server.baseUrl}/signin`);
   await page.getByLabel('E-mail').fill(demoEmail('estimator'));
   await page.getByLabel('Password').fill(DEMO_PASSWORD);
   await page.getByRole('button', { name: 'Sign in' }).click();
@@ -35,7 +25,7 @@ const number = (text: string | null) => Number((text ?? '').replace(/[^\d.]/g, '
 
 describe('estimates, in a real browser', () => {
   it('the estimator prices a grand from the template, saves, revises and compares the revisions', async () => {
-    const context = await browser.newContext({ viewport: { width: 1440, height: 900 } });
+    const context = await suite.browser.newContext({ viewport: { width: 1440, height: 900 } });
     const page = await context.newPage();
     const errors = watchConsole(page);
     await signInAsEstimator(page);
@@ -140,8 +130,8 @@ describe('estimates, in a real browser', () => {
   });
 
   it('sales sees estimates but not the controls to change them', async () => {
-    const page = await browser.newPage({ viewport: { width: 1440, height: 900 } });
-    await page.goto(`${server.baseUrl}/signin`);
+    const page = await suite.browser.newPage({ viewport: { width: 1440, height: 900 } });
+    await page.goto(`${suite.server.baseUrl}/signin`);
     await page.getByLabel('E-mail').fill(demoEmail('sales'));
     await page.getByLabel('Password').fill(DEMO_PASSWORD);
     await page.getByRole('button', { name: 'Sign in' }).click();

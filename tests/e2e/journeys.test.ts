@@ -5,25 +5,15 @@
  * all back in the audit log. Each step is a test of its own, run in order, on the same job; a step fails at once
  * when the one before it did not finish.
  */
-import type { Browser, BrowserContext, Page } from 'playwright-core';
-import { afterAll, beforeAll, describe, expect, it } from 'vitest';
+import type { BrowserContext, Page } from 'playwright-core';
+import { describe, expect, it } from 'vitest';
 import type { Role } from '../../shared/schemas/auth';
 import { DEMO_PASSWORD } from '../../server/seeders/demo';
-import { closeTestApp, demoEmail } from '../helpers/app';
-import { launchBrowser, screenshot, startServer, watchConsole } from '../helpers/browser';
+import { demoEmail } from '../helpers/app';
+import { browserSuite, screenshot, watchConsole } from '../helpers/browser';
 
-let browser: Browser;
-let server: Awaited<ReturnType<typeof startServer>>;
 
-beforeAll(async () => {
-  server = await startServer({ services: true });
-  browser = await launchBrowser();
-});
-afterAll(async () => {
-  await browser?.close();
-  await server?.stop();
-  await closeTestApp();
-});
+const suite = browserSuite({ services: true });
 
 /** The invented customer and piece of this story. */
 const CUSTOMER = 'Hesper Wintringham';
@@ -49,10 +39,10 @@ const number = (text: string | null) => Number((text ?? '').replace(/[^\d.]/g, '
 
 /** A fresh browser context for one person, signed in as the demo user of that role. */
 async function signedIn(role: Role): Promise<{ context: BrowserContext; page: Page; errors: string[] }> {
-  const context = await browser.newContext({ viewport: { width: 1440, height: 900 } });
+  const context = await suite.browser.newContext({ viewport: { width: 1440, height: 900 } });
   const page = await context.newPage();
   const errors = watchConsole(page);
-  await page.goto(`${server.baseUrl}/signin`);
+  await page.goto(`${suite.server.baseUrl}/signin`);
   await page.getByLabel('E-mail').fill(demoEmail(role));
   await page.getByLabel('Password').fill(DEMO_PASSWORD);
   await page.getByRole('button', { name: 'Sign in' }).click();
@@ -167,7 +157,7 @@ describe('one job through the whole workshop, in a real browser', () => {
 
   it('3. sales opens the estimate, prepares a quote and sends it', async () => {
     const estimateNumber = need('estimateNumber');
-    const mail = server.services!.mail!;
+    const mail = suite.server.services!.mail!;
     const { context, page, errors } = await signedIn('sales');
 
     await main(page).getByRole('link', { name: 'Estimates' }).click();
@@ -207,7 +197,7 @@ describe('one job through the whole workshop, in a real browser', () => {
 
   it('4. the customer opens the e-mailed link, accepts with their name and pays the deposit', async () => {
     const link = need('link');
-    const context = await browser.newContext({ viewport: { width: 390, height: 844 } });
+    const context = await suite.browser.newContext({ viewport: { width: 390, height: 844 } });
     const phone = await context.newPage();
     const errors = watchConsole(phone);
     await phone.goto(link);
@@ -222,7 +212,7 @@ describe('one job through the whole workshop, in a real browser', () => {
     await expect.poll(() => outcome.textContent()).toMatch(new RegExp(`Accepted by ${CUSTOMER}`));
 
     await outcome.getByRole('button', { name: /Pay the deposit/ }).click();
-    await phone.waitForURL((u) => u.href.startsWith(server.services!.payments!.url));
+    await phone.waitForURL((u) => u.href.startsWith(suite.server.services!.payments!.url));
     await screenshot(phone, 'journey-10-customer-checkout');
     await phone.getByRole('button', { name: /^Pay / }).click();
     await phone.waitForURL((u) => u.href.startsWith(`${link}?deposit=paid`));

@@ -1,16 +1,14 @@
-import type { Browser, Page } from 'playwright-core';
+import type { Page } from 'playwright-core';
 import sharp from 'sharp';
 import request from 'supertest';
-import { afterAll, beforeAll, describe, expect, it } from 'vitest';
+import { beforeAll, describe, expect, it } from 'vitest';
 import { User } from '../../server/models';
 import { DEMO_PASSWORD } from '../../server/seeders/demo';
 import { bookJob } from '../../server/services/planning';
 import { localNow } from '../../server/services/planning-context';
-import { closeTestApp, demoEmail, getTestApp, signInAs, type Session } from '../helpers/app';
-import { launchBrowser, screenshot, startServer, watchConsole } from '../helpers/browser';
+import { demoEmail, getTestApp, signInAs, type Session } from '../helpers/app';
+import { browserSuite, screenshot, watchConsole } from '../helpers/browser';
 
-let browser: Browser;
-let server: Awaited<ReturnType<typeof startServer>>;
 let quoteNumber = '';
 
 const post = (s: Session, url: string, body: object) => s.agent.post(url).set('x-csrf-token', s.csrf).send(body);
@@ -30,19 +28,13 @@ async function acceptedQuote(name: string): Promise<{ id: number; number: string
   return { id: q.body.id as number, number: q.body.number as string };
 }
 
+const suite = browserSuite({ services: true });
 beforeAll(async () => {
-  server = await startServer({ services: true });
-  browser = await launchBrowser();
   quoteNumber = (await acceptedQuote('Lavinia Stourcombe')).number;
-});
-afterAll(async () => {
-  await browser?.close();
-  await server?.stop();
-  await closeTestApp();
 });
 
 async function signIn(page: Page, role: 'workshop' | 'owner'): Promise<void> {
-  await page.goto(`${server.baseUrl}/signin`);
+  await page.goto(`${suite.server.baseUrl}/signin`);
   await page.getByLabel('E-mail').fill(demoEmail(role));
   await page.getByLabel('Password').fill(DEMO_PASSWORD);
   await page.getByRole('button', { name: 'Sign in' }).click();
@@ -51,7 +43,7 @@ async function signIn(page: Page, role: 'workshop' | 'owner'): Promise<void> {
 
 describe('planning, in a real browser', () => {
   it('the planner sees the next eight weeks, books a newly accepted job at the earliest start and marks a session done', async () => {
-    const context = await browser.newContext({ viewport: { width: 1440, height: 900 } });
+    const context = await suite.browser.newContext({ viewport: { width: 1440, height: 900 } });
     const page = await context.newPage();
     const errors = watchConsole(page);
     await signIn(page, 'workshop');
@@ -138,7 +130,7 @@ describe('planning, in a real browser', () => {
   });
 
   it('the owner reads actual hours against estimates and the material forecast', async () => {
-    const context = await browser.newContext({ viewport: { width: 1440, height: 900 } });
+    const context = await suite.browser.newContext({ viewport: { width: 1440, height: 900 } });
     const page = await context.newPage();
     const errors = watchConsole(page);
     await signIn(page, 'owner');
@@ -170,10 +162,10 @@ describe('planning, in a real browser', () => {
     const todayIso = localNow().slice(0, 10);
     await bookJob(sequelize, plannerId, made.body.id as number, { mode: 'date', start: todayIso, confirm: true }, { now: `${todayIso}T00:00`, allowPast: true });
 
-    const context = await browser.newContext({ viewport: { width: 390, height: 844 }, isMobile: true, hasTouch: true });
+    const context = await suite.browser.newContext({ viewport: { width: 390, height: 844 }, isMobile: true, hasTouch: true });
     const page = await context.newPage();
     const errors = watchConsole(page);
-    await page.goto(`${server.baseUrl}/signin`);
+    await page.goto(`${suite.server.baseUrl}/signin`);
     await page.getByLabel('E-mail').fill(demoEmail('workshop'));
     await page.getByLabel('Password').fill(DEMO_PASSWORD);
     await page.getByRole('button', { name: 'Sign in' }).click();

@@ -1,26 +1,16 @@
 import path from 'node:path';
-import type { Browser, Page } from 'playwright-core';
-import { afterAll, beforeAll, describe, expect, it } from 'vitest';
+import type { Page } from 'playwright-core';
+import { describe, expect, it } from 'vitest';
 import { rootDir } from '../../server/config';
 import { DEMO_PASSWORD } from '../../server/seeders/demo';
-import { closeTestApp, demoEmail } from '../helpers/app';
-import { launchBrowser, screenshot, startServer, watchConsole } from '../helpers/browser';
+import { demoEmail } from '../helpers/app';
+import { browserSuite, screenshot, watchConsole } from '../helpers/browser';
 
-let browser: Browser;
-let server: Awaited<ReturnType<typeof startServer>>;
 
-beforeAll(async () => {
-  server = await startServer();
-  browser = await launchBrowser();
-});
-afterAll(async () => {
-  await browser?.close();
-  await server?.stop();
-  await closeTestApp();
-});
+const suite = browserSuite();
 
 async function signIn(page: Page, role: 'owner' | 'estimator') {
-  await page.goto(`${server.baseUrl}/signin`);
+  await page.goto(`${suite.server.baseUrl}/signin`);
   await page.getByLabel('E-mail').fill(demoEmail(role));
   await page.getByLabel('Password').fill(DEMO_PASSWORD);
   await page.getByRole('button', { name: 'Sign in' }).click();
@@ -32,7 +22,7 @@ const escapeRe = (text: string) => text.replace(/[.*+?^${}()|[\]\\]/g, '\\$&');
 
 describe('the owner keeps the price list', () => {
   it('uploads a supplier file, reviews the preview, applies it and sees the new prices and their history', async () => {
-    const page = await browser.newPage({ viewport: { width: 1440, height: 900 } });
+    const page = await suite.browser.newPage({ viewport: { width: 1440, height: 900 } });
     const errors = watchConsole(page);
     await signIn(page, 'owner');
     await page.getByRole('navigation', { name: 'Main' }).getByRole('link', { name: 'Price list' }).click();
@@ -124,9 +114,9 @@ describe('the owner keeps the price list', () => {
   });
 
   it('a file with a bad row shows the line and reason and cannot be applied', async () => {
-    const page = await browser.newPage({ viewport: { width: 1440, height: 900 } });
+    const page = await suite.browser.newPage({ viewport: { width: 1440, height: 900 } });
     await signIn(page, 'owner');
-    await page.goto(`${server.baseUrl}/price-list/upload`);
+    await page.goto(`${suite.server.baseUrl}/price-list/upload`);
     await page.setInputFiles('#price-file', { name: 'bad.csv', mimeType: 'text/csv', buffer: Buffer.from('supplier,supplier_code,price\nQuillby Finishing Supplies,WAX-200,9.80\nQuillby Finishing Supplies,WAX-400,about sixteen\n') });
     await page.getByRole('button', { name: 'Read and preview' }).click();
     const bad = page.getByRole('table', { name: 'Rows that cannot be read' });
@@ -137,10 +127,10 @@ describe('the owner keeps the price list', () => {
   });
 
   it('the owner edits a pack price in place, then settings, a finishing system and reads the audit log', async () => {
-    const page = await browser.newPage({ viewport: { width: 1440, height: 900 } });
+    const page = await suite.browser.newPage({ viewport: { width: 1440, height: 900 } });
     const errors = watchConsole(page);
     await signIn(page, 'owner');
-    await page.goto(`${server.baseUrl}/price-list?q=pumice`);
+    await page.goto(`${suite.server.baseUrl}/price-list?q=pumice`);
     await page.getByRole('button', { name: 'New price for Pumice powder, fine, 250 g' }).click();
     await page.getByRole('textbox', { name: 'New price for Pumice powder, fine, 250 g' }).fill('6,1.0');
     await page.getByRole('button', { name: 'Save price for Pumice powder, fine, 250 g' }).click();
@@ -186,7 +176,7 @@ describe('the owner keeps the price list', () => {
   });
 
   it('the estimator reads the price list and the systems without edit controls', async () => {
-    const page = await browser.newPage({ viewport: { width: 1440, height: 900 } });
+    const page = await suite.browser.newPage({ viewport: { width: 1440, height: 900 } });
     await signIn(page, 'estimator');
     await page.getByRole('navigation', { name: 'Main' }).getByRole('link', { name: 'Price list' }).click();
     await page.getByRole('table', { name: 'Materials' }).waitFor();
@@ -194,7 +184,7 @@ describe('the owner keeps the price list', () => {
     expect(await page.getByRole('button', { name: /New price for/ }).count()).toBe(0);
     expect(await page.getByRole('button', { name: 'Add material' }).count()).toBe(0);
     await screenshot(page, 'price-list-estimator');
-    await page.goto(`${server.baseUrl}/settings`);
+    await page.goto(`${suite.server.baseUrl}/settings`);
     await expect.poll(() => page.getByText('Not available to your role').count()).toBe(1);
     await page.close();
   });

@@ -4,31 +4,21 @@
  * sees total, deposit and balance follow; accepts with the lighter option, pays on the payment stand-in; the jobs
  * made are one a chosen piece, of the chosen estimates. The customer, pieces and estimates are set up through the API.
  */
-import type { Browser, Page } from 'playwright-core';
-import { afterAll, beforeAll, describe, expect, it } from 'vitest';
+import type { Page } from 'playwright-core';
+import { describe, expect, it } from 'vitest';
 import { choiceFigures, type QuoteDetail } from '../../shared/schemas/quotes';
 import { DEMO_PASSWORD } from '../../server/seeders/demo';
-import { closeTestApp, demoEmail, getTestApp, signInAs, type Session } from '../helpers/app';
-import { launchBrowser, screenshot, startServer, watchConsole } from '../helpers/browser';
+import { demoEmail, getTestApp, signInAs, type Session } from '../helpers/app';
+import { browserSuite, screenshot, watchConsole } from '../helpers/browser';
 
-let browser: Browser;
-let server: Awaited<ReturnType<typeof startServer>>;
 
-beforeAll(async () => {
-  server = await startServer({ services: true });
-  browser = await launchBrowser();
-});
-afterAll(async () => {
-  await browser?.close();
-  await server?.stop();
-  await closeTestApp();
-});
+const suite = browserSuite({ services: true });
 
 const post = (s: Session, url: string, body: object) => s.agent.post(url).set('x-csrf-token', s.csrf).send(body);
 const gbp = (amount: string) => new Intl.NumberFormat('en-GB', { style: 'currency', currency: 'GBP' }).format(Number(amount));
 
 async function signIn(page: Page): Promise<void> {
-  await page.goto(`${server.baseUrl}/signin`);
+  await page.goto(`${suite.server.baseUrl}/signin`);
   await page.getByLabel('E-mail').fill(demoEmail('sales'));
   await page.getByLabel('Password').fill(DEMO_PASSWORD);
   await page.getByRole('button', { name: 'Sign in' }).click();
@@ -56,11 +46,11 @@ describe('a quote for the whole household', () => {
     const tableEstimate = await estimate(table, { piece: { template: 'table', dimensions: { length: '160 cm', width: '90 cm', height: '75 cm' }, species: 'mahogany', veneered: false }, system: 'full-repolish' });
 
     // Sales builds the quote on the full repolish's estimate page.
-    const staff = await browser.newContext({ viewport: { width: 1440, height: 1000 } });
+    const staff = await suite.browser.newContext({ viewport: { width: 1440, height: 1000 } });
     const page = await staff.newPage();
     const staffErrors = watchConsole(page);
     await signIn(page);
-    await page.goto(`${server.baseUrl}/estimates/${full}`);
+    await page.goto(`${suite.server.baseUrl}/estimates/${full}`);
     await page.getByRole('button', { name: 'Prepare a quote' }).click();
     const form = page.getByRole('form', { name: 'Prepare a quote' });
     const lines = form.getByTestId('quote-lines');
@@ -100,7 +90,7 @@ describe('a quote for the whole household', () => {
     expect(recommended.total).not.toBe(lighter.total);
 
     // The customer switches between the options and sees the figures follow, then accepts the lighter one.
-    const customer = await browser.newContext({ viewport: { width: 1280, height: 900 } });
+    const customer = await suite.browser.newContext({ viewport: { width: 1280, height: 900 } });
     const phone = await customer.newPage();
     const customerErrors = watchConsole(phone);
     await phone.goto(link);
@@ -123,7 +113,7 @@ describe('a quote for the whole household', () => {
     await outcome.waitFor();
     expect(await phone.getByTestId('public-total').textContent()).toBe(gbp(lighter.total));
     await outcome.getByRole('button', { name: /Pay the deposit/ }).click();
-    await phone.waitForURL((u) => u.href.startsWith(server.services!.payments!.url));
+    await phone.waitForURL((u) => u.href.startsWith(suite.server.services!.payments!.url));
     expect(await phone.locator('.amount').textContent()).toBe(gbp(lighter.deposit));
     await phone.getByRole('button', { name: /^Pay / }).click();
     await phone.waitForURL((u) => u.href.startsWith(`${link}?deposit=paid`));
@@ -134,7 +124,7 @@ describe('a quote for the whole household', () => {
     // The staff page shows the choice; the jobs are the lighter upright and the table, nothing of the full repolish.
     const after = (await sales.agent.get(`/api/quotes/${quoteId}`).expect(200)).body as QuoteDetail;
     expect(after).toMatchObject({ state: 'deposit-paid', acceptedTotal: lighter.total, acceptedDeposit: lighter.deposit });
-    await page.goto(`${server.baseUrl}/quotes/${quoteId}`);
+    await page.goto(`${suite.server.baseUrl}/quotes/${quoteId}`);
     await expect.poll(() => page.getByTestId('quote-line-2-choice').textContent()).toBe('Chosen');
     expect(await page.getByTestId('quote-line-1-choice').textContent()).toBe('Not chosen');
     expect(await page.getByTestId('agreed-total').textContent()).toBe(gbp(lighter.total));

@@ -2,29 +2,19 @@ import { execFileSync } from 'node:child_process';
 import fs from 'node:fs';
 import os from 'node:os';
 import path from 'node:path';
-import type { Browser, Page } from 'playwright-core';
-import { afterAll, beforeAll, describe, expect, it } from 'vitest';
+import type { Page } from 'playwright-core';
+import { describe, expect, it } from 'vitest';
 import { rootDir } from '../../server/config';
 import { DEMO_PASSWORD } from '../../server/seeders/demo';
-import { closeTestApp, demoEmail } from '../helpers/app';
-import { launchBrowser, screenshot, startServer, watchConsole } from '../helpers/browser';
+import { demoEmail } from '../helpers/app';
+import { browserSuite, screenshot, watchConsole } from '../helpers/browser';
 
-let browser: Browser;
-let server: Awaited<ReturnType<typeof startServer>>;
 const pdfDir = path.join(rootDir, 'tests', 'artifacts', 'pdf');
 
-beforeAll(async () => {
-  server = await startServer({ services: true });
-  browser = await launchBrowser();
-});
-afterAll(async () => {
-  await browser?.close();
-  await server?.stop();
-  await closeTestApp();
-});
+const suite = browserSuite({ services: true });
 
 async function signInAsSales(page: Page): Promise<void> {
-  await page.goto(`${server.baseUrl}/signin`);
+  await page.goto(`${suite.server.baseUrl}/signin`);
   await page.getByLabel('E-mail').fill(demoEmail('sales'));
   await page.getByLabel('Password').fill(DEMO_PASSWORD);
   await page.getByRole('button', { name: 'Sign in' }).click();
@@ -55,8 +45,8 @@ function renderPdf(pdf: Buffer, name: string): string[] {
 
 describe('quotes, from the salesperson to the customer and back, in a real browser', () => {
   it('sales prepares and sends a quote; the customer accepts with an extra and pays the deposit; sales sees it paid', async () => {
-    const mail = server.services!.mail!;
-    const staff = await browser.newContext({ viewport: { width: 1440, height: 900 } });
+    const mail = suite.server.services!.mail!;
+    const staff = await suite.browser.newContext({ viewport: { width: 1440, height: 900 } });
     const page = await staff.newPage();
     const errors = watchConsole(page);
     await signInAsSales(page);
@@ -98,7 +88,7 @@ describe('quotes, from the salesperson to the customer and back, in a real brows
     await screenshot(page, 'quote-prepared');
 
     // The PDF, as the customer will receive it.
-    const pdf = await page.request.get(`${server.baseUrl}${pdfHref}`);
+    const pdf = await page.request.get(`${suite.server.baseUrl}${pdfHref}`);
     expect(pdf.headers()['content-type']).toBe('application/pdf');
     expect(renderPdf(Buffer.from(await pdf.body()), 'quote-e2e').length).toBeGreaterThan(1);
 
@@ -116,7 +106,7 @@ describe('quotes, from the salesperson to the customer and back, in a real brows
     await screenshot(page, 'quote-sent');
 
     // The customer, on a phone, without signing in.
-    const customer = await browser.newContext({ viewport: { width: 390, height: 844 }, deviceScaleFactor: 1 });
+    const customer = await suite.browser.newContext({ viewport: { width: 390, height: 844 }, deviceScaleFactor: 1 });
     const phone = await customer.newPage();
     const customerErrors = watchConsole(phone);
     await phone.goto(link);
@@ -142,7 +132,7 @@ describe('quotes, from the salesperson to the customer and back, in a real brows
 
     // The deposit on the payment stand-in's page, then back.
     await outcome.getByRole('button', { name: /Pay the deposit/ }).click();
-    await phone.waitForURL((u) => u.href.startsWith(server.services!.payments!.url));
+    await phone.waitForURL((u) => u.href.startsWith(suite.server.services!.payments!.url));
     await screenshot(phone, 'quote-payment-page');
     await phone.getByRole('button', { name: /^Pay / }).click();
     await phone.waitForURL((u) => u.href.startsWith(`${link}?deposit=paid`));
@@ -152,13 +142,13 @@ describe('quotes, from the salesperson to the customer and back, in a real brows
     expect(customerErrors).toEqual([]);
 
     // The same link on a wide screen, now answered.
-    const wide = await browser.newContext({ viewport: { width: 1280, height: 900 } });
+    const wide = await suite.browser.newContext({ viewport: { width: 1280, height: 900 } });
     const desk = await wide.newPage();
     await desk.goto(link);
     await desk.getByTestId('deposit-paid').waitFor();
     await screenshot(desk, 'quote-public-desktop');
     // A link that is not valid says so.
-    await desk.goto(`${server.baseUrl}/q/${link.split('/q/')[1]!.slice(0, -2)}xx`);
+    await desk.goto(`${suite.server.baseUrl}/q/${link.split('/q/')[1]!.slice(0, -2)}xx`);
     await desk.getByRole('heading', { name: 'This link is not valid' }).waitFor();
     await screenshot(desk, 'quote-public-invalid');
     await wide.close();

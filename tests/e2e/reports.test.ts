@@ -3,27 +3,17 @@
  * of their choosing (a period that ends before it starts is refused by the form), and the CSV of what is shown. On a
  * phone the charts and tables stack and nothing sticks out of the screen. Screenshots of both widths are kept.
  */
-import type { Browser, Page } from 'playwright-core';
-import { afterAll, beforeAll, describe, expect, it } from 'vitest';
+import type { Page } from 'playwright-core';
+import { describe, expect, it } from 'vitest';
 import { DEMO_PASSWORD } from '../../server/seeders/demo';
-import { closeTestApp, demoEmail } from '../helpers/app';
-import { launchBrowser, screenshot, settle, startServer, watchConsole } from '../helpers/browser';
+import { demoEmail } from '../helpers/app';
+import { browserSuite, screenshot, settle, watchConsole } from '../helpers/browser';
 
-let browser: Browser;
-let server: Awaited<ReturnType<typeof startServer>>;
 
-beforeAll(async () => {
-  server = await startServer();
-  browser = await launchBrowser();
-});
-afterAll(async () => {
-  await browser?.close();
-  await server?.stop();
-  await closeTestApp();
-});
+const suite = browserSuite();
 
 async function signIn(page: Page, role: 'owner' | 'workshop') {
-  await page.goto(`${server.baseUrl}/signin`);
+  await page.goto(`${suite.server.baseUrl}/signin`);
   await page.getByLabel('E-mail').fill(demoEmail(role));
   await page.getByLabel('Password').fill(DEMO_PASSWORD);
   await page.getByRole('button', { name: 'Sign in' }).click();
@@ -32,7 +22,7 @@ async function signIn(page: Page, role: 'owner' | 'workshop') {
 
 describe('the owner\u2019s reports', () => {
   it('shows quotes and capacity for a chosen period, each chart beside its table, with CSV exports', async () => {
-    const page = await browser.newPage({ viewport: { width: 1440, height: 900 } });
+    const page = await suite.browser.newPage({ viewport: { width: 1440, height: 900 } });
     const errors = watchConsole(page);
     await signIn(page, 'owner');
     await page.getByRole('navigation', { name: 'Main' }).getByRole('link', { name: 'Reports' }).click();
@@ -69,13 +59,13 @@ describe('the owner\u2019s reports', () => {
 
     const href = await page.getByRole('link', { name: 'CSV of quotes by month' }).getAttribute('href');
     expect(href).toBe('/api/reports/quotes.csv?from=2025-12-01&to=2026-11-30');
-    const csv = await page.request.get(`${server.baseUrl}${href}`);
+    const csv = await page.request.get(`${suite.server.baseUrl}${href}`);
     expect(csv.status()).toBe(200);
     expect(csv.headers()['content-type']).toMatch(/text\/csv/);
     const lines = (await csv.text()).replace(/^\ufeff/, '').split('\r\n');
     expect(lines[0]).toBe('"Month","Sent","Opened","Accepted","Declined","Expired"');
     expect(lines[1]).toMatch(/^"2025-12",/);
-    const capacityCsv = await page.request.get(`${server.baseUrl}${await page.getByRole('link', { name: 'CSV of capacity by week' }).getAttribute('href')}`);
+    const capacityCsv = await page.request.get(`${suite.server.baseUrl}${await page.getByRole('link', { name: 'CSV of capacity by week' }).getAttribute('href')}`);
     expect((await capacityCsv.text()).replace(/^\ufeff/, '').split('\r\n')[0]).toMatch(/^"Week from","Room booked/);
     await settle(page);
     await screenshot(page, 'reports-period');
@@ -84,10 +74,10 @@ describe('the owner\u2019s reports', () => {
   });
 
   it('stacks the charts and tables on a phone, nothing wider than the screen', async () => {
-    const page = await browser.newPage({ viewport: { width: 390, height: 844 } });
+    const page = await suite.browser.newPage({ viewport: { width: 390, height: 844 } });
     const errors = watchConsole(page);
     await signIn(page, 'owner');
-    await page.goto(`${server.baseUrl}/reports`);
+    await page.goto(`${suite.server.baseUrl}/reports`);
     await page.getByRole('table', { name: 'Quotes by month' }).waitFor();
     await page.getByRole('table', { name: 'Capacity by week' }).waitFor();
     await settle(page);
@@ -101,7 +91,7 @@ describe('the owner\u2019s reports', () => {
   });
 
   it('is the owner\u2019s only: the workshop has no Reports in its navigation', async () => {
-    const page = await browser.newPage({ viewport: { width: 1280, height: 800 } });
+    const page = await suite.browser.newPage({ viewport: { width: 1280, height: 800 } });
     const errors = watchConsole(page);
     await signIn(page, 'workshop');
     const nav = page.getByRole('navigation', { name: 'Main' });

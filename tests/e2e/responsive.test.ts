@@ -3,26 +3,16 @@
  * than the screen (nothing scrolls sideways), the main navigation folds into a menu on the phone, and the console
  * stays clean. A screenshot of each page at each size is kept in tests/artifacts/screenshots/responsive-*.png.
  */
-import type { Browser, Page } from 'playwright-core';
-import { afterAll, beforeAll, describe, expect, it } from 'vitest';
+import type { Page } from 'playwright-core';
+import { describe, expect, it } from 'vitest';
 import type { Role } from '../../shared/schemas/auth';
 import { DEMO_PASSWORD } from '../../server/seeders/demo';
 import { navFor } from '../../src/config/nav';
-import { closeTestApp, demoEmail } from '../helpers/app';
-import { launchBrowser, screenshot, settle, startServer, watchConsole } from '../helpers/browser';
+import { demoEmail } from '../helpers/app';
+import { browserSuite, screenshot, settle, watchConsole } from '../helpers/browser';
 
-let browser: Browser;
-let server: Awaited<ReturnType<typeof startServer>>;
 
-beforeAll(async () => {
-  server = await startServer({ services: true });
-  browser = await launchBrowser();
-});
-afterAll(async () => {
-  await browser?.close();
-  await server?.stop();
-  await closeTestApp();
-});
+const suite = browserSuite({ services: true });
 
 const SIZES = [
   { name: 'phone', width: 390, height: 844 },
@@ -32,7 +22,7 @@ const SIZES = [
 const ROLES: Role[] = ['owner', 'estimator', 'sales', 'workshop'];
 
 async function getJson<T>(page: Page, url: string): Promise<T> {
-  const res = await page.request.get(`${server.baseUrl}${url}`);
+  const res = await page.request.get(`${suite.server.baseUrl}${url}`);
   if (!res.ok()) throw new Error(`GET ${url}: ${res.status()} ${await res.text()}`);
   return (await res.json()) as T;
 }
@@ -111,10 +101,10 @@ describe('every page fits a phone and a tablet', () => {
     it(`the ${role}'s pages on a ${size.name}`, { timeout: 600_000 }, async () => {
       const problems: string[] = [];
       {
-        const context = await browser.newContext({ viewport: { width: size.width, height: size.height }, isMobile: size.name === 'phone', hasTouch: true });
+        const context = await suite.browser.newContext({ viewport: { width: size.width, height: size.height }, isMobile: size.name === 'phone', hasTouch: true });
         const page = await context.newPage();
         const errors = watchConsole(page);
-        await page.goto(`${server.baseUrl}/signin`);
+        await page.goto(`${suite.server.baseUrl}/signin`);
         await page.getByLabel('E-mail').fill(demoEmail(role));
         await page.getByLabel('Password').fill(DEMO_PASSWORD);
         await page.getByRole('button', { name: 'Sign in' }).click();
@@ -123,7 +113,7 @@ describe('every page fits a phone and a tablet', () => {
         await settle(page);
         const routes = await routesFor(page, role);
         for (const route of routes) {
-          await page.goto(`${server.baseUrl}${route}`);
+          await page.goto(`${suite.server.baseUrl}${route}`);
           const opened = await page.getByRole('heading', { level: 1 }).first().waitFor({ timeout: 20_000 }).then(() => true, () => false);
           if (!opened) {
             problems.push(`${size.name} ${route}: no page heading`);
@@ -160,10 +150,10 @@ describe('every page fits a phone and a tablet', () => {
   it('the sign-in page and the customer\u2019s quote page', { timeout: 300_000 }, async () => {
     const problems: string[] = [];
     for (const size of SIZES) {
-      const context = await browser.newContext({ viewport: { width: size.width, height: size.height }, isMobile: size.name === 'phone', hasTouch: true });
+      const context = await suite.browser.newContext({ viewport: { width: size.width, height: size.height }, isMobile: size.name === 'phone', hasTouch: true });
       const page = await context.newPage();
       const errors = watchConsole(page);
-      await page.goto(`${server.baseUrl}/signin`);
+      await page.goto(`${suite.server.baseUrl}/signin`);
       await page.getByRole('heading', { level: 1 }).first().waitFor();
       await settle(page);
       const signIn = await overflow(page);
@@ -176,14 +166,14 @@ describe('every page fits a phone and a tablet', () => {
       await page.waitForURL((u) => !u.pathname.startsWith('/signin'));
       const priced = await getJson<{ rows: { id: number }[] }>(page, '/api/estimates?state=priced&pageSize=1');
       const csrf = (await getJson<{ csrfToken: string }>(page, '/api/auth/csrf')).csrfToken;
-      const made = await page.request.post(`${server.baseUrl}/api/estimates/${priced.rows[0]!.id}/quotes`, { data: {}, headers: { 'x-csrf-token': csrf } });
+      const made = await page.request.post(`${suite.server.baseUrl}/api/estimates/${priced.rows[0]!.id}/quotes`, { data: {}, headers: { 'x-csrf-token': csrf } });
       const quote = (await made.json()) as { id: number };
-      const sent = await page.request.post(`${server.baseUrl}/api/quotes/${quote.id}/send`, { data: {}, headers: { 'x-csrf-token': csrf } });
+      const sent = await page.request.post(`${suite.server.baseUrl}/api/quotes/${quote.id}/send`, { data: {}, headers: { 'x-csrf-token': csrf } });
       const { link } = (await sent.json()) as { link: string };
-      const customer = await browser.newContext({ viewport: { width: size.width, height: size.height }, isMobile: size.name === 'phone', hasTouch: true });
+      const customer = await suite.browser.newContext({ viewport: { width: size.width, height: size.height }, isMobile: size.name === 'phone', hasTouch: true });
       const cpage = await customer.newPage();
       const cerrors = watchConsole(cpage);
-      await cpage.goto(link.replace(/^http:\/\/[^/]+/, server.baseUrl));
+      await cpage.goto(link.replace(/^http:\/\/[^/]+/, suite.server.baseUrl));
       await cpage.getByRole('heading', { level: 1 }).first().waitFor();
       await settle(cpage);
       const q = await overflow(cpage);
@@ -197,17 +187,17 @@ describe('every page fits a phone and a tablet', () => {
   });
 
   it('at 1440 \u00d7 900 the price list\u2019s notes and the parts table\u2019s drop-downs show their text whole', { timeout: 300_000 }, async () => {
-    const context = await browser.newContext({ viewport: { width: 1440, height: 900 } });
+    const context = await suite.browser.newContext({ viewport: { width: 1440, height: 900 } });
     const page = await context.newPage();
     const errors = watchConsole(page);
-    await page.goto(`${server.baseUrl}/signin`);
+    await page.goto(`${suite.server.baseUrl}/signin`);
     await page.getByLabel('E-mail').fill(demoEmail('owner'));
     await page.getByLabel('Password').fill(DEMO_PASSWORD);
     await page.getByRole('button', { name: 'Sign in' }).click();
     await page.waitForURL((u) => !u.pathname.startsWith('/signin'));
     await settle(page);
 
-    await page.goto(`${server.baseUrl}/price-list`);
+    await page.goto(`${suite.server.baseUrl}/price-list`);
     await page.getByRole('heading', { level: 1, name: 'Price list' }).waitFor();
     await settle(page);
     // The notes column is wide enough that a note reads as lines of words, not a word per line.
@@ -220,7 +210,7 @@ describe('every page fits a phone and a tablet', () => {
     await screenshot(page, 'responsive-owner-desktop-price-list');
 
     const estimates = await getJson<{ rows: { piece: { id: number } }[] }>(page, '/api/estimates?pageSize=1');
-    await page.goto(`${server.baseUrl}/estimates/new?pieceId=${estimates.rows[0]!.piece.id}`);
+    await page.goto(`${suite.server.baseUrl}/estimates/new?pieceId=${estimates.rows[0]!.piece.id}`);
     await page.getByRole('heading', { level: 1, name: 'New estimate' }).waitFor();
     await page.getByRole('button', { name: 'Edit the parts table' }).click();
     await page.getByRole('heading', { name: 'Parts' }).first().waitFor().catch(() => undefined);

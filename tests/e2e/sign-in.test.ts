@@ -1,31 +1,20 @@
-import type { Browser } from 'playwright-core';
-import { afterAll, beforeAll, describe, expect, it } from 'vitest';
+import { describe, expect, it } from 'vitest';
 import { ROLE_LABELS, ROLES } from '../../shared/schemas/auth';
 import { navFor } from '../../src/config/nav';
 import { DEMO_PASSWORD } from '../../server/seeders/demo';
-import { closeTestApp, demoEmail } from '../helpers/app';
-import { launchBrowser, screenshot, startServer, watchConsole } from '../helpers/browser';
+import { demoEmail } from '../helpers/app';
+import { browserSuite, screenshot, watchConsole } from '../helpers/browser';
 
-let browser: Browser;
-let server: Awaited<ReturnType<typeof startServer>>;
 
-beforeAll(async () => {
-  server = await startServer({ services: true });
-  browser = await launchBrowser();
-});
-afterAll(async () => {
-  await browser?.close();
-  await server?.stop();
-  await closeTestApp();
-});
+const suite = browserSuite({ services: true });
 
 describe('signing in, in a real browser', () => {
   for (const role of ROLES) {
     it(`the demo ${role} signs in and sees the navigation of that role`, async () => {
-      const context = await browser.newContext({ viewport: { width: 1280, height: 800 } });
+      const context = await suite.browser.newContext({ viewport: { width: 1280, height: 800 } });
       const page = await context.newPage();
       const errors = watchConsole(page);
-      await page.goto(`${server.baseUrl}/`);
+      await page.goto(`${suite.server.baseUrl}/`);
       await page.waitForURL(/\/signin/);
       await page.getByLabel('E-mail').fill(demoEmail(role));
       await page.getByLabel('Password').fill(DEMO_PASSWORD);
@@ -36,7 +25,7 @@ describe('signing in, in a real browser', () => {
       await expect.poll(() => page.getByRole('heading', { level: 1 }).textContent()).toMatch(/Good to see you/);
       await screenshot(page, `sign-in-${role}`);
       if (role !== 'owner') {
-        await page.goto(`${server.baseUrl}/users`);
+        await page.goto(`${suite.server.baseUrl}/users`);
         await expect.poll(() => page.getByText('Not available to your role').count()).toBe(1);
       }
       await page.getByRole('button', { name: 'Sign out' }).click();
@@ -47,8 +36,8 @@ describe('signing in, in a real browser', () => {
   }
 
   it('a wrong password shows an error and stays on the sign-in page', async () => {
-    const page = await browser.newPage();
-    await page.goto(`${server.baseUrl}/signin`);
+    const page = await suite.browser.newPage();
+    await page.goto(`${suite.server.baseUrl}/signin`);
     await page.getByLabel('E-mail').fill('owner@example.com');
     await page.getByLabel('Password').fill('not-the-password');
     await page.getByRole('button', { name: 'Sign in' }).click();
@@ -59,8 +48,8 @@ describe('signing in, in a real browser', () => {
   });
 
   it('the owner adds a user from the users page', async () => {
-    const page = await browser.newPage({ viewport: { width: 1280, height: 800 } });
-    await page.goto(`${server.baseUrl}/signin`);
+    const page = await suite.browser.newPage({ viewport: { width: 1280, height: 800 } });
+    await page.goto(`${suite.server.baseUrl}/signin`);
     await page.getByLabel('E-mail').fill('owner@example.com');
     await page.getByLabel('Password').fill(DEMO_PASSWORD);
     await page.getByRole('button', { name: 'Sign in' }).click();
@@ -81,35 +70,35 @@ describe('signing in, in a real browser', () => {
 
   it('a person who forgot the password asks for a link from the sign-in page and chooses a new one from the e-mail', async () => {
     // A person of their own, so the demo accounts the other tests use keep their password.
-    const owner = await browser.newContext();
+    const owner = await suite.browser.newContext();
     const op = await owner.newPage();
-    await op.goto(`${server.baseUrl}/signin`);
+    await op.goto(`${suite.server.baseUrl}/signin`);
     await op.getByLabel('E-mail').fill(demoEmail('owner'));
     await op.getByLabel('Password').fill(DEMO_PASSWORD);
     await op.getByRole('button', { name: 'Sign in' }).click();
     await op.getByTestId('current-role').waitFor();
-    const csrf = ((await (await op.request.get(`${server.baseUrl}/api/auth/csrf`)).json()) as { csrfToken: string }).csrfToken;
+    const csrf = ((await (await op.request.get(`${suite.server.baseUrl}/api/auth/csrf`)).json()) as { csrfToken: string }).csrfToken;
     const email = `forgetful-${Date.now()}@example.com`;
-    const made = await op.request.post(`${server.baseUrl}/api/users`, { data: { email, name: 'Ivo Forgetful', role: 'sales', password: 'the first long password' }, headers: { 'x-csrf-token': csrf } });
+    const made = await op.request.post(`${suite.server.baseUrl}/api/users`, { data: { email, name: 'Ivo Forgetful', role: 'sales', password: 'the first long password' }, headers: { 'x-csrf-token': csrf } });
     expect(made.status()).toBe(201);
     await owner.close();
 
-    const context = await browser.newContext({ viewport: { width: 390, height: 844 }, isMobile: true, hasTouch: true });
+    const context = await suite.browser.newContext({ viewport: { width: 390, height: 844 }, isMobile: true, hasTouch: true });
     const page = await context.newPage();
     const errors = watchConsole(page);
-    await page.goto(`${server.baseUrl}/signin`);
+    await page.goto(`${suite.server.baseUrl}/signin`);
     await page.getByRole('link', { name: 'Forgot your password?' }).click();
     await page.getByRole('heading', { level: 1, name: 'Set a new password' }).waitFor();
-    const before = server.services!.mail!.messages.length;
+    const before = suite.server.services!.mail!.messages.length;
     await page.getByLabel('E-mail').fill(email);
     await page.getByRole('button', { name: 'E-mail me a link' }).click();
     await expect.poll(() => page.getByText('a link to set a new password is on its way').count()).toBe(1);
     await screenshot(page, 'password-reset-asked');
-    await expect.poll(() => server.services!.mail!.messages.length).toBe(before + 1);
-    const raw = server.services!.mail!.messages.at(-1)!.raw.replace(/=\r?\n/g, '').replace(/=3D/g, '=');
+    await expect.poll(() => suite.server.services!.mail!.messages.length).toBe(before + 1);
+    const raw = suite.server.services!.mail!.messages.at(-1)!.raw.replace(/=\r?\n/g, '').replace(/=3D/g, '=');
     const path = /\/reset-password\/[A-Za-z0-9_-]+/.exec(raw)![0];
 
-    await page.goto(`${server.baseUrl}${path}`);
+    await page.goto(`${suite.server.baseUrl}${path}`);
     await page.getByRole('heading', { level: 1, name: 'Choose a new password' }).waitFor();
     await page.getByLabel('New password', { exact: true }).fill('a second long password');
     await page.getByLabel('The same password again').fill('a second long password');

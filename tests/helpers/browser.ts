@@ -6,7 +6,8 @@ import path from 'node:path';
 import { chromium, type Browser, type Page } from 'playwright-core';
 import { rootDir } from '../../server/config';
 import { startLocalServices, type LocalServices } from '../../server/fakes';
-import { getTestApp } from './app';
+import { afterAll, beforeAll } from 'vitest';
+import { closeTestApp, getTestApp } from './app';
 
 export const artifactsDir = path.join(rootDir, 'tests', 'artifacts', 'screenshots');
 
@@ -45,6 +46,36 @@ export async function startServer(opts: { services?: boolean } = {}): Promise<{
       await services?.stop();
       server.closeAllConnections();
       await new Promise<void>((resolve) => server.close(() => resolve()));
+    },
+  };
+}
+
+export type StartedServer = Awaited<ReturnType<typeof startServer>>;
+
+/**
+ * The set-up every browser test file shares: the app served on a free port (with the local mail catcher and payment
+ * stand-in when `services`), one Chromium for the file, both closed with the test app when the file ends.
+ */
+export function browserSuite(opts: { services?: boolean } = {}): { readonly browser: Browser; readonly server: StartedServer } {
+  let browser: Browser | undefined;
+  let server: StartedServer | undefined;
+  beforeAll(async () => {
+    server = await startServer(opts);
+    browser = await launchBrowser();
+  });
+  afterAll(async () => {
+    await browser?.close();
+    await server?.stop();
+    await closeTestApp();
+  });
+  return {
+    get browser() {
+      if (!browser) throw new Error('The browser starts in beforeAll');
+      return browser;
+    },
+    get server() {
+      if (!server) throw new Error('The server starts in beforeAll');
+      return server;
     },
   };
 }
