@@ -135,3 +135,49 @@ export function formatDate(value: string | Date, opts: { month?: 'short' | 'long
   const t = m ? Date.UTC(Number(m[1]), Number(m[2]) - 1, Number(m[3])) : new Date(value).getTime();
   return Number.isNaN(t) ? value : fmt.format(t);
 }
+
+const localFormats = {
+  day: new Intl.DateTimeFormat(LOCALE, { weekday: 'short', day: 'numeric', month: 'short', timeZone: 'UTC' }),
+  longDay: new Intl.DateTimeFormat(LOCALE, { weekday: 'short', day: 'numeric', month: 'short', year: 'numeric', timeZone: 'UTC' }),
+};
+
+/** A workshop-local date or date-time ("2026-12-07" or "2026-12-07T08:00") read as written, never shifted by a zone. */
+function localInstant(local: string): number {
+  return Date.parse(`${local.length === 10 ? `${local}T00:00` : local.slice(0, 16)}:00Z`);
+}
+
+/** A workshop-local day: "Mon 7 Dec". */
+export function formatDay(local: string): string {
+  return localFormats.day.format(localInstant(local));
+}
+
+/** A workshop-local day with its year: "Mon, 7 Dec 2026". */
+export function formatLongDay(local: string): string {
+  return localFormats.longDay.format(localInstant(local));
+}
+
+/** A workshop-local date-time: "Mon 7 Dec, 08:00"; a dash when there is none. */
+export function formatDayTime(local: string | null): string {
+  if (!local) return '\u2014';
+  return `${formatDay(local)}, ${local.slice(11, 16)}`;
+}
+
+/** Hands-on time with its unit: "7.5 h", or "45 min" below an hour. */
+export function formatWorkTime(hours: number): string {
+  if (hours > 0 && hours < 1) return `${Math.round(hours * 60)} min`;
+  return formatHours(hours);
+}
+
+/** A rest between coats: hours up to two days, days beyond ("26.4 h", "7.7 days"); "none" for no rest. */
+export function formatRest(hours: number): string {
+  if (hours <= 0) return 'none';
+  return hours < 48 ? formatWorkTime(hours) : `${formatNumber(hours / 24, 1)} days`;
+}
+
+/** A duration in minutes: "1 day 3 h 20 min". */
+export function formatDuration(min: number): string {
+  const days = Math.floor(min / 1440);
+  const h = Math.floor((min % 1440) / 60);
+  const m = Math.round(min % 60);
+  return [days ? plural(days, 'day') : '', h ? `${h} h` : '', m ? `${m} min` : ''].filter(Boolean).join(' ') || '0 min';
+}

@@ -1,6 +1,6 @@
 import fc from 'fast-check';
 import { describe, expect, it } from 'vitest';
-import { formatMoney, formatMoneyDelta } from '../../shared/format';
+import { formatDay, formatDayTime, formatDuration, formatLongDay, formatMoney, formatMoneyDelta, formatRest, formatWorkTime } from '../../shared/format';
 import { addDays, daysBetween, isTimeZone, mondayOf, nowLocal, today, weekdayIndex } from '../../shared/time';
 
 const day = fc.date({ min: new Date('2000-01-01T00:00:00Z'), max: new Date('2099-12-31T00:00:00Z'), noInvalidDate: true }).map((d) => d.toISOString().slice(0, 10));
@@ -66,5 +66,39 @@ describe('the one money format (shared/format.ts)', () => {
     expect(formatMoneyDelta('-3.5', 'GBP')).toBe('\u2212£3.50');
     expect(formatMoneyDelta('12', 'GBP')).toBe('+£12.00');
     expect(formatMoneyDelta('0.00', 'GBP')).toBe('£0.00');
+  });
+});
+
+describe('the board\u2019s days and durations (shared/format.ts)', () => {
+  it('a workshop-local day reads as written, whatever the zone of the machine that formats it', () => {
+    // 7 December 2026 is a Monday (worked from the calendar).
+    expect(formatDay('2026-12-07')).toBe('Mon 7 Dec');
+    expect(formatDay('2026-12-07T23:59')).toBe('Mon 7 Dec');
+    expect(formatLongDay('2026-12-07T00:00')).toBe('Mon, 7 Dec 2026');
+    expect(formatDayTime('2026-12-07T08:00')).toBe('Mon 7 Dec, 08:00');
+    expect(formatDayTime(null)).toBe('\u2014');
+  });
+
+  it('the day of a local date-time is the day of its date, for every minute of every day', () => {
+    fc.assert(
+      fc.property(day, fc.integer({ min: 0, max: 1439 }), (date, minute) => {
+        const time = `${String(Math.floor(minute / 60)).padStart(2, '0')}:${String(minute % 60).padStart(2, '0')}`;
+        expect(formatDay(`${date}T${time}`)).toBe(formatDay(date));
+        expect(formatDayTime(`${date}T${time}`)).toBe(`${formatDay(date)}, ${time}`);
+      }),
+    );
+  });
+
+  it('work below an hour reads in minutes, rests beyond two days in days, durations in days, hours and minutes', () => {
+    expect(formatWorkTime(0.75)).toBe('45 min');
+    expect(formatWorkTime(7.5)).toBe('7.5 h');
+    expect(formatRest(0)).toBe('none');
+    expect(formatRest(26.4)).toBe('26.4 h');
+    // 184.8 h ÷ 24 = 7.7 days.
+    expect(formatRest(184.8)).toBe('7.7 days');
+    // 1,640 min = 1 day (1,440) + 3 h (180) + 20 min.
+    expect(formatDuration(1640)).toBe('1 day 3 h 20 min');
+    expect(formatDuration(0)).toBe('0 min');
+    expect(formatDuration(2 * 1440)).toBe('2 days');
   });
 });
