@@ -19,8 +19,8 @@ export function capacityCsv(r: CapacityReport): string {
 
 export function accuracyCsv(r: EstimateAccuracy): string {
   return toCsv(
-    ['Month', 'Finishing system', 'Piece kind', 'Estimated hours', 'Actual hours', 'Actual over estimated', 'Sessions', 'Jobs'],
-    r.rows.map((x) => [x.month, x.systemName, x.pieceKind, x.estimatedHours, x.actualHours, x.ratio, x.sessions, x.jobs]),
+    ['Month', 'Finishing system', 'Piece kind', 'Estimated hours', 'Actual hours', 'Actual over estimated', 'Sessions', 'Jobs', 'Materials estimated', 'Materials used', 'Materials actual over estimated', 'Sessions with materials'],
+    r.rows.map((x) => [x.month, x.systemName, x.pieceKind, x.estimatedHours, x.actualHours, x.ratio, x.sessions, x.jobs, d(x.estimatedMaterials), d(x.actualMaterials), x.materialsRatio, x.materialSessions]),
   );
 }
 
