@@ -246,6 +246,13 @@ const accuracyColumns: Column<EstimateAccuracyRow>[] = [
   { key: 'act', header: 'Actual', sortKey: 'actualHours', align: 'right', render: (r) => `${num(r.actualHours)} h` },
   { key: 'ratio', header: 'Actual ÷ estimated', sortKey: 'ratio', align: 'right', render: (r) => (r.ratio === null ? '—' : `× ${r.ratio.toFixed(2)}`) },
   { key: 'sessions', header: 'Sessions', sortKey: 'sessions', align: 'right', render: (r) => r.sessions },
+  {
+    key: 'materials',
+    header: 'Materials used ÷ estimated',
+    sortKey: 'materialsRatio',
+    align: 'right',
+    render: (r) => (r.materialsRatio === null ? '—' : `× ${r.materialsRatio.toFixed(2)} (${r.actualMaterials} of ${r.estimatedMaterials}, ${r.materialSessions} ${r.materialSessions === 1 ? 'session' : 'sessions'})`),
+  },
 ];
 
 function AccuracySection() {
@@ -258,7 +265,10 @@ function AccuracySection() {
     <Card title="Estimates against the bench" actions={<CsvLink href={csvHref('estimate-accuracy', period)} what="estimated against actual hours" />}>
       <div className="space-y-4">
         <PeriodPicker label="estimate accuracy" value={period} onChange={setPeriod} />
-        <p className="text-sm text-walnut-600">Hands-on hours of the sessions done, by month, finishing system and piece. Above × 1.00 the estimates fell short; the Actuals page turns this into corrections.</p>
+        <p className="text-sm text-walnut-600">
+          Hands-on hours and materials (in money, where the session&rsquo;s materials were recorded) of the sessions done, by month, finishing system and piece. Above × 1.00 the estimates fell short. The{' '}
+          <Link to={paths.actuals} className="font-medium text-walnut-800 underline">Actuals</Link> page proposes a correction for each finishing system from its own finished jobs, applied only when you confirm it.
+        </p>
         {a.isPending ? (
           <Spinner label="Reading the sessions…" />
         ) : a.isError ? (
