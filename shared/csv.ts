@@ -5,14 +5,27 @@
  * Numbers the product writes itself (a negative amount) are passed as numbers and kept as they are.
  */
 
-export type CsvValue = string | number | null | undefined;
+/** A decimal amount the product wrote itself (money as a string, "-205.76"), kept exactly as written. */
+export interface CsvDecimal {
+  readonly decimal: string;
+}
+
+export type CsvValue = string | number | CsvDecimal | null | undefined;
 
 const FORMULA_START = /^[=+\-@\t\r]/;
+const DECIMAL = /^-?\d{1,15}(\.\d{1,4})?$/;
+
+/**
+ * Marks a decimal amount (a money string) to be written as a number, with all its decimals. Anything that is not a
+ * plain decimal is treated as text, and neutralised like any other text.
+ */
+export const csvDecimal = (value: string | null | undefined): CsvDecimal | null => (value === null || value === undefined ? null : { decimal: value });
 
 /** One cell's text, neutralised when it could start a formula. */
 export function safeCell(value: CsvValue): string {
   if (value === null || value === undefined) return '';
   if (typeof value === 'number') return Number.isFinite(value) ? String(value) : '';
+  if (typeof value === 'object') return DECIMAL.test(value.decimal) ? value.decimal : safeCell(value.decimal);
   return FORMULA_START.test(value) ? `'${value}` : value;
 }
 

@@ -3,7 +3,8 @@ import { secureRouter, type RouteInfo } from '../http/guard';
 import { parseOr400 } from '../http/problem';
 import { estimateAccuracy } from '../services/costing/job-costing';
 import { capacityReport } from '../services/reports/capacity-report';
-import { accuracyCsv, capacityCsv, quotesCsv } from '../services/reports/exports';
+import { accountingCsv, accuracyCsv, capacityCsv, moneyCsv, quotesCsv } from '../services/reports/exports';
+import { accountingLines, moneyReport } from '../services/reports/money-report';
 import { quotesReport } from '../services/reports/quotes-report';
 import { csvResponse } from './stock';
 
@@ -32,6 +33,18 @@ export function reportRoutes(table: RouteInfo[]) {
   r.get('/estimate-accuracy.csv', 'readReports', async (req, res) => {
     const p = parseOr400(PeriodSchema, req.query);
     csvResponse(res, `estimate-accuracy-${p.from}-${p.to}`, accuracyCsv(await estimateAccuracy(p)));
+  });
+  r.get('/money', 'readReports', async (req, res) => {
+    res.json(await moneyReport(parseOr400(PeriodSchema, req.query)));
+  });
+  r.get('/money.csv', 'readReports', async (req, res) => {
+    const p = parseOr400(PeriodSchema, req.query);
+    csvResponse(res, `money-${p.from}-${p.to}`, moneyCsv(await moneyReport(p)));
+  });
+  /** Invoices, credit notes, payments and refunds of the period, for the bookkeeping. */
+  r.get('/accounting.csv', 'readReports', async (req, res) => {
+    const p = parseOr400(PeriodSchema, req.query);
+    csvResponse(res, `accounting-${p.from}-${p.to}`, accountingCsv(await accountingLines(p)));
   });
 
   return [r.router];

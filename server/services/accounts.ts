@@ -37,9 +37,10 @@ import {
   type RecordPaymentSchema,
 } from '@shared/schemas/accounts';
 import { localToday } from '@shared/schemas/dates';
+import { mirrorEstimate, moveQuote } from '@shared/schemas/state-moves';
 import type { Config } from '../config';
 import { HttpProblem, problems } from '../http/problem';
-import { AccountDocument, AccountEntry, AccountSetting, Customer, Estimate, Job, OutboxMessage, Payment, Quote, User, Workshop } from '../models';
+import { AccountDocument, AccountEntry, AccountSetting, Customer, Estimate, Job, OutboxMessage, Payment, Quote, QuoteLine, User, Workshop } from '../models';
 import type { DocumentContent } from '../models/accounts';
 import { renderAccountPdf } from '../pdf/account-pdf';
 import { formatDate, formatMoney } from '../pdf/pdf-format';
@@ -389,9 +390,33 @@ async function deliverAll(config: Config, ids: readonly (number | null)[]): Prom
   for (const id of ids) if (id) await deliver(config, id);
 }
 
-/** Closes an open balance checkout at the provider once the balance changed another way (best effort). */
-async function closeBalanceCheckouts(config: Config, quoteId: number): Promise<void> {
-  const open = await Payment.findAll({ where: { quoteId, status: 'pending', purpose: 'balance' } });
+/**
+ * Marks an accepted quote's deposit paid (the quote locked by the caller): the quote moves by the state table and the
+ * estimates of the lines the customer chose follow it. The card webhook and a deposit recorded by hand both come here.
+ */
+export async function markDepositPaid(quote: Quote, transaction: Transaction, paidAt: Date = new Date()): Promise<void> {
+  await quote.update({ state: moveQuote(quote.state, 'pay'), depositPaidAt: paidAt }, { transaction });
+  const chosen = await QuoteLine.findAll({ where: { quoteId: quote.id, chosen: true }, attributes: ['estimateId'], transaction });
+  await Estimate.update({ state: mirrorEstimate('accepted', 'pay') }, { where: { id: chosen.length ? chosen.map((l) => l.estimateId) : [quote.estimateId] }, transaction });
+}
+
+/**
+ * Whether a payment recorded by hand on an accepted quote pays its deposit: the quote asks for one and what has been
+ * received (less refunds), this payment included, reaches it.
+ */
+export function paysDeposit(quote: Pick<Quote, 'state' | 'acceptedDeposit'>, receivedAfter: string): boolean {
+  if (quote.state !== 'accepted' || quote.acceptedDeposit === null) return false;
+  const due = money(quote.acceptedDeposit);
+  return due.gt(0) && money(receivedAfter).gte(due);
+}
+
+/**
+ * Closes open checkouts at the provider once the account changed another way (best effort): the balance checkout,
+ * and the deposit checkout too once the deposit was paid by hand (a card payment arriving after all is flagged as
+ * paid twice and refunded by the webhook).
+ */
+async function closeBalanceCheckouts(config: Config, quoteId: number, depositToo = false): Promise<void> {
+  const open = await Payment.findAll({ where: { quoteId, status: 'pending', ...(depositToo ? {} : { purpose: 'balance' }) } });
   for (const p of open) {
     try {
       await paymentClient(config).checkout.sessions.expire(p.providerSessionId);
@@ -404,8 +429,13 @@ async function closeBalanceCheckouts(config: Config, quoteId: number): Promise<v
 
 // ------------------------------------------------------------------------------------- staff: payments
 
-/** A bank transfer, cash or cheque recorded by hand, with its receipt; 400 naming `amount` when it is more than owed. */
+/**
+ * A bank transfer, cash or cheque recorded by hand, with its receipt; 400 naming `amount` when it is more than owed.
+ * On an accepted quote whose deposit is unpaid, a payment that brings what was received up to the deposit pays the
+ * deposit, exactly as the card checkout would: the quote moves to "deposit paid" and the open deposit checkout closes.
+ */
 export async function recordPayment(sequelize: Sequelize, config: Config, actorId: number, quoteId: number, input: RecordInput): Promise<AccountDto> {
+  let depositPaid = false;
   const outboxId = await sequelize.transaction(async (transaction) => {
     const quote = await lockAccount(quoteId, transaction);
     const f = await figuresOf(quote, transaction);
@@ -418,6 +448,7 @@ export async function recordPayment(sequelize: Sequelize, config: Config, actorI
         'amount',
       );
     }
+    depositPaid = paysDeposit(quote, money(f.paid).minus(money(f.refunded)).plus(money(input.amount)).toFixed(2));
     const entry = await AccountEntry.create(
       {
         quoteId: quote.id,
@@ -427,7 +458,8 @@ export async function recordPayment(sequelize: Sequelize, config: Config, actorI
         currency: quote.currency,
         receivedOn: input.receivedOn,
         reference: input.reference,
-        note: input.note,
+        // The receipt names it the deposit, as it does a deposit paid by card.
+        note: depositPaid && !input.note ? 'Deposit' : input.note,
         paymentId: null,
         creditNoteId: null,
         recordedBy: actorId,
@@ -435,10 +467,14 @@ export async function recordPayment(sequelize: Sequelize, config: Config, actorI
       { transaction },
     );
     await audit({ userId: actorId, action: 'account.payment', entityType: 'quote', entityId: quote.id, after: { method: input.method, amount: entry.amount, receivedOn: input.receivedOn } }, transaction);
+    if (depositPaid) {
+      await markDepositPaid(quote, transaction);
+      await audit({ userId: actorId, action: 'quote.deposit_paid', entityType: 'quote', entityId: quote.id, after: { method: input.method, amount: entry.amount, byHand: true } }, transaction);
+    }
     const { outboxId } = await receiptFor(quote, entry, actorId, transaction);
     return outboxId;
   });
-  await closeBalanceCheckouts(config, quoteId);
+  await closeBalanceCheckouts(config, quoteId, depositPaid);
   await deliverAll(config, [outboxId]);
   return getAccount(quoteId);
 }

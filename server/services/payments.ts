@@ -5,15 +5,14 @@
  * the deposit) is recorded and flagged, never counted; one that arrives for an already paid deposit is refunded
  * through the SDK. The database keeps the rules too: one pending checkout per quote, one counted deposit per quote.
  */
-import { mirrorEstimate, moveQuote } from '@shared/schemas/state-moves';
 import type Stripe from 'stripe';
 import { Op, UniqueConstraintError, type Sequelize, type Transaction } from 'sequelize';
 import type { FlaggedPayment, PaymentDto, PaymentFlag } from '@shared/schemas/quotes';
 import type { Config } from '../config';
 import { HttpProblem, problems } from '../http/problem';
-import { Customer, Estimate, Payment, PaymentEvent, Quote, QuoteLine } from '../models';
+import { Customer, Estimate, Payment, PaymentEvent, Quote } from '../models';
 import { audit } from './audit';
-import { balanceCompleted, recordCardPayment } from './accounts';
+import { balanceCompleted, markDepositPaid, recordCardPayment } from './accounts';
 import { deliver } from './mail';
 import { CHECKOUT_MINUTES, client, fromMinor, lapseCheckouts, minorUnits, paymentDto, unreachable } from './payment-provider';
 
@@ -152,10 +151,8 @@ async function completed(session: Stripe.Checkout.Session, transaction: Transact
     return { handled: true, flag, ...(flag === 'amount-mismatch' ? {} : { refund: payment.id }) };
   }
   await payment.update({ ...base, flag: null, note: null }, { transaction });
-  await quote.update({ state: moveQuote(quote.state, 'pay'), depositPaidAt: new Date() }, { transaction });
-  // The estimates of the lines the customer chose (a quote of one piece: its estimate).
-  const chosen = await QuoteLine.findAll({ where: { quoteId: quote.id, chosen: true }, attributes: ['estimateId'], transaction });
-  await Estimate.update({ state: mirrorEstimate('accepted', 'pay') }, { where: { id: chosen.length ? chosen.map((l) => l.estimateId) : [quote.estimateId] }, transaction });
+  // The quote and the estimates of the lines the customer chose (a quote of one piece: its estimate).
+  await markDepositPaid(quote, transaction);
   await audit({ userId: null, action: 'quote.deposit_paid', entityType: 'quote', entityId: quote.id, after: { amountMinor: received, session: session.id } }, transaction);
   // The deposit enters the job's ledger, with its receipt for the customer.
   const mail = await recordCardPayment(quote, payment, 'deposit', transaction);

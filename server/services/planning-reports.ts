@@ -1,6 +1,7 @@
 /**
- * Around the board: the polishers, actual hours against estimates (with a suggested correction to each stage's
- * labour minutes, applied only when the owner confirms), stock on hand, and the material forecast of the booked
+ * Around the board: the polishers, actual hours against estimates (with a suggested correction to each finishing
+ * system's stage labour minutes, worked from the finished jobs estimated with that system, applied only when the
+ * owner confirms), stock on hand, and the material forecast of the booked
  * jobs with a shopping list in packs.
  */
 import Decimal from 'decimal.js';
@@ -22,7 +23,7 @@ import type {
   UpdatePolisherInput,
 } from '@shared/schemas/planning';
 import { HttpProblem, problems } from '../http/problem';
-import { AuditEntry, FinishingSystem, Job, JobSession, Material, MaterialStock, Polisher } from '../models';
+import { AuditEntry, EstimateRevision, FinishingSystem, Job, JobSession, Material, MaterialStock, Polisher } from '../models';
 import { audit } from './audit';
 import { loadCatalog } from './catalog';
 import { addDays, localNow } from './planning-context';
@@ -103,6 +104,10 @@ async function computeActuals(transaction?: Transaction): Promise<ActualsReport>
     }
   }
   const systems = await FinishingSystem.findAll({ where: { archived: false }, order: [['name', 'ASC'], ['id', 'ASC']], transaction });
+  // Each finished job's finishing system, as it was estimated: a system is corrected from its own jobs only.
+  const revisions = jobs.length ? await EstimateRevision.findAll({ where: { id: [...new Set(jobs.map((j) => j.revisionId))] }, attributes: ['id', 'result'], transaction }) : [];
+  const systemOfRevision = new Map(revisions.map((r) => [r.id, r.result.system]));
+  const systemOfJob = new Map(jobs.map((j) => [j.id, systemOfRevision.get(j.revisionId) ?? null]));
   const suggestions: ActualsSuggestion[] = [];
   for (const system of systems) {
     for (const stage of system.stages) {
@@ -112,7 +117,7 @@ async function computeActuals(transaction?: Transaction): Promise<ActualsReport>
       let act = 0;
       const jobIds = new Set<number>();
       for (const s of sessions) {
-        if (s.stageKind !== stage.kind || s.actualHours === null || skip?.has(s.jobId)) continue;
+        if (s.stageKind !== stage.kind || s.actualHours === null || skip?.has(s.jobId) || systemOfJob.get(s.jobId) !== system.key) continue;
         est += Number(s.estimatedHours);
         act += Number(s.actualHours);
         jobIds.add(s.jobId);
@@ -131,6 +136,8 @@ async function computeActuals(transaction?: Transaction): Promise<ActualsReport>
         current: stage.labourMinPerM2PerCoat,
         suggested,
         ratio,
+        estimatedHours: round(est),
+        actualHours: round(act),
         jobs: jobIds.size,
         jobIds: [...jobIds].sort((a, b) => a - b),
       });
@@ -146,7 +153,7 @@ async function computeActuals(transaction?: Transaction): Promise<ActualsReport>
   };
 }
 
-/** Estimated against actual hours per stage kind across finished jobs, and the corrections they suggest. */
+/** Estimated against actual hours per stage kind across finished jobs, and the corrections they suggest per finishing system. */
 export function actualsReport(): Promise<ActualsReport> {
   return computeActuals();
 }

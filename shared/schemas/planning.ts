@@ -369,7 +369,10 @@ export interface ActualsSuggestion {
   /** Labour minutes per m² per coat now, and as suggested. */
   current: number;
   suggested: number;
+  /** Actual ÷ estimated hours of this stage kind on the system's own finished jobs (not yet used to correct it). */
   ratio: number;
+  estimatedHours: number;
+  actualHours: number;
   jobs: number;
   /** The finished jobs it rests on (those not yet used to correct this stage). */
   jobIds: number[];

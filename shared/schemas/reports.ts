@@ -61,3 +61,63 @@ export interface CapacityReport {
   weeksBehind: number;
   weeksAhead: number;
 }
+
+export interface MoneyMonth {
+  /** YYYY-MM */
+  month: string;
+  /** Tax invoices issued in the month, tax included, and credit notes issued against them. */
+  invoiced: string;
+  credited: string;
+  /** Payments received in the month (on the day received), refunds made, and what was kept: received − refunded. */
+  received: string;
+  refunded: string;
+  net: string;
+}
+
+/** An agreement whose work is not finished, holding what the customer has paid so far. */
+export interface HeldDeposit {
+  quoteId: number;
+  quoteNumber: string;
+  customer: string;
+  agreedTotal: string;
+  held: string;
+  /** Jobs still to finish (none yet when the work has not been planned). */
+  openJobs: string[];
+  depositPaidOn: string | null;
+}
+
+export interface MoneyReport {
+  from: string;
+  to: string;
+  currency: string;
+  months: MoneyMonth[];
+  totals: Omit<MoneyMonth, 'month'>;
+  /** Now, whatever the period: money held against work not yet done. */
+  held: { count: number; amount: string; rows: HeldDeposit[] };
+  /** Now, whatever the period: what customers owe on invoices, by age (the "Owed to us" list's figures). */
+  owed: {
+    total: string;
+    buckets: { bucket: '0-30' | '31-60' | '60+'; count: number; amount: string }[];
+    rows: { quoteId: number; quoteNumber: string; invoiceNumber: string; invoicedOn: string; ageDays: number; bucket: '0-30' | '31-60' | '60+'; customer: string; balance: string }[];
+  };
+}
+
+/** One line of the accounting export: a tax invoice, a credit note, a payment received or a refund made. */
+export interface AccountingLine {
+  type: 'invoice' | 'credit-note' | 'payment' | 'refund';
+  /** INV-, CN- or the payment's receipt RC- number. */
+  number: string | null;
+  date: string;
+  customer: string;
+  quoteNumber: string;
+  /** Credit notes and refunds are negative. */
+  net: string | null;
+  tax: string | null;
+  taxPct: number | null;
+  total: string;
+  currency: string;
+  method: string | null;
+  reference: string | null;
+  /** A credit note's invoice. */
+  against: string | null;
+}

@@ -205,6 +205,10 @@ export interface JobCosting {
   /** The price the customer agreed to, tax included, and without the tax. */
   agreedPrice: string;
   agreedNet: string;
+  /** Credit notes taken off the agreed price (the job's agreement of one piece only), tax included. */
+  credited: string;
+  /** The agreement's account: received less refunded, credited, still owed (for the whole agreement when it has several pieces). */
+  account: { received: string; credited: string; balance: string; wholeAgreement: boolean } | null;
   /** Extras the customer took when accepting, part of the agreed price. */
   variations: { label: string; amount: string }[];
   labour: { hours: number; perHour: string; cost: string };
@@ -228,6 +232,14 @@ export interface EstimateAccuracyRow {
   /** Actual over estimated; above 1 the estimates fell short. */
   ratio: number | null;
   sessions: number;
+  /**
+   * Materials of the sessions whose use was recorded (materialSessions of them): the estimate's share at the
+   * estimate's cost, against the recorded use at the price paid; their ratio (null with none recorded).
+   */
+  estimatedMaterials: string;
+  actualMaterials: string;
+  materialsRatio: number | null;
+  materialSessions: number;
   jobs: number;
 }
 

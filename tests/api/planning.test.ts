@@ -3,6 +3,7 @@
  * capacity, forced dates with their overbooking, cancelling, progress with a slip, actuals against estimates and the
  * material forecast. Jobs here are booked from dates far ahead so the demo workshop's own jobs stay out of the way.
  */
+import { QueryTypes } from 'sequelize';
 import request from 'supertest';
 import sharp from 'sharp';
 import { fromMinutes, toMinutes } from '../../shared/calc';
@@ -11,7 +12,7 @@ import type { BookingPreview, JobDetail, MaterialForecast, PlanningBoard, Sessio
 import { AuditEntry, FinishingSystem, Job } from '../../server/models';
 import { closeTestApp, getTestApp, signInAs, startServices, type Session } from '../helpers/app';
 
-const { app } = getTestApp();
+const { app, sequelize } = getTestApp();
 let services: Awaited<ReturnType<typeof startServices>>;
 let owner: Session;
 let planner: Session;
@@ -296,10 +297,18 @@ describe('booking', () => {
       const system = (await FinishingSystem.findOne({ where: { key: 'full-repolish' } }))!;
       const current = system.stages.find((s) => s.key === 'body')!.labourMinPerM2PerCoat;
       const suggestion = report.suggestions.find((s) => s.systemId === system.id && s.stageKey === 'body')!;
-      // Nothing corrected yet: the suggestion rests on every finished job, at the kind's own ratio.
-      expect(suggestion).toMatchObject({ current, jobs: body.jobs, kind: 'body', ratio: body.ratio });
+      // Nothing corrected yet: the suggestion rests on the finished jobs estimated with this finishing system only,
+      // at their own ratio.
+      expect(suggestion).toMatchObject({ current, kind: 'body' });
       expect(suggestion.jobIds).toContain(waiting.id);
-      expect(suggestion.suggested).toBeCloseTo(Math.round(current * body.ratio! * 10) / 10, 1);
+      expect(suggestion.jobs).toBeLessThanOrEqual(body.jobs);
+      expect(suggestion.ratio).toBeCloseTo(suggestion.actualHours / suggestion.estimatedHours, 3);
+      const systemsOf = await sequelize.query<{ system: string }>(
+        `SELECT DISTINCT r.result->>'system' AS system FROM jobs j JOIN estimate_revisions r ON r.id = j.revision_id WHERE j.id IN (:ids)`,
+        { replacements: { ids: suggestion.jobIds }, type: QueryTypes.SELECT },
+      );
+      expect(systemsOf.map((x) => x.system)).toEqual(['full-repolish']);
+      expect(suggestion.suggested).toBeCloseTo(Math.round(current * suggestion.ratio * 10) / 10, 1);
 
       // Reading the report changes nothing.
       await system.reload();

@@ -8,7 +8,7 @@
 import request from 'supertest';
 import { afterAll, beforeAll, describe, expect, it } from 'vitest';
 import type { JobDetail } from '../../shared/schemas/planning';
-import type { JobCosting, PurchaseOrderDto, SessionMaterialLine, StockMovementPage, StockOverview } from '../../shared/schemas/stock';
+import type { EstimateAccuracy, JobCosting, PurchaseOrderDto, SessionMaterialLine, StockMovementPage, StockOverview } from '../../shared/schemas/stock';
 import { EstimateRevision, Job, LabourRate, Material, MaterialPack, OutboxMessage, PackPrice, Quote, Workshop } from '../../server/models';
 import { closeTestApp, getTestApp, signInAs, startServices, type Session } from '../helpers/app';
 
@@ -160,6 +160,39 @@ describe('job costing', () => {
     expect(c.sessionsDone).toBe(2);
     // The estimated side is there to compare with, in money strings.
     expect(c.estimated.margin).toMatch(/^-?\d+\.\d{2}$/);
+    expect(c.account).toEqual({ received: '0.00', credited: '0.00', balance: '1234.56', wholeAgreement: false });
+
+    // Payments: the deposit of 370.37 by bank transfer (it marks the deposit paid) and 500.00 in cash; then the tax
+    // invoice and a credit note of 34.56 for a touch-up not done. Invoices are issued once accepted for this part.
+    const stage = (await owner.agent.get('/api/accounts/settings').expect(200)).body.invoiceStage as string;
+    await owner.agent.put('/api/accounts/settings').set('x-csrf-token', owner.csrf).send({ invoiceStage: 'accepted' }).expect(200);
+    try {
+      const paid = await post(sales, `/api/accounts/quotes/${quote.id}/payments`, { method: 'bank-transfer', amount: '370.37', receivedOn: yesterday, reference: 'Deposit transfer' }).expect(201);
+      expect(paid.body.quote.state).toBe('deposit-paid');
+      await post(sales, `/api/accounts/quotes/${quote.id}/payments`, { method: 'cash', amount: '500.00', receivedOn: yesterday }).expect(201);
+      const invoiced = await post(sales, `/api/accounts/quotes/${quote.id}/invoice`, {}).expect(201);
+      const invoice = (invoiced.body.documents as { id: number; kind: string }[]).find((x) => x.kind === 'invoice')!;
+      await post(sales, `/api/accounts/documents/${invoice.id}/credit-notes`, { amount: '34.56', reason: 'Touch-up on the lid not done' }).expect(201);
+    } finally {
+      await owner.agent.put('/api/accounts/settings').set('x-csrf-token', owner.csrf).send({ invoiceStage: stage }).expect(200);
+    }
+    const paidUp = (await owner.agent.get(`/api/jobs/${job.id}/costing`).expect(200)).body as JobCosting;
+    // Received 370.37 + 500.00 = 870.37; owed 1234.56 − 34.56 − 870.37 = 329.63.
+    expect(paidUp.account).toEqual({ received: '870.37', credited: '34.56', balance: '329.63', wholeAgreement: false });
+    // The credit lowers the price: (1234.56 − 34.56) × 100 / 120 = 1000.00; margin 1000.00 − 300.15 = 699.85,
+    // 699.85 / 1000.00 = 69.985 % → 70.0 %. The costs are unchanged.
+    expect(paidUp.credited).toBe('34.56');
+    expect(paidUp.agreedNet).toBe('1000.00');
+    expect(paidUp.cost).toBe('300.15');
+    expect(paidUp.realisedMargin).toBe('699.85');
+    expect(paidUp.realisedMarginPct).toBe(70);
+
+    // The two sessions' materials feed the estimates-against-the-bench report for their month, in money.
+    const accuracy = (await owner.agent.get(`/api/reports/estimate-accuracy?from=${yesterday}&to=${yesterday}`).expect(200)).body as EstimateAccuracy;
+    const group = accuracy.rows.find((r) => r.system === 'full-repolish' && r.pieceKind === 'grand' && r.month === yesterday.slice(0, 7))!;
+    expect(group.materialSessions).toBeGreaterThanOrEqual(2);
+    expect(Number(group.actualMaterials)).toBeGreaterThanOrEqual(31);
+    expect(group.materialsRatio).toBeCloseTo(Number(group.actualMaterials) / Number(group.estimatedMaterials), 2);
 
     // Staff only: the owner reads costing, no other role.
     for (const s of [planner, estimator, sales]) expect((await s.agent.get(`/api/jobs/${job.id}/costing`)).status).toBe(403);

@@ -7,7 +7,7 @@
 import { parse } from 'csv-parse/sync';
 import fc from 'fast-check';
 import { describe, expect, it } from 'vitest';
-import { safeCell, toCsv } from '../../shared/csv';
+import { csvDecimal, safeCell, toCsv } from '../../shared/csv';
 
 const DANGER = ['=', '+', '-', '@', '\t', '\r'];
 /** Text weighted toward the dangerous starts, quotes, commas and line breaks. */
@@ -51,5 +51,25 @@ describe('CSV cells', () => {
     );
     expect(safeCell(null)).toBe('');
     expect(safeCell(undefined)).toBe('');
+  });
+});
+
+describe('decimal amounts', () => {
+  it('are written exactly, negative ones too, and anything else in their place is neutralised text', () => {
+    fc.assert(
+      fc.property(fc.bigInt({ min: -(10n ** 12n), max: 10n ** 12n }), (cents) => {
+        const text = `${cents < 0n ? '-' : ''}${(cents < 0n ? -cents : cents) / 100n}.${String((cents < 0n ? -cents : cents) % 100n).padStart(2, '0')}`;
+        expect(safeCell(csvDecimal(text))).toBe(text);
+      }),
+    );
+    fc.assert(
+      fc.property(nasty, (text) => {
+        const cell = safeCell(csvDecimal(text));
+        if (!/^-?\d{1,15}(\.\d{1,4})?$/.test(text)) expect(cell).toBe(safeCell(text));
+      }),
+    );
+    expect(safeCell(csvDecimal('-1+2'))).toBe("'-1+2");
+    expect(safeCell(csvDecimal('=1'))).toBe("'=1");
+    expect(safeCell(csvDecimal(null))).toBe('');
   });
 });

@@ -7,7 +7,8 @@
  * - labour: actual hours of the sessions done × the hourly rate the job was estimated at.
  * - materials: the ledger's materials used for the job, at the price paid for their packs.
  * - overhead: the workshop's overhead percentage (as set when the job was estimated) of labour and materials.
- * - realised margin: agreed price without tax − labour − materials − overhead, against the estimated margin worked
+ * - credit notes issued on the agreement lower the agreed price, when the job is the agreement's only piece.
+ * - realised margin: (agreed price − credited) without tax − labour − materials − overhead, against the estimated margin worked
  *   out the same way from the quoted labour, materials at cost and overhead.
  */
 import Decimal from 'decimal.js';
@@ -15,7 +16,9 @@ import { Op } from 'sequelize';
 import type { EstimateAccuracy, EstimateAccuracyRow, JobCosting } from '@shared/schemas/stock';
 import { problems } from '../../http/problem';
 import { Estimate, EstimateRevision, FinishingSystem, Job, JobSession, Piece, Quote, QuoteLine, StockMovement } from '../../models';
+import { figuresOf } from '../accounts';
 import { jobUse } from '../stock/ledger';
+import { sessionShare } from '@shared/calc';
 
 const cents = (d: Decimal.Value) => new Decimal(d).toDecimalPlaces(2, Decimal.ROUND_HALF_UP);
 const pct = (part: Decimal, whole: Decimal) => (whole.isZero() ? null : part.div(whole).times(100).toDecimalPlaces(1, Decimal.ROUND_HALF_UP).toNumber());
@@ -44,7 +47,11 @@ export async function jobCosting(jobId: number): Promise<JobCosting> {
   const variations = onlyPiece
     ? quote.extras.filter((x) => (quote.acceptedExtras ?? []).includes(x.id)).map((x) => ({ label: x.label, amount: cents(x.priceWithTax).toFixed(2) }))
     : [];
-  const agreedNet = withoutTax(agreed, taxPct);
+  // The account (docs/accounts.md): credit notes lower the price the job earns, when the job is the agreement's only
+  // piece (a credit on an agreement of several pieces is not the job's alone); payments show what came in.
+  const figures = quote.acceptedTotal !== null ? await figuresOf(quote) : null;
+  const credited = onlyPiece && figures ? cents(figures.credited) : new Decimal(0);
+  const agreedNet = withoutTax(agreed.minus(credited), taxPct);
 
   const perHour = new Decimal(revision.result.labour.perHour);
   const overheadPct = revision.catalog.pricing.overheadPct;
@@ -74,6 +81,10 @@ export async function jobCosting(jobId: number): Promise<JobCosting> {
     taxPct,
     agreedPrice: agreed.toFixed(2),
     agreedNet: agreedNet.toFixed(2),
+    credited: credited.toFixed(2),
+    account: figures
+      ? { received: new Decimal(figures.paid).minus(figures.refunded).toFixed(2), credited: figures.credited, balance: figures.balance, wholeAgreement: !onlyPiece }
+      : null,
     variations,
     labour: { hours: hours.toNumber(), perHour: perHour.toFixed(2), cost: labour.toFixed(2) },
     materials: { lines: materialLines, cost: materials.toFixed(2) },
@@ -96,32 +107,67 @@ export async function jobCosting(jobId: number): Promise<JobCosting> {
 }
 
 /**
- * Estimated against actual hours of the sessions done in a period, by month, finishing system and piece kind:
- * how far the estimates fall from the bench. Extra work the customer took is left out, as in the calibration.
+ * Estimated against actual hours and materials of the sessions done in a period, by month, finishing system and piece
+ * kind: how far the estimates fall from the bench. Extra work the customer took is left out, as in the calibration.
+ *
+ * Materials are compared in money, on the sessions whose materials were recorded when they were marked done: the
+ * estimate's share of each material for the session (as the form prefills it) at the cost per unit the estimate
+ * used, against what was recorded at the price paid. A session marked done without its materials says nothing
+ * about them and is left out of the materials columns only.
  */
 export async function estimateAccuracy(q: { from: string; to: string }): Promise<EstimateAccuracy> {
   const sessions = await JobSession.findAll({
     where: { done: true, actualHours: { [Op.ne]: null }, stageKind: { [Op.ne]: 'extra' }, actualEnd: { [Op.gte]: q.from, [Op.lt]: `${q.to}T99` } },
-    attributes: ['jobId', 'estimatedHours', 'actualHours', 'actualEnd'],
+    attributes: ['id', 'jobId', 'stage', 'session', 'estimatedHours', 'actualHours', 'actualEnd'],
   });
-  const jobs = sessions.length ? await Job.findAll({ where: { id: [...new Set(sessions.map((s) => s.jobId))] }, attributes: ['id', 'estimateId', 'revisionId'] }) : [];
+  const jobs = sessions.length ? await Job.findAll({ where: { id: [...new Set(sessions.map((s) => s.jobId))] }, attributes: ['id', 'estimateId', 'revisionId', 'stages'] }) : [];
   const revisions = jobs.length ? await EstimateRevision.findAll({ where: { id: jobs.map((j) => j.revisionId) }, attributes: ['id', 'result'] }) : [];
   const estimates = jobs.length ? await Estimate.findAll({ where: { id: jobs.map((j) => j.estimateId) }, attributes: ['id', 'pieceId'] }) : [];
   const pieces = estimates.length ? await Piece.findAll({ where: { id: estimates.map((e) => e.pieceId) }, attributes: ['id', 'kind'] }) : [];
+  const uses = sessions.length ? await StockMovement.findAll({ where: { sessionId: sessions.map((s) => s.id), kind: 'use' }, attributes: ['sessionId', 'value'] }) : [];
+  const usedValue = new Map<number, Decimal>();
+  for (const u of uses) usedValue.set(u.sessionId!, (usedValue.get(u.sessionId!) ?? new Decimal(0)).plus(u.value ?? 0));
   const systems = new Map((await FinishingSystem.findAll({ attributes: ['key', 'name'] })).map((s) => [s.key, s.name]));
-  const systemOf = new Map(revisions.map((r) => [r.id, r.result.system]));
+  const revisionOf = new Map(revisions.map((r) => [r.id, r]));
   const pieceOf = new Map(estimates.map((e) => [e.id, pieces.find((p) => p.id === e.pieceId)?.kind ?? 'other']));
-  const jobOf = new Map(jobs.map((j) => [j.id, { system: systemOf.get(j.revisionId) ?? 'unknown', kind: pieceOf.get(j.estimateId) ?? 'other' }]));
-  const groups = new Map<string, { row: Omit<EstimateAccuracyRow, 'ratio' | 'jobs'>; est: Decimal; act: Decimal; jobs: Set<number> }>();
+  const jobOf = new Map(
+    jobs.map((j) => {
+      const result = revisionOf.get(j.revisionId)?.result;
+      // The estimate's cost of one unit of each material: what it costs of the packs for what the job needs.
+      const unitCost = new Map((result?.materials ?? []).filter((m) => m.need > 0).map((m) => [m.key, new Decimal(m.usedCost).div(m.need)]));
+      return [j.id, { system: result?.system ?? 'unknown', kind: pieceOf.get(j.estimateId) ?? 'other', stages: new Map(j.stages.map((st) => [st.key, st])), unitCost }];
+    }),
+  );
+  type Group = { row: Pick<EstimateAccuracyRow, 'month' | 'system' | 'systemName' | 'pieceKind' | 'sessions'>; est: Decimal; act: Decimal; matEst: Decimal; matAct: Decimal; matSessions: number; jobs: Set<number> };
+  const groups = new Map<string, Group>();
   for (const s of sessions) {
     const j = jobOf.get(s.jobId)!;
     const month = s.actualEnd!.slice(0, 7);
     const key = `${month}|${j.system}|${j.kind}`;
-    const g = groups.get(key) ?? { row: { month, system: j.system, systemName: systems.get(j.system) ?? j.system, pieceKind: j.kind, estimatedHours: 0, actualHours: 0, sessions: 0 }, est: new Decimal(0), act: new Decimal(0), jobs: new Set<number>() };
+    const g: Group = groups.get(key) ?? {
+      row: { month, system: j.system, systemName: systems.get(j.system) ?? j.system, pieceKind: j.kind, sessions: 0 },
+      est: new Decimal(0),
+      act: new Decimal(0),
+      matEst: new Decimal(0),
+      matAct: new Decimal(0),
+      matSessions: 0,
+      jobs: new Set<number>(),
+    };
     g.est = g.est.plus(s.estimatedHours);
     g.act = g.act.plus(s.actualHours!);
     g.row.sessions++;
     g.jobs.add(s.jobId);
+    const used = usedValue.get(s.id);
+    const stage = j.stages.get(s.stage);
+    if (used && stage) {
+      for (const m of stage.materials) {
+        const per = j.unitCost.get(m.material);
+        if (!per) continue;
+        g.matEst = g.matEst.plus(per.times(sessionShare(m.quantity, m.unit, stage.sessions, Math.min(s.session, stage.sessions))));
+      }
+      g.matAct = g.matAct.plus(used);
+      g.matSessions++;
+    }
     groups.set(key, g);
   }
   const rows = [...groups.values()]
@@ -130,6 +176,10 @@ export async function estimateAccuracy(q: { from: string; to: string }): Promise
       estimatedHours: g.est.toDecimalPlaces(2).toNumber(),
       actualHours: g.act.toDecimalPlaces(2).toNumber(),
       ratio: g.est.isZero() ? null : g.act.div(g.est).toDecimalPlaces(3).toNumber(),
+      estimatedMaterials: cents(g.matEst).toFixed(2),
+      actualMaterials: cents(g.matAct).toFixed(2),
+      materialsRatio: g.matSessions === 0 || cents(g.matEst).isZero() ? null : cents(g.matAct).div(cents(g.matEst)).toDecimalPlaces(3).toNumber(),
+      materialSessions: g.matSessions,
       jobs: g.jobs.size,
     }))
     .sort((a, b) => a.month.localeCompare(b.month) || a.systemName.localeCompare(b.systemName) || a.pieceKind.localeCompare(b.pieceKind));

@@ -15,7 +15,7 @@ export function JobCostingCard({ jobId }: { jobId: number }) {
   const c = costing.data;
   const m = (a: string) => formatMoney(a, c.currency);
   const rows: [string, string, string][] = [
-    [`Agreed price without tax (${h.format(c.taxPct)} %)`, m(c.estimated.net), m(c.agreedNet)],
+    [`Agreed price without tax (${h.format(c.taxPct)} %)${c.credited !== '0.00' ? `, less ${m(c.credited)} credited` : ''}`, m(c.estimated.net), m(c.agreedNet)],
     [`Labour: ${h.format(c.estimated.hours)} h estimated, ${h.format(c.labour.hours)} h actual at ${m(c.labour.perHour)} an hour`, m(c.estimated.labour), m(c.labour.cost)],
     ['Materials (estimated at cost; used at the price paid)', m(c.estimated.materials), m(c.materials.cost)],
     [`Overhead (${h.format(c.overhead.pct)} % of labour and materials)`, m(c.estimated.overhead), m(c.overhead.cost)],
@@ -48,6 +48,12 @@ export function JobCostingCard({ jobId }: { jobId: number }) {
             </tbody>
           </table>
         </div>
+        {c.account && (
+          <p className="text-sm text-walnut-600">
+            {c.account.wholeAgreement ? 'The agreement (all its pieces): ' : 'Paid so far: '}
+            {m(c.account.received)} received, {m(c.account.credited)} credited, {m(c.account.balance)} still owed.
+          </p>
+        )}
         {c.materials.lines.length > 0 && (
           <p className="text-xs text-walnut-500">Used: {c.materials.lines.map((l) => `${l.material} ${l.packs !== null && l.pack ? `${h.format(l.packs)} × ${l.pack}` : `${h.format(l.quantity)} ${l.unit}`} (${m(l.cost)})`).join(' · ')}</p>
         )}
