@@ -1,6 +1,26 @@
 import express, { type RequestHandler, type Router } from 'express';
 import { allows, type Access } from '@shared/roles';
+import { runAsWorkshop } from '../db/workshop-context';
 import { problems } from './problem';
+
+declare global {
+  // eslint-disable-next-line @typescript-eslint/no-namespace
+  namespace Express {
+    interface Request {
+      /** The workshop a public path resolved from its token or event (signed-in paths use the user's). */
+      workshopScope?: number | null;
+    }
+  }
+}
+
+/**
+ * Runs a handler under the request's workshop: the one a public path resolved, else the signed-in user's, else
+ * none (a query then sees no row). Each handler enters it itself, so work resumed from a stream's events (an upload)
+ * still runs under it.
+ */
+export function scoped(handler: RequestHandler): RequestHandler {
+  return (req, res, next) => runAsWorkshop(req.workshopScope !== undefined ? req.workshopScope : (req.user?.workshopId ?? null), () => handler(req, res, next));
+}
 
 /**
  * Who may call a route: the holders of a permission from `shared/roles.ts`, any signed-in user, or the public (the
@@ -46,7 +66,7 @@ export function secureRouter(prefix: string, table: RouteInfo[]): SecureRouter {
     (path, access, ...handlers) => {
       const full = prefix + path;
       table.push({ method, path: full, access });
-      router[method](full, guard(access), ...handlers);
+      router[method](full, guard(access), ...handlers.map(scoped));
     };
   return { router, get: add('get'), post: add('post'), put: add('put'), patch: add('patch'), delete: add('delete') };
 }

@@ -22,6 +22,7 @@ export interface CachedUser {
   email: string;
   name: string;
   role: Express.User['role'];
+  workshopId: number;
 }
 
 /** A user as the session sees them: active (the fields a request needs) or gone (unknown or deactivated). */
