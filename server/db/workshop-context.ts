@@ -33,6 +33,9 @@ interface PgClient {
 
 const installed = new WeakSet<Sequelize>();
 
+/** The workshop setting a pooled connection carries now. */
+const CARRIED = Symbol('shellwright.workshop_id');
+
 /**
  * Writes the workshop setting on every connection the pool hands out. `fallback` answers for work outside any scope
  * (only the test helpers give one, so that fixtures written outside a request land in the demo workshop); without it
@@ -44,7 +47,14 @@ export function installWorkshopSetting(sequelize: Sequelize, opts: { fallback?: 
   sequelize.addHook('afterPoolAcquire', async (connection: unknown) => {
     const scope = storage.getStore();
     const id = scope ? scope.workshopId : opts.fallback ? await opts.fallback() : null;
-    await (connection as PgClient).query("SELECT set_config('shellwright.workshop_id', $1, false)", [id === null ? '' : String(id)]);
+    const value = id === null ? '' : String(id);
+    // The setting is the connection's (not a transaction's: it is written here, before any BEGIN), so a connection
+    // that already carries this workshop needs no round trip.
+    const client = connection as PgClient & { [CARRIED]?: string };
+    if (client[CARRIED] === value) return;
+    client[CARRIED] = undefined;
+    await client.query("SELECT set_config('shellwright.workshop_id', $1, false)", [value]);
+    client[CARRIED] = value;
   });
 }
 

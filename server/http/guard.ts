@@ -1,6 +1,8 @@
 import express, { type RequestHandler, type Router } from 'express';
 import { allows, type Access } from '@shared/roles';
-import { runAsWorkshop } from '../db/workshop-context';
+import { lookupWorkshop, runAsWorkshop } from '../db/workshop-context';
+import { User } from '../models';
+import { hashToken } from '../services/quotes/links';
 import { problems } from './problem';
 
 declare global {
@@ -44,6 +46,19 @@ export function guard(access: Access): RequestHandler {
   };
 }
 
+/** Public paths under this prefix carry a quote's signed token in `:token`. */
+const QUOTE_LINK_PREFIX = '/api/public/quotes/:token';
+
+/**
+ * Resolves the workshop of a customer's signed link (through the owner's lookup by the token's hash); an unknown
+ * token resolves to no workshop, so the handler finds nothing and answers as it would for any unknown link.
+ */
+const workshopOfQuoteLink: RequestHandler = async (req, _res, next) => {
+  const token = typeof req.params.token === 'string' ? req.params.token : '';
+  req.workshopScope = token ? await lookupWorkshop(User.sequelize!, 'quote_token', hashToken(token)) : null;
+  next();
+};
+
 type AddRoute = (path: string, access: Access, ...handlers: RequestHandler[]) => void;
 
 export interface SecureRouter {
@@ -66,7 +81,9 @@ export function secureRouter(prefix: string, table: RouteInfo[]): SecureRouter {
     (path, access, ...handlers) => {
       const full = prefix + path;
       table.push({ method, path: full, access });
-      router[method](full, guard(access), ...handlers.map(scoped));
+      // A customer's signed link names its workshop: its last handler runs under it (after any rate limiter).
+      const resolved = access === 'public' && full.startsWith(QUOTE_LINK_PREFIX) ? [...handlers.slice(0, -1), workshopOfQuoteLink, ...handlers.slice(-1)] : handlers;
+      router[method](full, guard(access), ...resolved.map(scoped));
     };
   return { router, get: add('get'), post: add('post'), put: add('put'), patch: add('patch'), delete: add('delete') };
 }

@@ -1,12 +1,10 @@
-import express, { type RequestHandler } from 'express';
+import express from 'express';
 import { rateLimit } from 'express-rate-limit';
 import type { Sequelize } from 'sequelize';
 import { z } from 'zod';
 import { AcceptQuoteSchema, DeclineQuoteSchema } from '@shared/schemas/quotes';
 import type { Config } from '../config';
-import { lookupWorkshop } from '../db/workshop-context';
 import { secureRouter, type RouteInfo } from '../http/guard';
-import { hashToken } from '../services/quotes/links';
 import { HttpProblem, parseOr400, sendProblem } from '../http/problem';
 import { renderQuotePdf } from '../pdf/quote-pdf';
 import { handleWebhook } from '../services/payments';
@@ -25,41 +23,34 @@ export function publicQuoteRoutes(config: Config, sequelize: Sequelize, table: R
     handler: (_req, res) => sendProblem(res, new HttpProblem(429, 'too_many_requests', 'Too many requests', 'Too many requests from this address; wait a minute.')),
   });
   const r = secureRouter('/api/public/quotes', table);
-  // The signed link names its workshop: every handler after this one runs under it (an unknown token under none,
-  // so it finds nothing and answers as before).
-  const workshopOfLink: RequestHandler = async (req, _res, next) => {
-    const token = typeof req.params.token === 'string' ? req.params.token : '';
-    req.workshopScope = await lookupWorkshop(sequelize, 'quote_token', hashToken(token));
-    next();
-  };
-  r.get('/:token', 'public', limiter, workshopOfLink, async (req, res) => {
+  r.get('/:token', 'public', limiter, async (req, res) => {
     res.setHeader('Cache-Control', 'no-store');
     res.json(await viewQuote(config, parseOr400(TokenParam, req.params).token));
   });
-  r.get('/:token/pdf', 'public', limiter, workshopOfLink, async (req, res) => {
+  r.get('/:token/pdf', 'public', limiter, async (req, res) => {
     const { number, doc } = await publicPdf(config, parseOr400(TokenParam, req.params).token);
     res.setHeader('Content-Type', 'application/pdf');
     res.setHeader('Content-Disposition', `inline; filename="${number}.pdf"`);
     res.setHeader('Cache-Control', 'no-store');
     res.send(await renderQuotePdf(doc));
   });
-  r.post('/:token/accept', 'public', limiter, workshopOfLink, async (req, res) => {
+  r.post('/:token/accept', 'public', limiter, async (req, res) => {
     const { token } = parseOr400(TokenParam, req.params);
     res.json(await acceptQuote(sequelize, config, token, parseOr400(AcceptQuoteSchema, req.body), req.ip ?? ''));
   });
-  r.post('/:token/decline', 'public', limiter, workshopOfLink, async (req, res) => {
+  r.post('/:token/decline', 'public', limiter, async (req, res) => {
     const { token } = parseOr400(TokenParam, req.params);
     res.json(await declineQuote(sequelize, config, token, parseOr400(DeclineQuoteSchema, req.body).reason, req.ip ?? ''));
   });
-  r.post('/:token/deposit', 'public', limiter, workshopOfLink, async (req, res) => {
+  r.post('/:token/deposit', 'public', limiter, async (req, res) => {
     res.json(await depositCheckout(sequelize, config, parseOr400(TokenParam, req.params).token));
   });
   /** Back from the payment page without paying: the open checkout is closed. */
-  r.post('/:token/deposit/cancel', 'public', limiter, workshopOfLink, async (req, res) => {
+  r.post('/:token/deposit/cancel', 'public', limiter, async (req, res) => {
     res.json(await depositCancelled(config, parseOr400(TokenParam, req.params).token));
   });
   /** What was agreed, by whom, when and from which address. */
-  r.get('/:token/acceptance.pdf', 'public', limiter, workshopOfLink, async (req, res) => {
+  r.get('/:token/acceptance.pdf', 'public', limiter, async (req, res) => {
     const record = await acceptanceRecord(config, parseOr400(TokenParam, req.params).token);
     res.setHeader('Content-Type', 'application/pdf');
     res.setHeader('Content-Disposition', `inline; filename="${record.quoteNumber}-acceptance.pdf"`);
