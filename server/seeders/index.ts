@@ -1,5 +1,5 @@
 import type { Sequelize } from 'sequelize';
-import { allWorkshopIds, runAsWorkshop } from '../db/workshop-context';
+import { allWorkshopIds, installWorkshopSetting, runAsWorkshop } from '../db/workshop-context';
 import { createWorkshop } from '../services/workshops';
 import { DEFAULT_SETTINGS, ensureDefaults } from './defaults';
 import { DEMO_WORKSHOP, loadDemo } from './demo';
@@ -11,6 +11,7 @@ import { loadDemoWork } from './demo-work';
  * every workshop needs, each under its workshop's row-level security scope. Idempotent.
  */
 export async function seed(sequelize: Sequelize, opts: { demo: boolean; uploadsDir: string; log?: (m: string) => void }): Promise<void> {
+  installWorkshopSetting(sequelize);
   let [first] = await allWorkshopIds(sequelize);
   if (first === undefined) {
     first = await createWorkshop(sequelize, opts.demo ? DEMO_WORKSHOP : { name: 'Your workshop', email: null, phone: null, address: null, settings: DEFAULT_SETTINGS });
