@@ -6,6 +6,7 @@
  * mapped fails here, so it joins the matrix when it is written.
  */
 import pg from 'pg';
+import type request from 'supertest';
 import { afterAll, beforeAll, describe, expect, it } from 'vitest';
 import { can, isPermission, ROLES, type Role } from '../../shared/roles';
 import { allWorkshopIds } from '../../server/db/workshop-context';
@@ -118,7 +119,7 @@ describe('cross-workshop matrix', () => {
         if (!path) return; // A holds no such row (the demo has none): nothing to aim at.
         const before = route.method === 'get' ? '' : await fingerprintOfA();
         const s = sessions[role];
-        const req = (s.agent as unknown as Record<string, (p: string) => import('supertest').Test>)[route.method]!(path);
+        const req = (s.agent as unknown as Record<string, (p: string) => request.Test>)[route.method]!(path);
         if (route.method !== 'get') req.set('x-csrf-token', s.csrf).send({});
         const res = await req;
         if (!allowed) {
