@@ -17,8 +17,8 @@ const { app, routes, sequelize } = getTestApp();
 const owner = new pg.Client({ connectionString: testDatabaseUrl() });
 const sessions = {} as Record<Role, Session>;
 let workshopA: number;
-/** A's id in each table (the newest row), read by the owner. */
-const idsOfA = new Map<string, number>();
+/** A's id in each table (one of its rows; an id may be a number or a uuid), read by the owner. */
+const idsOfA = new Map<string, string>();
 /** Strings only A's rows hold: customer names, user e-mails, the workshop's name. */
 let markers: string[] = [];
 
@@ -69,7 +69,7 @@ function aimedAtA(path: string): string | undefined {
 async function fingerprintOfA(): Promise<string> {
   const parts: string[] = [];
   for (const table of [...new Set(Object.values(PARAM_TABLES)), 'estimate_revisions']) {
-    const { rows } = await owner.query<{ f: string | null }>(`SELECT md5(string_agg(t::text, '|' ORDER BY t.id)) AS f FROM "${table}" t WHERE t.id = $1`, [idsOfA.get(table) ?? -1]);
+    const { rows } = await owner.query<{ f: string | null }>(`SELECT md5(string_agg(t::text, '|')) AS f FROM "${table}" t WHERE t.id::text = $1`, [idsOfA.get(table) ?? '-1']);
     parts.push(`${table}:${rows[0]!.f}`);
   }
   return parts.join(',');
@@ -83,8 +83,8 @@ beforeAll(async () => {
   await owner.connect();
   workshopA = (await allWorkshopIds(sequelize))[0]!;
   for (const table of new Set([...Object.values(PARAM_TABLES), 'estimate_revisions'])) {
-    const { rows } = await owner.query<{ id: number | null }>(`SELECT max(id) AS id FROM "${table}" WHERE workshop_id = $1`, [workshopA]);
-    if (rows[0]!.id !== null) idsOfA.set(table, Number(rows[0]!.id));
+    const { rows } = await owner.query<{ id: string }>(`SELECT id::text AS id FROM "${table}" WHERE workshop_id = $1 ORDER BY ctid DESC LIMIT 1`, [workshopA]);
+    if (rows[0]) idsOfA.set(table, rows[0].id);
   }
   const { rows: names } = await owner.query<{ m: string }>(
     `SELECT name AS m FROM customers WHERE workshop_id = $1 UNION SELECT email FROM users WHERE workshop_id = $1 UNION SELECT name FROM workshops WHERE id = $1`,
