@@ -130,7 +130,7 @@ export class SharedCaches {
     const generation = this.generation;
     const value = await build();
     if (generation === this.generation && this.live) {
-      if (this.catalogs.size >= 8) this.catalogs.delete(this.catalogs.keys().next().value!);
+      if (this.catalogs.size >= 64) this.catalogs.delete(this.catalogs.keys().next().value!);
       this.catalogs.set(key, value);
     }
     return value;

@@ -142,4 +142,13 @@ describe('requests', () => {
     expect(JSON.stringify(listA.body)).not.toContain('Ottoline Varnishaw');
     await a.agent.get(`/api/customers/${made.body.id}`).expect(404);
   });
+
+  it('keep a catalog cached per workshop: the second workshop never gets the first one’s prices from memory', async () => {
+    const a = await signInAs(app, 'estimator');
+    const b = await signIn(app, other.emails.estimator, OTHER_PASSWORD);
+    const fromA = (await a.agent.get('/api/calc/catalog').expect(200)).text;
+    const fromB = (await b.agent.get('/api/calc/catalog').expect(200)).text;
+    expect(fromB).not.toBe(fromA);
+    expect((await a.agent.get('/api/calc/catalog').expect(200)).text).toBe(fromA);
+  });
 });
