@@ -15,6 +15,7 @@ import type { RouteInfo } from './http/guard';
 import { encodingPolicy, pathPolicy, queryPolicy, textPolicy } from './http/input';
 import { apiNotFound, errorHandler } from './http/problem';
 import { initModels } from './models';
+import { installWorkshopSetting } from './db/workshop-context';
 import { accountRoutes } from './routes/accounts';
 import { auditRoutes } from './routes/audit';
 import { authRoutes } from './routes/auth';
@@ -59,6 +60,8 @@ const CSRF_EXEMPT = [/^\/api\/public\//, /^\/api\/webhooks\//];
 /** Builds the Express app without listening. */
 export function createApp({ config, sequelize, databaseUrl, serveClient = true }: AppDeps): BuiltApp {
   initModels(sequelize);
+  // Every connection the app takes carries the workshop of the work that takes it (row-level security).
+  installWorkshopSetting(sequelize);
   const routes: RouteInfo[] = [];
   const app = express();
   app.disable('x-powered-by');

@@ -25,10 +25,11 @@ async function primary(): Promise<void> {
   const count = workerCount();
   const config = loadConfig();
   const databaseUrl = await resolveDatabaseUrl(config);
-  await prepareDatabase(config, databaseUrl);
+  const appUrl = await prepareDatabase(config, databaseUrl);
   // One set of stand-ins for all workers, so that a payment webhook is verified whichever worker it reaches.
   const local = await startLocalServices(config);
-  const env: Record<string, string> = { DATABASE_URL: databaseUrl };
+  // Workers connect as the app's role the primary set up (and do not set it up again side by side).
+  const env: Record<string, string> = { DATABASE_URL: databaseUrl, APP_DATABASE_URL: appUrl };
   if (config.mail.url) env.SMTP_URL = config.mail.url;
   if (config.payments.apiUrl) env.PAYMENTS_API_URL = config.payments.apiUrl;
   if (config.payments.secretKey) env.PAYMENTS_SECRET_KEY = config.payments.secretKey;

@@ -11,7 +11,8 @@ import { loadConfig, type Config } from './config';
 import { resolveDatabaseUrl } from './db/connect';
 import { createMigrator } from './db/migrator';
 import type { Sequelize } from 'sequelize';
-import { createSequelize } from './db/sequelize';
+import { appUrlOf, ensureAppRole } from './db/app-role';
+import { createAppSequelize, createSequelize } from './db/sequelize';
 import { initModels } from './models';
 import { seed } from './seeders';
 
@@ -21,24 +22,38 @@ export interface RunningServer {
   stop(): Promise<void>;
 }
 
+/** The app's URL before the role exists (prepareDatabase creates it before the first connection is made). */
+function appUrlOrExplicit(ownerUrl: string): string {
+  return process.env.APP_DATABASE_URL || appUrlOf(ownerUrl);
+}
+
 function portFromEnv(name: string): number | undefined {
   const raw = process.env[name];
   return raw ? Number(raw) : undefined;
 }
 
 /**
- * Applies pending migrations and loads the defaults (and the demo workshop where allowed). Given a connection, it
- * works on it and leaves it open (the models bind to one connection a process); otherwise it opens and closes its own.
+ * Applies pending migrations as the owning role (`databaseUrl`), sets up the app's role (`shellwright_app`, which
+ * row-level security binds), and loads the defaults (and the demo workshops where allowed) through the app's role.
+ * Given the app's connection, it seeds on it and leaves it open (the models bind to one connection a process);
+ * otherwise it opens and closes its own. Answers the URL the app connects with.
  */
-export async function prepareDatabase(config: Config, databaseUrl: string, shared?: Sequelize): Promise<void> {
-  const sequelize = shared ?? createSequelize(databaseUrl);
+export async function prepareDatabase(config: Config, databaseUrl: string, shared?: Sequelize): Promise<string> {
+  const owner = createSequelize(databaseUrl, { poolMax: 2 });
   try {
-    await createMigrator(sequelize).up();
+    await createMigrator(owner).up();
+  } finally {
+    await owner.close();
+  }
+  const appUrl = await ensureAppRole(databaseUrl);
+  const sequelize = shared ?? createAppSequelize(appUrl);
+  try {
     initModels(sequelize);
     await seed(sequelize, { demo: config.demo, uploadsDir: config.uploadsDir, log: (m) => console.log(`[demo] ${m}`) });
   } finally {
     if (!shared) await sequelize.close();
   }
+  return appUrl;
 }
 
 /**
@@ -46,15 +61,16 @@ export async function prepareDatabase(config: Config, databaseUrl: string, share
  * stand-ins where the configuration leaves them out, and listens.
  */
 export async function runServer(config: Config = loadConfig(), opts: { prepared?: boolean } = {}): Promise<RunningServer> {
-  const databaseUrl = await resolveDatabaseUrl(config);
-  const sequelize = createSequelize(databaseUrl);
-  if (!opts.prepared) await prepareDatabase(config, databaseUrl, sequelize);
+  const ownerUrl = await resolveDatabaseUrl(config);
+  const appUrl = opts.prepared ? await ensureAppRole(ownerUrl) : appUrlOrExplicit(ownerUrl);
+  const sequelize = createAppSequelize(appUrl);
+  if (!opts.prepared) await prepareDatabase(config, ownerUrl, sequelize);
   initModels(sequelize);
 
   const local = await startLocalServices(config, { smtpPort: portFromEnv('SHELLWRIGHT_SMTP_PORT'), paymentsPort: portFromEnv('SHELLWRIGHT_PAYMENTS_PORT') });
   if (local.mail) console.log(`[mail] local mail catcher on ${local.mail.url}: sent mail is kept in .data/mail and on the Outbox page`);
   if (local.payments) console.log(`[payments] local payment stand-in on ${local.payments.url}`);
-  const built = createApp({ config, sequelize, databaseUrl });
+  const built = createApp({ config, sequelize, databaseUrl: appUrl });
   const server = http.createServer(built.app);
   await new Promise<void>((resolve, reject) => {
     server.once('error', reject);

@@ -10,7 +10,8 @@ import { buildClientIfNeeded } from '../server/cli/build-client';
 import { loadConfig, rootDir } from '../server/config';
 import { clusterUrl, describeCluster, dropDatabase, ensureDatabase, startCluster, stopCluster, type Cluster } from '../server/db/cluster';
 import { createMigrator } from '../server/db/migrator';
-import { createSequelize } from '../server/db/sequelize';
+import { ensureAppRole } from '../server/db/app-role';
+import { createAppSequelize, createSequelize } from '../server/db/sequelize';
 import { initModels } from '../server/models';
 import { seed } from '../server/seeders';
 
@@ -46,6 +47,7 @@ async function main(): Promise<number> {
   process.env.SHELLWRIGHT_UPLOADS_DIR = path.join(loadConfig().dataDir, `test-uploads-${process.pid}`);
   fs.rmSync(process.env.SHELLWRIGHT_UPLOADS_DIR, { recursive: true, force: true });
   const { url, cluster, started } = await prepareDatabase();
+  let appUrl = '';
   try {
     const sequelize = createSequelize(url);
     const migrator = createMigrator(sequelize, { quiet: true });
@@ -53,9 +55,13 @@ async function main(): Promise<number> {
     await migrator.down({ to: 0 });
     await migrator.up();
     console.log(`[test] migrations: ${(await migrator.executed()).length} applied, each reverted and re-applied`);
-    initModels(sequelize);
-    await seed(sequelize, { demo: true, uploadsDir: loadConfig().uploadsDir });
     await sequelize.close();
+    // The app's role (row-level security binds it) loads the demo, as `npm start` does.
+    appUrl = await ensureAppRole(url);
+    const app = createAppSequelize(appUrl);
+    initModels(app);
+    await seed(app, { demo: true, uploadsDir: loadConfig().uploadsDir });
+    await app.close();
 
     // The browser tests need Chromium and the built client; a run of other projects only does not.
     const projects = vitestArgs.flatMap((a, i) => (a === '--project' ? [vitestArgs[i + 1]] : a.startsWith('--project=') ? [a.slice(10)] : []));
@@ -72,7 +78,7 @@ async function main(): Promise<number> {
       const child = spawn(
         process.execPath,
         [path.join(rootDir, 'node_modules', 'vitest', 'vitest.mjs'), 'run', '--reporter=default', '--reporter=json', `--outputFile.json=${report}`, ...vitestArgs],
-        { stdio: 'inherit', env: { ...process.env, NODE_ENV: 'test', DATABASE_URL: url, SHELLWRIGHT_TEST: '1' }, cwd: rootDir },
+        { stdio: 'inherit', env: { ...process.env, NODE_ENV: 'test', DATABASE_URL: url, APP_DATABASE_URL: appUrl, SHELLWRIGHT_TEST: '1' }, cwd: rootDir },
       );
       child.on('exit', (c, signal) => resolve(c ?? (signal ? 1 : 0)));
     });

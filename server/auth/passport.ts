@@ -2,6 +2,7 @@ import type { Request } from 'express';
 import passport from 'passport';
 import { Strategy as LocalStrategy } from 'passport-local';
 import type { Role } from '@shared/schemas/auth';
+import { lookupWorkshop, runAsWorkshop } from '../db/workshop-context';
 import { User } from '../models';
 import { cachesOf, type UserEntry } from '../services/shared-caches';
 import { verifyCredentials } from '../services/users';
@@ -14,6 +15,8 @@ declare global {
       email: string;
       name: string;
       role: Role;
+      /** The workshop the user belongs to: every request of theirs runs under it (row-level security). */
+      workshopId: number;
     }
   }
 }
@@ -22,8 +25,10 @@ let configured = false;
 
 /** An unknown or deactivated user is signed out: their session no longer names anyone. */
 async function readUser(id: number): Promise<UserEntry> {
-  const user = await User.findByPk(id, { attributes: ['id', 'email', 'name', 'role', 'active'] });
-  return user && user.active ? { id: user.id, email: user.email, name: user.name, role: user.role } : false;
+  const workshopId = await lookupWorkshop(User.sequelize!, 'user', id);
+  if (workshopId === null) return false;
+  const user = await runAsWorkshop(workshopId, () => User.findByPk(id, { attributes: ['id', 'email', 'name', 'role', 'active'] }));
+  return user && user.active ? { id: user.id, email: user.email, name: user.name, role: user.role, workshopId } : false;
 }
 
 /**
@@ -36,7 +41,7 @@ export function configurePassport(): typeof passport {
   passport.use(
     new LocalStrategy({ usernameField: 'email', passwordField: 'password' }, (email, password, done) => {
       verifyCredentials(email, password).then(
-        (user) => done(null, user ? { id: user.id, email: user.email, name: user.name, role: user.role } : false),
+        (user) => done(null, user ? { id: user.id, email: user.email, name: user.name, role: user.role, workshopId: user.workshopId } : false),
         (err: unknown) => done(err),
       );
     }),

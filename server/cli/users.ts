@@ -7,6 +7,7 @@ import { CreateUserSchema } from '@shared/schemas/auth';
 import { loadConfig } from '../config';
 import { resolveDatabaseUrl } from '../db/connect';
 import { createSequelize } from '../db/sequelize';
+import { allWorkshopIds, installWorkshopSetting, runAsWorkshop } from '../db/workshop-context';
 import { initModels } from '../models';
 import { createUser } from '../services/users';
 
@@ -25,9 +26,13 @@ async function main(): Promise<void> {
   const parsed = CreateUserSchema.safeParse({ email, name, role, password: await readPassword() });
   if (!parsed.success) throw new Error(parsed.error.issues.map((i) => `${i.path.join('.')}: ${i.message}`).join('; '));
   const sequelize = createSequelize(await resolveDatabaseUrl(loadConfig()));
+  installWorkshopSetting(sequelize);
   initModels(sequelize);
   try {
-    const user = await createUser(sequelize, null, parsed.data);
+    // The user joins SHELLWRIGHT_WORKSHOP_ID when given, else the first workshop (a one-workshop installation).
+    const workshopId = Number(process.env.SHELLWRIGHT_WORKSHOP_ID) || (await allWorkshopIds(sequelize))[0];
+    if (!workshopId) throw new Error('there is no workshop yet: start the app once first');
+    const user = await runAsWorkshop(workshopId, () => createUser(sequelize, null, parsed.data));
     console.log(`added ${user.email} (${user.role})`);
   } finally {
     await sequelize.close();

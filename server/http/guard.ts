@@ -1,6 +1,28 @@
 import express, { type RequestHandler, type Router } from 'express';
 import { allows, type Access } from '@shared/roles';
+import { lookupWorkshop, runAsWorkshop } from '../db/workshop-context';
+import { User } from '../models';
+import { hashToken } from '../services/quotes/links';
 import { problems } from './problem';
+
+declare global {
+  // eslint-disable-next-line @typescript-eslint/no-namespace
+  namespace Express {
+    interface Request {
+      /** The workshop a public path resolved from its token or event (signed-in paths use the user's). */
+      workshopScope?: number | null;
+    }
+  }
+}
+
+/**
+ * Runs a handler under the request's workshop: the one a public path resolved, else the signed-in user's, else
+ * none (a query then sees no row). Each handler enters it itself, so work resumed from a stream's events (an upload)
+ * still runs under it.
+ */
+export function scoped(handler: RequestHandler): RequestHandler {
+  return (req, res, next) => runAsWorkshop(req.workshopScope !== undefined ? req.workshopScope : (req.user?.workshopId ?? null), () => handler(req, res, next));
+}
 
 /**
  * Who may call a route: the holders of a permission from `shared/roles.ts`, any signed-in user, or the public (the
@@ -24,6 +46,19 @@ export function guard(access: Access): RequestHandler {
   };
 }
 
+/** Public paths under this prefix carry a quote's signed token in `:token`. */
+const QUOTE_LINK_PREFIX = '/api/public/quotes/:token';
+
+/**
+ * Resolves the workshop of a customer's signed link (through the owner's lookup by the token's hash); an unknown
+ * token resolves to no workshop, so the handler finds nothing and answers as it would for any unknown link.
+ */
+const workshopOfQuoteLink: RequestHandler = async (req, _res, next) => {
+  const token = typeof req.params.token === 'string' ? req.params.token : '';
+  req.workshopScope = token ? await lookupWorkshop(User.sequelize!, 'quote_token', hashToken(token)) : null;
+  next();
+};
+
 type AddRoute = (path: string, access: Access, ...handlers: RequestHandler[]) => void;
 
 export interface SecureRouter {
@@ -46,7 +81,9 @@ export function secureRouter(prefix: string, table: RouteInfo[]): SecureRouter {
     (path, access, ...handlers) => {
       const full = prefix + path;
       table.push({ method, path: full, access });
-      router[method](full, guard(access), ...handlers);
+      // A customer's signed link names its workshop: its last handler runs under it (after any rate limiter).
+      const resolved = access === 'public' && full.startsWith(QUOTE_LINK_PREFIX) ? [...handlers.slice(0, -1), workshopOfQuoteLink, ...handlers.slice(-1)] : handlers;
+      router[method](full, guard(access), ...resolved.map(scoped));
     };
   return { router, get: add('get'), post: add('post'), put: add('put'), patch: add('patch'), delete: add('delete') };
 }

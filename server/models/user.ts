@@ -15,6 +15,8 @@ export class User extends Model<InferAttributes<User>, InferCreationAttributes<U
   declare role: Role;
   declare passwordHash: string;
   declare active: CreationOptional<boolean>;
+  /** Filled by the database from the workshop the insert runs under (row-level security). */
+  declare workshopId: CreationOptional<number>;
   declare lastLoginAt: Date | null;
   declare createdAt: CreationOptional<Date>;
   declare updatedAt: CreationOptional<Date>;
@@ -41,6 +43,7 @@ export class User extends Model<InferAttributes<User>, InferCreationAttributes<U
         role: { type: DataTypes.STRING(20), allowNull: false },
         passwordHash: { type: DataTypes.STRING(100), allowNull: false },
         active: { type: DataTypes.BOOLEAN, allowNull: false, defaultValue: true },
+        workshopId: { type: DataTypes.INTEGER, allowNull: true },
         lastLoginAt: { type: DataTypes.DATE, allowNull: true },
         createdAt: DataTypes.DATE,
         updatedAt: DataTypes.DATE,

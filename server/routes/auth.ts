@@ -8,6 +8,7 @@ import { loginLimits, resetLimits } from '../auth/login-limits';
 import { configurePassport } from '../auth/passport';
 import { csrf } from '../http/csrf';
 import { secureRouter, type RouteInfo } from '../http/guard';
+import { runAsWorkshop } from '../db/workshop-context';
 import { HttpProblem, parseOr400, sendProblem } from '../http/problem';
 import { User } from '../models';
 import { completePasswordReset, requestPasswordReset } from '../services/password-reset';
@@ -37,8 +38,9 @@ export function authRoutes(config: Config, sequelize: Sequelize, table: RouteInf
       }
       req.login(user, (loginErr) => {
         if (loginErr) return next(loginErr);
-        Promise.all([User.update({ lastLoginAt: new Date() }, { where: { id: user.id } }), limits.succeeded(address, email)]).then(() => {
-          res.json({ user, csrfToken: csrf.generateToken(req, true) });
+        const { workshopId, ...shown } = user;
+        Promise.all([runAsWorkshop(workshopId, () => User.update({ lastLoginAt: new Date() }, { where: { id: user.id } })), limits.succeeded(address, email)]).then(() => {
+          res.json({ user: shown, csrfToken: csrf.generateToken(req, true) });
         }, next);
       });
     })(req, res, next);

@@ -72,20 +72,8 @@ async function demoPriceList(sequelize: Sequelize): Promise<void> {
 export async function loadDemo(sequelize: Sequelize, log: (m: string) => void = () => {}): Promise<void> {
   const passwordHash = await hashPassword(DEMO_PASSWORD);
   await sequelize.transaction(async (transaction) => {
-    const workshop = await Workshop.findOne({ transaction });
-    if (!workshop) {
-      await Workshop.create(
-        {
-          name: 'Larkspur Lane Polishing Workshop',
-          email: 'hello@larkspur-polishing.example',
-          phone: '01632 960 418',
-          address: 'Unit 4, Tannery Yard\nLarkspur Lane\nMiddlecombe MC4 7KV',
-          settings: DEMO_SETTINGS,
-        },
-        { transaction },
-      );
-      log('workshop created');
-    }
+    // The seeder made the workshop this runs under; only its details are demo data.
+    if (!(await Workshop.findOne({ transaction }))) throw new Error('the demo loads under a workshop');
     for (const demo of DEMO_USERS) {
       const [, created] = await User.findOrCreate({
         where: { email: demo.email },
@@ -97,3 +85,12 @@ export async function loadDemo(sequelize: Sequelize, log: (m: string) => void = 
   });
   await demoPriceList(sequelize);
 }
+
+/** The demo workshop's row (created by the seeder before anything else is loaded under it). */
+export const DEMO_WORKSHOP = {
+  name: 'Larkspur Lane Polishing Workshop',
+  email: 'hello@larkspur-polishing.example',
+  phone: '01632 960 418',
+  address: 'Unit 4, Tannery Yard\nLarkspur Lane\nMiddlecombe MC4 7KV',
+  settings: DEMO_SETTINGS,
+};

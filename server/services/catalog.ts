@@ -11,6 +11,7 @@ import { HttpProblem, problems } from '../http/problem';
 import { FinishingSystem, LabourRate, Material, Species, Workshop } from '../models';
 import type { SharedCaches } from './shared-caches';
 import { allOf } from '../db/queries';
+import { currentWorkshopId } from '../db/workshop-context';
 
 export interface LoadedCatalog {
   catalog: Catalog;
@@ -78,8 +79,10 @@ const recent = new Map<string, LoadedCatalog>();
  */
 export async function loadCatalog(sequelize: Sequelize, opts: { onDate?: string; transaction?: Transaction; cache?: SharedCaches } = {}): Promise<LoadedCatalog> {
   const onDate = opts.onDate ?? today();
-  if (opts.cache && !opts.transaction) return opts.cache.catalog(onDate, () => loadCatalog(sequelize, { onDate }));
-  const key = `${onDate}|${await catalogStamp(sequelize, opts.transaction)}`;
+  // Each workshop has its own catalog: the workshop is part of every key (row-level security decides what is built).
+  const workshop = currentWorkshopId() ?? 'none';
+  if (opts.cache && !opts.transaction) return opts.cache.catalog(`${workshop}|${onDate}`, () => loadCatalog(sequelize, { onDate }));
+  const key = `${workshop}|${onDate}|${await catalogStamp(sequelize, opts.transaction)}`;
   const hit = recent.get(key);
   if (hit) return hit;
   const loaded = await buildCatalog(sequelize, onDate, opts.transaction);

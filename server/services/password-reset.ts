@@ -7,6 +7,7 @@
 import { createHash, randomBytes } from 'node:crypto';
 import { QueryTypes, type Sequelize } from 'sequelize';
 import type { Config } from '../config';
+import { lookupWorkshop, runAsWorkshop } from '../db/workshop-context';
 import { HttpProblem } from '../http/problem';
 import { OutboxMessage, User } from '../models';
 import { audit } from './audit';
@@ -26,6 +27,13 @@ function escapeHtml(s: string): string {
 
 /** Queues and sends a reset link when the address belongs to an active account; otherwise does nothing, quietly. */
 export async function requestPasswordReset(sequelize: Sequelize, config: Config, email: string): Promise<void> {
+  // The address names the workshop (through the owner's lookup); an unknown address is answered the same way.
+  const workshopId = await lookupWorkshop(sequelize, 'email', email.trim().toLowerCase());
+  if (workshopId === null) return;
+  await runAsWorkshop(workshopId, () => requestInWorkshop(sequelize, config, email));
+}
+
+async function requestInWorkshop(sequelize: Sequelize, config: Config, email: string): Promise<void> {
   const user = await User.findOne({ where: { email: email.trim().toLowerCase() } });
   if (!user || !user.active) return;
   const outboxId = await sequelize.transaction(async (transaction) => {
@@ -64,6 +72,12 @@ export async function requestPasswordReset(sequelize: Sequelize, config: Config,
 /** Sets the new password if the token is known, unexpired and unused; the token is spent and every session ends. */
 export async function completePasswordReset(sequelize: Sequelize, token: string, password: string): Promise<void> {
   const passwordHash = await hashPassword(password);
+  // An unknown token runs under no workshop and so finds no row: the usual refusal below.
+  const workshopId = await lookupWorkshop(sequelize, 'reset', sha256(token));
+  await runAsWorkshop(workshopId, () => completeInWorkshop(sequelize, token, passwordHash));
+}
+
+async function completeInWorkshop(sequelize: Sequelize, token: string, passwordHash: string): Promise<void> {
   await sequelize.transaction(async (transaction) => {
     const rows = (await sequelize.query(
       `SELECT id, user_id, expires_at < now() AS expired, used_at IS NOT NULL AS used FROM password_resets WHERE token_hash = :hash FOR UPDATE`,

@@ -9,6 +9,7 @@ import type Stripe from 'stripe';
 import { Op, UniqueConstraintError, type Sequelize, type Transaction } from 'sequelize';
 import type { FlaggedPayment, PaymentDto, PaymentFlag } from '@shared/schemas/quotes';
 import type { Config } from '../config';
+import { lookupWorkshop, runAsWorkshop } from '../db/workshop-context';
 import { HttpProblem, problems } from '../http/problem';
 import { Customer, Estimate, Payment, PaymentEvent, Quote } from '../models';
 import { audit } from './audit';
@@ -171,6 +172,15 @@ export async function handleWebhook(sequelize: Sequelize, config: Config, raw: B
   } catch {
     throw new HttpProblem(400, 'bad_signature', 'Webhook refused', 'The webhook signature does not verify.');
   }
+  // The event is attributed to the workshop whose checkout session it names; an event for no known session is
+  // acknowledged and not kept (there is no workshop to keep it under).
+  const sessionId = (event.data.object as { id?: unknown }).id;
+  const workshopId = typeof sessionId === 'string' ? await lookupWorkshop(sequelize, 'payment_session', sessionId) : null;
+  if (workshopId === null) return { handled: false };
+  return runAsWorkshop(workshopId, () => handleEvent(sequelize, config, event));
+}
+
+async function handleEvent(sequelize: Sequelize, config: Config, event: Stripe.Event): Promise<Outcome> {
   let outcome: Outcome;
   try {
     outcome = await sequelize.transaction(async (transaction) => {

@@ -7,6 +7,7 @@ import type { Sequelize, Transaction } from 'sequelize';
 import { OPEN_QUOTE_STATES, QUOTE_MOVES, mirrorEstimate } from '@shared/schemas/state-moves';
 import { today } from '@shared/time';
 import { Quote } from '../models';
+import { allWorkshopIds, runAsWorkshop } from '../db/workshop-context';
 import { loadSettings } from './catalog';
 
 /** How often the app writes down the quotes that ran out. */
@@ -63,8 +64,14 @@ export function startExpirySweep(sequelize: Sequelize, log: (err: unknown) => vo
     running = running
       .then(async () => {
         if (stopped) return;
-        await loadSettings().catch(() => undefined);
-        await sequelize.transaction((transaction) => expireQuotes(transaction));
+        // Each workshop in turn, under its own row-level security scope and its own day.
+        for (const workshopId of await allWorkshopIds(sequelize)) {
+          if (stopped) return;
+          await runAsWorkshop(workshopId, async () => {
+            await loadSettings().catch(() => undefined);
+            await sequelize.transaction((transaction) => expireQuotes(transaction));
+          });
+        }
       })
       .catch(log);
   };

@@ -22,6 +22,7 @@ export interface CachedUser {
   email: string;
   name: string;
   role: Express.User['role'];
+  workshopId: number;
 }
 
 /** A user as the session sees them: active (the fields a request needs) or gone (unknown or deactivated). */
@@ -129,7 +130,7 @@ export class SharedCaches {
     const generation = this.generation;
     const value = await build();
     if (generation === this.generation && this.live) {
-      if (this.catalogs.size >= 8) this.catalogs.delete(this.catalogs.keys().next().value!);
+      if (this.catalogs.size >= 64) this.catalogs.delete(this.catalogs.keys().next().value!);
       this.catalogs.set(key, value);
     }
     return value;

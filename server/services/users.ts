@@ -2,6 +2,7 @@ import bcrypt from 'bcryptjs';
 import { Op, type Sequelize, type Transaction, type WhereOptions } from 'sequelize';
 import { PASSWORD_MAX_BYTES, passwordBytes, type CreateUserInput, type Page, type UpdateUserInput, type User as UserDto, type UserListQuery } from '@shared/schemas/auth';
 import { problems } from '../http/problem';
+import { lookupWorkshop, runAsWorkshop } from '../db/workshop-context';
 import { User } from '../models';
 import { audit } from './audit';
 import { containsPattern } from './paging';
@@ -19,7 +20,11 @@ const DUMMY_HASH = bcrypt.hashSync('not-a-real-password', BCRYPT_COST);
 
 /** Checks an e-mail and password; returns the active user or undefined. */
 export async function verifyCredentials(email: string, password: string): Promise<User | undefined> {
-  const user = await User.findOne({ where: { email: email.trim().toLowerCase() } });
+  const address = email.trim().toLowerCase();
+  // Sign-in is the one place a user's workshop is not known yet: the owner's lookup names it, then the user is read
+  // under it like any other row.
+  const workshopId = await lookupWorkshop(User.sequelize!, 'email', address);
+  const user = workshopId === null ? null : await runAsWorkshop(workshopId, () => User.findOne({ where: { email: address } }));
   // A password longer than bcrypt reads can match no stored one (none longer is ever set); comparing it would
   // match on its first 72 bytes alone. It still costs one comparison, so the refusal takes the usual time.
   const tooLong = passwordBytes(password) > PASSWORD_MAX_BYTES;

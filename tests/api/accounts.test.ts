@@ -19,9 +19,12 @@ import { afterAll, beforeAll, describe, expect, it } from 'vitest';
 import type { AccountDto, OwedPage, PublicAccount } from '../../shared/schemas/accounts';
 import { AccountDocument, AccountEntry, Job, Payment, Quote, Workshop } from '../../server/models';
 import { balanceOf, taxSplit } from '../../server/services/accounts';
-import { closeTestApp, getTestApp, signInAs, startServices, type Session } from '../helpers/app';
+import { createSequelize } from '../../server/db/sequelize';
+import { closeTestApp, getTestApp, signInAs, startServices, testDatabaseUrl, type Session } from '../helpers/app';
 
 const { app, config, sequelize } = getTestApp();
+/** The owning role: only it may switch a table's trigger off (the app's role owns no table). */
+const ownerDb = createSequelize(testDatabaseUrl(), { poolMax: 1 });
 let services: Awaited<ReturnType<typeof startServices>>;
 let estimator: Session;
 let sales: Session;
@@ -47,6 +50,7 @@ beforeAll(async () => {
 });
 
 afterAll(async () => {
+  await ownerDb.close();
   if (keptPricing) {
     const w = (await Workshop.findOne({ order: [['id', 'ASC']] }))!;
     await w.update({ settings: { ...w.settings, pricing: { ...w.settings.pricing, ...keptPricing } } });
@@ -358,12 +362,11 @@ describe('what customers owe, by age', () => {
       const a = (await post(sales, `/api/accounts/quotes/${q.id}/invoice`, {}).expect(201)).body as AccountDto;
       const inv = a.documents.find((d) => d.kind === 'invoice')!;
       // Issued "age" days ago: the date is moved past the trigger, as a back-dated import would be.
-      await sequelize.query('ALTER TABLE account_documents DISABLE TRIGGER account_documents_issued');
-      try {
-        await sequelize.query(`UPDATE account_documents SET issued_at = now() - (:age || ' days')::interval WHERE id = :id`, { replacements: { age, id: inv.id } });
-      } finally {
-        await sequelize.query('ALTER TABLE account_documents ENABLE TRIGGER account_documents_issued');
-      }
+      await ownerDb.transaction(async (transaction) => {
+        await ownerDb.query('ALTER TABLE account_documents DISABLE TRIGGER account_documents_issued', { transaction });
+        await ownerDb.query(`UPDATE account_documents SET issued_at = now() - (:age || ' days')::interval WHERE id = :id`, { replacements: { age, id: inv.id }, transaction });
+        await ownerDb.query('ALTER TABLE account_documents ENABLE TRIGGER account_documents_issued', { transaction });
+      });
       made.push({ id: q.id, age });
     }
     const all: OwedPage['rows'] = [];

@@ -10,6 +10,7 @@ import { clusterUrl, describeCluster, ensureDatabase, startCluster, type Cluster
 import { createMigrator } from '../../server/db/migrator';
 import type { Sequelize } from 'sequelize';
 import { createSequelize } from '../../server/db/sequelize';
+import { allWorkshopIds, runAsWorkshop } from '../../server/db/workshop-context';
 import { initModels } from '../../server/models';
 import { seed } from '../../server/seeders';
 
@@ -40,6 +41,9 @@ export async function benchDatabase(opts: { estimates?: number; poolMax?: number
   const [[{ n }]] = (await sequelize.query('SELECT count(*)::int AS n FROM estimates')) as [[{ n: number }], unknown];
   if (n < want) {
     console.log(`[bench] adding ${want - n} estimates…`);
+    // The rows go to the demo workshop (the column's default reads the workshop setting).
+    const [demoWorkshop] = await allWorkshopIds(sequelize);
+    await runAsWorkshop(demoWorkshop!, async () => {
     // Copies of the demo estimates: other numbers, spread over customers, states, totals and dates.
     await sequelize.query(
       `INSERT INTO customers (name, email, created_at, updated_at)
@@ -56,6 +60,7 @@ export async function benchDatabase(opts: { estimates?: number; poolMax?: number
          JOIN LATERAL (SELECT * FROM estimates WHERE number LIKE 'EST-%' ORDER BY id OFFSET (g % 4) LIMIT 1) e ON true`,
       { replacements: { count: want - n } },
     );
+    });
     await sequelize.query('ANALYZE');
   }
   return { cluster, url, config, sequelize };

@@ -3,23 +3,43 @@ import request from 'supertest';
 import type { Role } from '../../shared/schemas/auth';
 import { createApp, type BuiltApp } from '../../server/app';
 import { loadConfig, type Config } from '../../server/config';
-import { createSequelize } from '../../server/db/sequelize';
+import type { Sequelize } from 'sequelize';
+import { appUrlOf } from '../../server/db/app-role';
+import { createAppSequelize } from '../../server/db/sequelize';
+import { allWorkshopIds } from '../../server/db/workshop-context';
 import { DEMO_PASSWORD, DEMO_USERS } from '../../server/seeders/demo';
 
+/** The owner's URL: migrations and checks of the schema (it bypasses row-level security). */
 export function testDatabaseUrl(): string {
   const url = process.env.DATABASE_URL;
   if (!url) throw new Error('DATABASE_URL is not set: run the suite with `npm test`');
   return url;
 }
 
-let shared: (BuiltApp & { sequelize: ReturnType<typeof createSequelize>; config: Config }) | undefined;
+/** The app role's URL (`shellwright_app`, bound by row-level security), as the app connects. */
+export function testAppDatabaseUrl(): string {
+  return process.env.APP_DATABASE_URL || appUrlOf(testDatabaseUrl());
+}
+
+/**
+ * The workshop a test's own queries run under when they are not inside a request or `runAsWorkshop`: the first
+ * (demo) workshop, so fixtures written directly land where the demo users see them.
+ */
+export function demoWorkshopFallback(sequelize: Sequelize): () => Promise<number | null> {
+  let id: Promise<number | null> | undefined;
+  return () => (id ??= allWorkshopIds(sequelize).then((ids) => ids[0] ?? null));
+}
+
+let shared: (BuiltApp & { sequelize: Sequelize; config: Config }) | undefined;
 
 /** One app per test file (models bind to one connection per process). */
 export function getTestApp(opts: { config?: Partial<Config>; serveClient?: boolean } = {}) {
   if (shared) return shared;
   const config = { ...loadConfig(), ...opts.config };
-  const url = testDatabaseUrl();
-  const sequelize = createSequelize(url);
+  const url = testAppDatabaseUrl();
+  let fallback: () => Promise<number | null> = async () => null;
+  const sequelize = createAppSequelize(url, { fallback: () => fallback() });
+  fallback = demoWorkshopFallback(sequelize);
   const built = createApp({ config, sequelize, databaseUrl: url, serveClient: opts.serveClient ?? false });
   shared = { ...built, sequelize, config };
   return shared;
