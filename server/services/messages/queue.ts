@@ -115,6 +115,10 @@ export class MessageQueue {
   /** Puts a message on the queue, to go now or at `startAfter`. One waiting job per message (its singleton key). */
   async send(job: SendJob, startAfter?: Date | null): Promise<void> {
     await this.start();
+    await this.put(job, startAfter);
+  }
+
+  private async put(job: SendJob, startAfter?: Date | null): Promise<void> {
     await this.boss.send(SEND_QUEUE, job, {
       singletonKey: `outbox-${job.outboxId}`,
       ...(startAfter && startAfter.getTime() > Date.now() ? { startAfter } : {}),
@@ -149,6 +153,6 @@ export class MessageQueue {
     );
     if (rows.length === 0) return;
     const workshopId = await this.opts.workshopOf();
-    for (const r of rows) await this.send({ workshopId, outboxId: r.id }, r.send_after);
+    for (const r of rows) await this.put({ workshopId, outboxId: r.id }, r.send_after);
   }
 }
