@@ -5,6 +5,8 @@
  * once after it, and two workers on one database send each message once.
  */
 import { addDays, today } from '@shared/time';
+import http from 'node:http';
+import type { AddressInfo } from 'node:net';
 import { QueryTypes } from 'sequelize';
 import request from 'supertest';
 import { afterAll, beforeAll, describe, expect, it } from 'vitest';
@@ -20,8 +22,13 @@ let sales: Session;
 let estimator: Session;
 let planner: Session;
 const extraQueues: MessageQueue[] = [];
+let server: http.Server;
 
 beforeAll(async () => {
+  // The payment stand-in posts its webhooks to the app: it listens on a free port.
+  server = http.createServer(app);
+  await new Promise<void>((resolve) => server.listen(0, '127.0.0.1', resolve));
+  config.publicUrl = `http://127.0.0.1:${(server.address() as AddressInfo).port}`;
   services = await startServices();
   [owner, sales, estimator, planner] = await Promise.all([signInAs(app, 'owner'), signInAs(app, 'sales'), signInAs(app, 'estimator'), signInAs(app, 'workshop')]);
   await appQueue!.start();
@@ -30,6 +37,8 @@ beforeAll(async () => {
 afterAll(async () => {
   for (const q of extraQueues) await q.stop();
   await services?.stop();
+  server?.closeAllConnections();
+  await new Promise<void>((resolve) => (server ? server.close(() => resolve()) : resolve()));
   await closeTestApp();
 });
 
