@@ -17,6 +17,8 @@ import { apiNotFound, errorHandler } from './http/problem';
 import { initModels } from './models';
 import { installWorkshopSetting } from './db/workshop-context';
 import { accountRoutes } from './routes/accounts';
+import { messageRoutes } from './routes/messages';
+import { createMessageQueue, type MessageQueue } from './services/messages';
 import { auditRoutes } from './routes/audit';
 import { authRoutes } from './routes/auth';
 import { calcRoutes } from './routes/calc';
@@ -43,6 +45,8 @@ export interface AppDeps {
   databaseUrl: string;
   /** Serve the built client from dist/ (off in API tests). */
   serveClient?: boolean;
+  /** Start the message queue (pg-boss) with the app (on unless a caller runs its own). */
+  queue?: boolean;
 }
 
 export interface BuiltApp {
@@ -51,6 +55,8 @@ export interface BuiltApp {
   routes: RouteInfo[];
   /** This app's in-memory users and catalog, dropped on every instance through LISTEN/NOTIFY. */
   caches: SharedCaches;
+  /** The durable message queue (pg-boss), started with the app and stopped by close(); `ready` once it runs. */
+  queue: MessageQueue | undefined;
   close(): Promise<void>;
 }
 
@@ -58,7 +64,7 @@ export interface BuiltApp {
 const CSRF_EXEMPT = [/^\/api\/public\//, /^\/api\/webhooks\//];
 
 /** Builds the Express app without listening. */
-export function createApp({ config, sequelize, databaseUrl, serveClient = true }: AppDeps): BuiltApp {
+export function createApp({ config, sequelize, databaseUrl, serveClient = true, queue: withQueue = true }: AppDeps): BuiltApp {
   initModels(sequelize);
   // Every connection the app takes carries the workshop of the work that takes it (row-level security).
   installWorkshopSetting(sequelize);
@@ -150,6 +156,7 @@ export function createApp({ config, sequelize, databaseUrl, serveClient = true }
   app.use(...stockRoutes(config, sequelize, routes));
   app.use(...reportRoutes(routes));
   app.use(...accountRoutes(config, sequelize, routes));
+  app.use(messageRoutes(config, sequelize, routes));
   app.use('/api', apiNotFound);
 
   if (serveClient) {
@@ -166,12 +173,17 @@ export function createApp({ config, sequelize, databaseUrl, serveClient = true }
 
   // Quotes past their date are written as expired on a schedule (reads compute it): never by a GET.
   const stopExpirySweep = startExpirySweep(sequelize);
+  // Customer messages are sent and scheduled through the durable queue in PostgreSQL (pg-boss, schema pgboss).
+  const queue = withQueue ? createMessageQueue({ config, sequelize, databaseUrl }) : undefined;
+  queue?.start().catch((err: unknown) => console.error(`[queue] could not start: ${err instanceof Error ? err.message : String(err)}`));
 
   return {
     app,
     routes,
     caches,
+    queue,
     close: async () => {
+      await queue?.stop();
       await stopExpirySweep();
       await caches.close();
       await sessionPool.end();

@@ -32,6 +32,8 @@ export interface Config {
   mail: { url: string | undefined; from: string };
   /** The payment provider; unset outside production means the local stand-in. */
   payments: { apiUrl: string | undefined; secretKey: string | undefined; webhookSecret: string | undefined };
+  /** How often an idle worker of the message queue looks for due jobs, in seconds (SHELLWRIGHT_QUEUE_POLL_SECONDS). */
+  queuePollSeconds: number;
 }
 
 function intFromEnv(name: string, fallback: number): number {
@@ -90,5 +92,6 @@ export function loadConfig(): Config {
       secretKey: process.env.PAYMENTS_SECRET_KEY || undefined,
       webhookSecret: process.env.PAYMENTS_WEBHOOK_SECRET || undefined,
     },
+    queuePollSeconds: Math.max(0.5, Number(process.env.SHELLWRIGHT_QUEUE_POLL_SECONDS) || 2),
   };
 }

@@ -73,6 +73,12 @@ export const PERMISSIONS = {
   readReports: ['owner'],
   /** Read the actual hours against the estimates, and apply what they teach to the settings. */
   reviewActuals: ['owner'],
+  /** Read the message templates and the messages sent to a customer. */
+  readMessages: ['owner', 'sales', 'workshop'],
+  /** Edit the message templates and when the quote reminders go. */
+  editMessageTemplates: ['owner'],
+  /** Tell the customer their piece is ready for collection or delivery. */
+  tellCustomerReady: ['owner', 'sales', 'workshop'],
 } as const satisfies Record<string, readonly Role[]>;
 
 export type Permission = keyof typeof PERMISSIONS;

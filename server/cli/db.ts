@@ -12,6 +12,7 @@ import { createMigrator } from '../db/migrator';
 import { createSequelize } from '../db/sequelize';
 import { initModels } from '../models';
 import { seed } from '../seeders';
+import { QUEUE_SCHEMA } from '../services/messages/queue';
 
 const config = loadConfig();
 
@@ -70,7 +71,9 @@ async function main(command: string | undefined, arg: string | undefined): Promi
         const dir = path.join(config.dataDir, 'backups');
         fs.mkdirSync(dir, { recursive: true });
         const file = path.resolve(arg ?? path.join(dir, `shellwright-${stamp()}.dump`));
-        const result = spawnSync(pgTool('pg_dump'), ['--format=custom', '--no-owner', '--file', file, url], { stdio: 'inherit' });
+        // The message queue's own schema (pg-boss) is left out: it is rebuilt when the app starts, and messages still
+        // queued in the outbox are put back on the queue then (docs/messages.md).
+        const result = spawnSync(pgTool('pg_dump'), ['--format=custom', '--no-owner', `--exclude-schema=${QUEUE_SCHEMA}`, '--file', file, url], { stdio: 'inherit' });
         if (result.status !== 0) throw new Error('pg_dump failed');
         console.log(`[db] backup written to ${file}`);
       });
@@ -79,7 +82,7 @@ async function main(command: string | undefined, arg: string | undefined): Promi
       if (!arg) throw new Error('usage: npm run db:restore -- <file.dump>');
       if (!fs.existsSync(arg)) throw new Error(`no such backup file: ${arg}`);
       await withDb(async (url) => {
-        const result = spawnSync(pgTool('pg_restore'), ['--clean', '--if-exists', '--no-owner', '--single-transaction', '--dbname', url, arg], {
+        const result = spawnSync(pgTool('pg_restore'), ['--clean', '--if-exists', '--no-owner', `--exclude-schema=${QUEUE_SCHEMA}`, '--single-transaction', '--dbname', url, arg], {
           stdio: 'inherit',
         });
         if (result.status !== 0) throw new Error('pg_restore failed: the database was left as it was');

@@ -142,6 +142,12 @@ export class OutboxMessage extends Model<InferAttributes<OutboxMessage>, InferCr
   declare createdBy: number | null;
   declare createdAt: CreationOptional<Date>;
   declare sentAt: Date | null;
+  /** Messages to the customer (migration 2026.12.06T10.00): whom, which job, which template, when due, which event. */
+  declare customerId: CreationOptional<number | null>;
+  declare jobId: CreationOptional<number | null>;
+  declare kind: CreationOptional<string | null>;
+  declare sendAfter: CreationOptional<Date | null>;
+  declare dedupeKey: CreationOptional<string | null>;
 
   static initModel(sequelize: Sequelize): void {
     OutboxMessage.init(
@@ -161,6 +167,11 @@ export class OutboxMessage extends Model<InferAttributes<OutboxMessage>, InferCr
         createdBy: { type: DataTypes.INTEGER, allowNull: true },
         createdAt: DataTypes.DATE,
         sentAt: { type: DataTypes.DATE, allowNull: true },
+        customerId: { type: DataTypes.INTEGER, allowNull: true },
+        jobId: { type: DataTypes.INTEGER, allowNull: true },
+        kind: { type: DataTypes.STRING(24), allowNull: true },
+        sendAfter: { type: DataTypes.DATE, allowNull: true },
+        dedupeKey: { type: DataTypes.STRING(120), allowNull: true },
       },
       { sequelize, tableName: 'outbox', underscored: true, updatedAt: false },
     );

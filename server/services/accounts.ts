@@ -47,6 +47,8 @@ import { formatDate, formatMoney } from '../pdf/pdf-format';
 import { audit } from './audit';
 import { loadSettings } from './catalog';
 import { deliver } from './mail';
+import { currentWorkshopId, fillTemplate, piecesOf } from './messages';
+import type { MessageKind } from '@shared/schemas/messages';
 import { composeMail } from './mail-compose';
 import { offset, pageTotal } from './paging';
 import { CHECKOUT_MINUTES, fromMinor, lapseCheckouts, minorUnits, paymentClient } from './payment-provider';
@@ -189,6 +191,8 @@ interface IssueSpec {
   entryId?: number | null;
   refund?: DocumentContent['refund'];
   note?: string | null;
+  /** The customer message this e-mail also is (deposit receipt, balance due): its kind and the owner's text for it. */
+  covering?: { kind: MessageKind; body: string } | null;
 }
 
 /** Stores a document with the next number, renders it and queues it for the customer; returns it and the message id. */
@@ -261,13 +265,15 @@ async function issue(spec: IssueSpec, transaction: Transaction): Promise<{ doc: 
         : `Please find attached our credit note ${number}, which reduces invoice ${spec.invoice?.number ?? ''} by ${fmt(spec.total)}.${spec.refund ? ` We are refunding ${fmt(spec.refund.amount)} to you by ${spec.refund.method}.` : ''} ${m(spec.balanceDue).isZero() ? 'Nothing more is owed.' : `${fmt(spec.balanceDue)} remains to be paid.`}`;
   const { text, html } = composeMail({
     name: party.customer.name,
-    message: '',
+    message: spec.covering?.body ?? '',
     paragraphs: [{ text: body }, { text: SAFETY_NOTE, small: true }],
     signOff: { from: null, workshop: party.workshop.name, phone: party.workshop.phone ?? null, email: party.workshop.email ?? null },
   });
   const outbox = await OutboxMessage.create(
     {
       quoteId: null,
+      customerId: party.customer.id,
+      kind: spec.covering?.kind ?? null,
       toAddress: party.to,
       subject: `${DOCUMENT_KIND_LABELS[spec.kind]} ${number} from ${party.workshop.name}`,
       textBody: text,
@@ -292,7 +298,7 @@ async function taxOf(transaction: Transaction): Promise<{ pct: number; label: st
 }
 
 /** A receipt for a ledger payment just made, with the balance after it. */
-async function receiptFor(quote: Quote, entry: AccountEntry, actorId: number | null, transaction: Transaction): Promise<{ doc: AccountDocument; outboxId: number | null }> {
+async function receiptFor(quote: Quote, entry: AccountEntry, actorId: number | null, transaction: Transaction, covering?: IssueSpec['covering']): Promise<{ doc: AccountDocument; outboxId: number | null }> {
   const party = await partyOf(quote, transaction);
   const tax = await taxOf(transaction);
   const f = await figuresOf(quote, transaction);
@@ -311,6 +317,7 @@ async function receiptFor(quote: Quote, entry: AccountEntry, actorId: number | n
       credits: [],
       receivedToDate: money(f.paid).minus(money(f.refunded)).toFixed(2),
       entryId: entry.id,
+      covering,
     },
     transaction,
   );
@@ -339,7 +346,23 @@ export async function recordCardPayment(quote: Quote, payment: Payment, purpose:
     },
     { transaction },
   );
-  const { outboxId } = await receiptFor(quote, entry, null, transaction);
+  // The deposit's receipt e-mail carries the owner's deposit-receipt message as its covering text.
+  const covering =
+    purpose === 'deposit'
+      ? {
+          kind: 'deposit-receipt' as const,
+          body: (
+            await fillTemplate(
+              quote.sequelize!,
+              await currentWorkshopId(transaction),
+              'deposit-receipt',
+              { customer: (await partyOf(quote, transaction)).customer.name, piece: await piecesOf(quote.sequelize!, quote.id, transaction), quote_number: quote.number, amount: formatMoney(fixed(entry.amount), quote.currency) },
+              transaction,
+            )
+          ).body,
+        }
+      : null;
+  const { outboxId } = await receiptFor(quote, entry, null, transaction, covering);
   return outboxId;
 }
 
@@ -553,6 +576,21 @@ export async function issueInvoice(sequelize: Sequelize, config: Config, actorId
         credits: [],
         receivedToDate: money(f.paid).minus(money(f.refunded)).toFixed(2),
         note: input.note,
+        // With a balance still to pay, the invoice e-mail is the owner's balance-due message too.
+        covering: money(f.balance).isZero()
+          ? null
+          : {
+              kind: 'balance-due',
+              body: (
+                await fillTemplate(
+                  sequelize,
+                  await currentWorkshopId(transaction),
+                  'balance-due',
+                  { customer: party.customer.name, piece: await piecesOf(sequelize, quote.id, transaction), quote_number: quote.number, amount: formatMoney(f.balance, quote.currency) },
+                  transaction,
+                )
+              ).body,
+            },
       },
       transaction,
     );

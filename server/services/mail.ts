@@ -57,6 +57,20 @@ export async function deliver(config: Config, id: number): Promise<OutboxMessage
 }
 
 /**
+ * Sends a message for the job queue (services/messages/queue.ts): a queued one, or a failed one being retried. The
+ * claim makes the outbox row the unit of sending, so two jobs or two instances never send it twice. Throws when the
+ * delivery failed, so the queue tries again later; a message already sent or in hand is left alone.
+ */
+export async function deliverQueued(config: Config, id: number): Promise<OutboxMessage | null> {
+  const m = await OutboxMessage.findByPk(id);
+  if (!m) return null;
+  if (!(await claim(id, ['queued', 'failed']))) return m;
+  const sent = await send(config, m);
+  if (sent.status === 'failed') throw new Error(`Message ${id} was not delivered: ${sent.lastError ?? 'unknown error'}`);
+  return sent;
+}
+
+/**
  * Sends a failed message again. Only a failed message can be retried (409 for one sent, queued or being sent), and
  * only the newest message of a quote that is still open: an older one carries a link that no longer works.
  */

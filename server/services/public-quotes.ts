@@ -16,6 +16,8 @@ import type { AcceptanceRecord } from '../pdf/acceptance-pdf';
 import { Customer, Estimate, EstimateRevision, Payment, Piece, Quote, QuoteLine, Workshop } from '../models';
 import { audit } from './audit';
 import { loadSettings } from './catalog';
+import { deliver } from './mail';
+import { messageOnAcceptance } from './messages';
 import { lapseCheckouts } from './payment-provider';
 import { cancelCheckout, openCheckout } from './payments';
 import {
@@ -198,6 +200,7 @@ export async function publicPdf(config: Config, token: string): Promise<{ number
  * one-agreement index on the chosen lines' pieces refuses a second acceptance whatever the interleaving.
  */
 export async function acceptQuote(sequelize: Sequelize, config: Config, token: string, input: AcceptInput, ip: string): Promise<PublicQuote> {
+  let confirmation: number | null = null;
   try {
     await sequelize.transaction(async (transaction) => {
       const { quote, estimates, lines } = await lockByToken(config, token, transaction);
@@ -250,7 +253,10 @@ export async function acceptQuote(sequelize: Sequelize, config: Config, token: s
         },
         transaction,
       );
+      // The acceptance confirmation, from the owner's template, sent once this commits.
+      confirmation = await messageOnAcceptance(sequelize, quote, quoteLink(config, token), transaction);
     });
+    if (confirmation) await deliver(config, confirmation);
   } catch (err) {
     if (err instanceof UniqueConstraintError) {
       // Another quote's acceptance of one of these pieces committed first.

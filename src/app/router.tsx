@@ -85,6 +85,13 @@ export function createRouter() {
           },
         },
         {
+          path: paths.messageTemplates,
+          lazy: async () => {
+            const { MessageTemplatesPage } = await import('@/features/messages/routes/message-templates');
+            return { element: <RequireAccess access="readMessages"><MessageTemplatesPage /></RequireAccess> };
+          },
+        },
+        {
           path: paths.owed,
           lazy: async () => {
             const { OwedPage } = await import('@/features/accounts/routes/owed');

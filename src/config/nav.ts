@@ -1,5 +1,5 @@
 import { BookUser, HandCoins, FileSignature, House, Layers, Mails, NotebookPen, ScrollText, SlidersHorizontal, Tags, TreeDeciduous, Users, type LucideIcon } from 'lucide-react';
-import { CalendarRange, ChartColumnBig, ChartLine, Package, PackageSearch } from 'lucide-react';
+import { CalendarRange, ChartColumnBig, ChartLine, Package, PackageSearch, MessageSquareText } from 'lucide-react';
 import { allows, type Access } from '@shared/roles';
 import type { Role } from '@shared/schemas/auth';
 import { paths } from './paths';
@@ -29,6 +29,7 @@ export const NAV: NavItem[] = [
   { to: paths.finishingSystems, label: 'Finishing systems', icon: Layers, access: 'readFinishing' },
   { to: paths.species, label: 'Wood species', icon: TreeDeciduous, access: 'readFinishing' },
   { to: paths.settings, label: 'Settings', icon: SlidersHorizontal, access: 'editSettings' },
+  { to: paths.messageTemplates, label: 'Messages to customers', icon: MessageSquareText, access: 'readMessages' },
   { to: paths.users, label: 'Users', icon: Users, access: 'manageUsers' },
   { to: paths.auditLog, label: 'Audit log', icon: ScrollText, access: 'readAuditLog' },
 ];

@@ -19,6 +19,8 @@ export const paths = {
   materialHistory: '/price-list/materials/:materialId',
   reprice: '/price-list/reprice',
   settings: '/settings',
+  /** The owner's message templates and reminder days. */
+  messageTemplates: '/settings/messages',
   finishingSystems: '/finishing-systems',
   finishingSystem: '/finishing-systems/:systemId',
   species: '/species',

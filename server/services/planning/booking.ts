@@ -6,6 +6,7 @@ import { type BookingData, type BookingPreview, type JobDetail, type Overbooking
 import { HttpProblem, problems } from '../../http/problem';
 import { Job, type JobSession } from '../../models';
 import { audit } from '../audit';
+import { messageOnBooking } from '../messages';
 import {
   describeOverbooking,
   isOverbooked,
@@ -161,6 +162,8 @@ export async function bookJob(sequelize: Sequelize, actorId: number, id: number,
       },
       transaction,
     );
+    // The customer hears the dates (or the new dates) through the queue once this commits.
+    await messageOnBooking(sequelize, job, before, actorId, transaction);
   });
   return getJob(id);
 }

@@ -12,6 +12,7 @@ import { renderQuotePdf } from '../../pdf/quote-pdf';
 import { audit } from '../audit';
 import { loadSettings } from '../catalog';
 import { deliver } from '../mail';
+import { scheduleQuoteReminders } from '../messages';
 import { buildDocument } from './document';
 import { quoteMail } from './email';
 import { makeToken, quoteLink } from './links';
@@ -41,6 +42,7 @@ export async function sendQuote(sequelize: Sequelize, config: Config, actorId: n
     const outbox = await OutboxMessage.create(
       {
         quoteId: quote.id,
+        customerId: customer.id,
         toAddress: to,
         subject: `Quote ${quote.number} from ${workshop.name}`,
         textBody: text,
@@ -81,6 +83,8 @@ export async function markSent(sequelize: Sequelize, id: number): Promise<void> 
       const state = mirrorEstimate(estimate.state, 'send');
       if (state !== estimate.state) await estimate.update({ state }, { transaction });
     }
+    // The reminders for an unanswered quote and one about to expire go on the queue for their days.
+    await scheduleQuoteReminders(sequelize, quote, transaction);
   });
 }
 

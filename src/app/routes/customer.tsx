@@ -18,6 +18,7 @@ import { usePieces } from '@/features/pieces/api/pieces';
 import { AddPieceDialog } from '@/features/pieces/components/add-piece-dialog';
 import { useArchiveCustomer, useCustomer } from '@/features/customers/api/customers';
 import { CustomerFormDialog } from '@/features/customers/components/customer-form-dialog';
+import { CustomerMessages } from '@/features/messages/components/customer-messages';
 
 const PAGE_SIZE = 10;
 type PieceSort = 'description' | 'kind' | 'createdAt' | 'updatedAt';
@@ -188,6 +189,12 @@ export function CustomerPage() {
               />
             )}
           </section>
+          {can.readMessages && (
+            <section aria-labelledby="messages-heading">
+              <h2 id="messages-heading" className="mb-2 text-xl font-semibold text-walnut-800">Messages</h2>
+              <CustomerMessages customerId={c.id} />
+            </section>
+          )}
         </div>
       </div>
       <CustomerFormDialog open={editing} customer={c} onClose={() => setEditing(false)} />
