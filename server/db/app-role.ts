@@ -52,6 +52,13 @@ export async function ensureAppRole(ownerUrl: string): Promise<string> {
     await client.query(`GRANT USAGE, SELECT, UPDATE ON ALL SEQUENCES IN SCHEMA public TO ${APP_ROLE}`);
     await client.query(`ALTER DEFAULT PRIVILEGES IN SCHEMA public GRANT SELECT, INSERT, UPDATE, DELETE ON TABLES TO ${APP_ROLE}`);
     await client.query(`ALTER DEFAULT PRIVILEGES IN SCHEMA public GRANT USAGE, SELECT, UPDATE ON SEQUENCES TO ${APP_ROLE}`);
+    // The message queue's own schema (pg-boss, `QUEUE_SCHEMA` in services/messages/queue.ts): its jobs carry the
+    // workshop they belong to in their payload, and pg-boss creates and upgrades its tables itself when a queue starts,
+    // as the app. So the app owns that schema (and only that one); a schema made earlier by the owner is opened to it.
+    await client.query(`CREATE SCHEMA IF NOT EXISTS pgboss AUTHORIZATION ${APP_ROLE}`);
+    await client.query(`GRANT ALL ON SCHEMA pgboss TO ${APP_ROLE}`);
+    await client.query(`GRANT ALL ON ALL TABLES IN SCHEMA pgboss TO ${APP_ROLE}`);
+    await client.query(`GRANT ALL ON ALL SEQUENCES IN SCHEMA pgboss TO ${APP_ROLE}`);
   } finally {
     await client.end();
   }

@@ -16,6 +16,7 @@
  */
 import PgBoss from 'pg-boss';
 import { QueryTypes, type Sequelize } from 'sequelize';
+import { allWorkshopIds, runAsWorkshop } from '../../db/workshop-context';
 
 export const SEND_QUEUE = 'customer-message';
 export const REMINDER_QUEUE = 'quote-reminder';
@@ -41,8 +42,6 @@ export interface MessageQueueOptions {
   databaseUrl: string;
   sequelize: Sequelize;
   handlers: QueueHandlers;
-  /** The workshop a message left waiting belongs to (read from the row's workshop once rows carry one). */
-  workshopOf: () => Promise<number>;
   /** How often an idle worker looks for due jobs (pg-boss allows 0.5 s at least). */
   pollSeconds?: number;
   /** Delivery attempts after the first before a job gives up (the message stays failed on the outbox page). */
@@ -90,10 +89,11 @@ export class MessageQueue {
       const pollingIntervalSeconds = this.opts.pollSeconds ?? 2;
       this.workers.push(
         await this.boss.work<SendJob>(SEND_QUEUE, { pollingIntervalSeconds, batchSize: 1 }, async ([job]) => {
-          if (job) await this.opts.handlers.send(job.data);
+          // Each job runs under the workshop it belongs to: row-level security shows it that workshop's rows only.
+          if (job) await runAsWorkshop(job.data.workshopId, () => this.opts.handlers.send(job.data));
         }),
         await this.boss.work<ReminderJob>(REMINDER_QUEUE, { pollingIntervalSeconds, batchSize: 1 }, async ([job]) => {
-          if (job) await this.opts.handlers.reminder(job.data);
+          if (job) await runAsWorkshop(job.data.workshopId, () => this.opts.handlers.reminder(job.data));
         }),
       );
       running.push(this);
@@ -143,16 +143,19 @@ export class MessageQueue {
    * each gets its job. A message that already has one is left alone by the singleton key.
    */
   private async catchUp(): Promise<void> {
-    const rows = await this.opts.sequelize.query<{ id: number; send_after: Date | null }>(
-      `SELECT o.id, o.send_after
-         FROM outbox o
-        WHERE o.kind IS NOT NULL AND o.status = 'queued'
-          AND NOT EXISTS (SELECT 1 FROM ${QUEUE_SCHEMA}.job j WHERE j.name = :queue AND j.singleton_key = 'outbox-' || o.id AND j.state < 'completed')
-        ORDER BY o.id LIMIT 500`,
-      { type: QueryTypes.SELECT, replacements: { queue: SEND_QUEUE } },
-    );
-    if (rows.length === 0) return;
-    const workshopId = await this.opts.workshopOf();
-    for (const r of rows) await this.put({ workshopId, outboxId: r.id }, r.send_after);
+    for (const workshopId of await allWorkshopIds(this.opts.sequelize)) {
+      if (this.stopped) return;
+      const rows = await runAsWorkshop(workshopId, () =>
+        this.opts.sequelize.query<{ id: number; send_after: Date | null }>(
+          `SELECT o.id, o.send_after
+             FROM outbox o
+            WHERE o.kind IS NOT NULL AND o.status = 'queued'
+              AND NOT EXISTS (SELECT 1 FROM ${QUEUE_SCHEMA}.job j WHERE j.name = :queue AND j.singleton_key = 'outbox-' || o.id AND j.state < 'completed')
+            ORDER BY o.id LIMIT 500`,
+          { type: QueryTypes.SELECT, replacements: { queue: SEND_QUEUE } },
+        ),
+      );
+      for (const r of rows) await this.put({ workshopId, outboxId: r.id }, r.send_after);
+    }
   }
 }

@@ -26,6 +26,7 @@ import { loadSettings } from '../catalog';
 import { composeMail } from '../mail-compose';
 import { DEFAULT_TEMPLATES } from './defaults';
 import { runningQueue } from './queue';
+import { currentWorkshopId as scopedWorkshopId } from '../../db/workshop-context';
 
 /**
  * Every message about the customer's estimate carries the cautions of the trade (the product's rule for estimate
@@ -37,9 +38,9 @@ export const MESSAGE_SAFETY_NOTE =
 /** What {link} reads when the customer's own link is not at hand (it is kept only as a hash). */
 export const LINK_FALLBACK = 'the link in the e-mail that brought your quote';
 
-/** The workshop a request or a row belongs to (one workshop a database until workshops are separated). */
+/** The workshop the current work runs under: the request's or the job's, else the one row-level security shows. */
 export async function currentWorkshopId(transaction?: Transaction): Promise<number> {
-  return (await loadSettings(transaction)).workshop.id;
+  return scopedWorkshopId() ?? (await loadSettings(transaction)).workshop.id;
 }
 
 interface TemplateRow {

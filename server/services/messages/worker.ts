@@ -3,13 +3,11 @@ import type { Sequelize } from 'sequelize';
 import type { Config } from '../../config';
 import { runReminder, sendQueuedMessage } from './events';
 import { MessageQueue } from './queue';
-import { currentWorkshopId } from './templates';
 
 export function createMessageQueue(deps: { config: Config; sequelize: Sequelize; databaseUrl: string; pollSeconds?: number }): MessageQueue {
   return new MessageQueue({
     databaseUrl: deps.databaseUrl,
     sequelize: deps.sequelize,
-    workshopOf: () => currentWorkshopId(),
     pollSeconds: deps.pollSeconds ?? deps.config.queuePollSeconds,
     handlers: {
       send: (job) => sendQueuedMessage(deps.config, job.outboxId),
