@@ -88,6 +88,8 @@ export const BookingSchema = z
     start: dateOrDateTime.optional(),
     /** A chosen start that overbooks the room or a polisher is refused unless confirmed. */
     confirm: z.boolean().default(false),
+    /** Lay the sessions a polisher is kept on with whoever is free (the planner overrides the kept hand). */
+    overrideKeep: z.boolean().optional(),
   })
   .strict()
   .superRefine((b, ctx) => {
