@@ -25,6 +25,7 @@ import { finishingRoutes } from './routes/finishing';
 import { healthRoutes } from './routes/health';
 import { pieceRoutes } from './routes/pieces';
 import { planningRoutes } from './routes/planning';
+import { jobEndRoutes } from './routes/job-end';
 import { publicQuoteRoutes } from './routes/public-quotes';
 import { quoteRoutes } from './routes/quotes';
 import { priceListRoutes } from './routes/price-list';
@@ -147,6 +148,7 @@ export function createApp({ config, sequelize, databaseUrl, serveClient = true }
   app.use(...stockRoutes(config, sequelize, routes));
   app.use(...reportRoutes(routes));
   app.use(...accountRoutes(config, sequelize, routes));
+  app.use(...jobEndRoutes(config, sequelize, routes));
   app.use('/api', apiNotFound);
 
   if (serveClient) {

@@ -43,9 +43,11 @@ export async function recordJobEvent(
   kind: JobEventKind,
   detail: Record<string, unknown> = {},
   actorId: number | null = null,
+  /** Given to listeners but never stored (a customer's signed link, say). */
+  transient: Record<string, unknown> = {},
 ): Promise<JobEventRecord> {
   const row = await JobEvent.create({ jobId, kind, detail, actorId }, { transaction });
-  const record: JobEventRecord = { id: row.id, jobId, kind, detail, actorId };
+  const record: JobEventRecord = { id: row.id, jobId, kind, detail: { ...detail, ...transient }, actorId };
   transaction.afterCommit(() => {
     for (const l of listeners) {
       // A listener's failure never undoes the change it heard of; the row stays for a retry from the queue.

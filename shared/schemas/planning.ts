@@ -220,6 +220,13 @@ export interface JobSummary {
   sessionsTotal: number;
   estimatedHours: number;
   actualHours: number;
+  /** Where the piece is, and when it is collected and goes home (shared/schemas/job-end.ts). */
+  custody: 'awaiting-collection' | 'in-workshop' | 'ready' | 'returned';
+  collectionDate: string | null;
+  returnDate: string | null;
+  /** The polisher kept on the job or its bodying, when one is. */
+  keptPolisherId: number | null;
+  keepScope: 'job' | 'bodying' | null;
 }
 
 export interface OverbookingDto {
