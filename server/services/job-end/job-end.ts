@@ -14,7 +14,7 @@ import {
   type ProgressPhotoDto,
   type PublicJobDto,
   type PhotoPhase,
-  JobLogisticsSchema,
+  type JobLogisticsSchema,
   type JobCustody,
 } from '@shared/schemas/job-end';
 import { today } from '@shared/time';
