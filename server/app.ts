@@ -18,7 +18,7 @@ import { initModels } from './models';
 import { installWorkshopSetting } from './db/workshop-context';
 import { accountRoutes } from './routes/accounts';
 import { messageRoutes } from './routes/messages';
-import { createMessageQueue, type MessageQueue } from './services/messages';
+import { createMessageQueue, tellCustomerOfJobEvents, type MessageQueue } from './services/messages';
 import { auditRoutes } from './routes/audit';
 import { authRoutes } from './routes/auth';
 import { calcRoutes } from './routes/calc';
@@ -28,6 +28,7 @@ import { finishingRoutes } from './routes/finishing';
 import { healthRoutes } from './routes/health';
 import { pieceRoutes } from './routes/pieces';
 import { planningRoutes } from './routes/planning';
+import { jobEndRoutes } from './routes/job-end';
 import { publicQuoteRoutes } from './routes/public-quotes';
 import { quoteRoutes } from './routes/quotes';
 import { priceListRoutes } from './routes/price-list';
@@ -157,6 +158,7 @@ export function createApp({ config, sequelize, databaseUrl, serveClient = true, 
   app.use(...reportRoutes(routes));
   app.use(...accountRoutes(config, sequelize, routes));
   app.use(messageRoutes(config, sequelize, routes));
+  app.use(...jobEndRoutes(config, sequelize, routes));
   app.use('/api', apiNotFound);
 
   if (serveClient) {
@@ -176,6 +178,8 @@ export function createApp({ config, sequelize, databaseUrl, serveClient = true, 
   // Customer messages are sent and scheduled through the durable queue in PostgreSQL (pg-boss, schema pgboss).
   const queue = withQueue ? createMessageQueue({ config, sequelize, databaseUrl }) : undefined;
   queue?.start().catch((err: unknown) => console.error(`[queue] could not start: ${err instanceof Error ? err.message : String(err)}`));
+  // The piece marked ready tells the customer, once.
+  const unhookJobMessages = withQueue ? tellCustomerOfJobEvents(sequelize, config) : undefined;
 
   return {
     app,
@@ -183,6 +187,7 @@ export function createApp({ config, sequelize, databaseUrl, serveClient = true, 
     caches,
     queue,
     close: async () => {
+      unhookJobMessages?.();
       await queue?.stop();
       await stopExpirySweep();
       await caches.close();

@@ -59,6 +59,8 @@ export const PERMISSIONS = {
   readAuditLog: ['owner'],
   /** Make, book, move and cancel jobs in the drying room, and manage the polishers. */
   planRoom: ['owner', 'workshop'],
+  /** Price work found during a job (a variation) and send it to the customer to approve. */
+  proposeVariations: ['owner', 'estimator', 'sales'],
   /** Mark sessions done with their actual hours, and add photos to a job. */
   recordProgress: ['owner', 'estimator', 'workshop'],
   /** Read the material forecast and the stock on hand. */

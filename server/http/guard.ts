@@ -46,18 +46,23 @@ export function guard(access: Access): RequestHandler {
   };
 }
 
-/** Public paths under this prefix carry a quote's signed token in `:token`. */
-const QUOTE_LINK_PREFIX = '/api/public/quotes/:token';
+/** Public paths under these prefixes carry a signed token in `:token`: a quote's, or a variation's. */
+const SIGNED_LINK_PREFIXES = [
+  { prefix: '/api/public/quotes/:token', lookup: 'quote_token' },
+  { prefix: '/api/public/variations/:token', lookup: 'variation_token' },
+] as const;
 
 /**
  * Resolves the workshop of a customer's signed link (through the owner's lookup by the token's hash); an unknown
  * token resolves to no workshop, so the handler finds nothing and answers as it would for any unknown link.
  */
-const workshopOfQuoteLink: RequestHandler = async (req, _res, next) => {
-  const token = typeof req.params.token === 'string' ? req.params.token : '';
-  req.workshopScope = token ? await lookupWorkshop(User.sequelize!, 'quote_token', hashToken(token)) : null;
-  next();
-};
+function workshopOfLink(lookup: (typeof SIGNED_LINK_PREFIXES)[number]['lookup']): RequestHandler {
+  return async (req, _res, next) => {
+    const token = typeof req.params.token === 'string' ? req.params.token : '';
+    req.workshopScope = token ? await lookupWorkshop(User.sequelize!, lookup, hashToken(token)) : null;
+    next();
+  };
+}
 
 type AddRoute = (path: string, access: Access, ...handlers: RequestHandler[]) => void;
 
@@ -82,7 +87,8 @@ export function secureRouter(prefix: string, table: RouteInfo[]): SecureRouter {
       const full = prefix + path;
       table.push({ method, path: full, access });
       // A customer's signed link names its workshop: its last handler runs under it (after any rate limiter).
-      const resolved = access === 'public' && full.startsWith(QUOTE_LINK_PREFIX) ? [...handlers.slice(0, -1), workshopOfQuoteLink, ...handlers.slice(-1)] : handlers;
+      const link = access === 'public' ? SIGNED_LINK_PREFIXES.find((l) => full.startsWith(l.prefix)) : undefined;
+      const resolved = link ? [...handlers.slice(0, -1), workshopOfLink(link.lookup), ...handlers.slice(-1)] : handlers;
       router[method](full, guard(access), ...resolved.map(scoped));
     };
   return { router, get: add('get'), post: add('post'), put: add('put'), patch: add('patch'), delete: add('delete') };

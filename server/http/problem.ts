@@ -1,5 +1,5 @@
 import type { ErrorRequestHandler, RequestHandler, Response } from 'express';
-import { StateMoveError } from '@shared/schemas/state-moves';
+import { CustodyMoveError, StateMoveError, VariationMoveError } from '@shared/schemas/state-moves';
 import { MulterError } from 'multer';
 import { ConnectionError, UniqueConstraintError } from 'sequelize';
 import { ZodError, type z } from 'zod';
@@ -135,6 +135,15 @@ const PAST: Record<StateMoveError['event'], string> = {
   superseded: 'withdrawn',
 };
 
+const CUSTODY_WORDS: Record<CustodyMoveError['from'], string> = {
+  'awaiting-collection': 'still awaiting collection',
+  'in-workshop': 'in the workshop',
+  ready: 'ready',
+  returned: 'already returned',
+};
+const CUSTODY_PAST: Record<CustodyMoveError['event'], string> = { arrive: 'marked arrived', ready: 'marked ready', return: 'marked returned', reopen: 'reopened' };
+const VARIATION_PAST: Record<VariationMoveError['event'], string> = { send: 'sent', approve: 'approved', decline: 'declined', withdraw: 'withdrawn' };
+
 export const errorHandler: ErrorRequestHandler = (err: unknown, _req, res, next) => {
   if (res.headersSent) {
     next(err);
@@ -143,6 +152,8 @@ export const errorHandler: ErrorRequestHandler = (err: unknown, _req, res, next)
   if (err instanceof HttpProblem) return sendProblem(res, err);
   if (err instanceof ZodError) return sendProblem(res, fromZod(err));
   if (err instanceof StateMoveError) return sendProblem(res, problems.conflict('state_move_refused', `This quote is ${err.from}: it cannot be ${PAST[err.event]} now.`));
+  if (err instanceof CustodyMoveError) return sendProblem(res, problems.conflict('state_move_refused', `The piece is ${CUSTODY_WORDS[err.from]}: it cannot be ${CUSTODY_PAST[err.event]} now.`));
+  if (err instanceof VariationMoveError) return sendProblem(res, problems.conflict('state_move_refused', `This variation is ${err.from}: it cannot be ${VARIATION_PAST[err.event]} now.`));
   if (err instanceof UniqueConstraintError) {
     const field = Object.keys(err.fields ?? {})[0];
     return sendProblem(res, new HttpProblem(409, 'already_exists', 'Already exists', `${field ?? 'a value'} is already in use`, field ? { field } : {}));

@@ -96,6 +96,10 @@ export class PiecePhoto extends Model<InferAttributes<PiecePhoto>, InferCreation
   declare caption: CreationOptional<string>;
   declare createdBy: number | null;
   declare createdAt: CreationOptional<Date>;
+  /** A progress photo: the job it was taken for, before/during/after, and whether the customer's page shows it. */
+  declare jobId: CreationOptional<number | null>;
+  declare phase: CreationOptional<'before' | 'during' | 'after' | null>;
+  declare shared: CreationOptional<boolean>;
 
   static initModel(sequelize: Sequelize): void {
     PiecePhoto.init(
@@ -111,6 +115,9 @@ export class PiecePhoto extends Model<InferAttributes<PiecePhoto>, InferCreation
         caption: { type: DataTypes.STRING(300), allowNull: false, defaultValue: '' },
         createdBy: { type: DataTypes.INTEGER, allowNull: true },
         createdAt: DataTypes.DATE,
+        jobId: { type: DataTypes.INTEGER, allowNull: true },
+        phase: { type: DataTypes.STRING(8), allowNull: true },
+        shared: { type: DataTypes.BOOLEAN, allowNull: false, defaultValue: false },
       },
       { sequelize, tableName: 'piece_photos', underscored: true, updatedAt: false },
     );

@@ -9,6 +9,7 @@ import {
 } from 'sequelize';
 import type { WhyNot } from '@shared/calc/planning';
 import type { JobStageKind, JobState, OverbookingDto } from '@shared/schemas/planning';
+import type { JobCustody, KeepScope } from '@shared/schemas/job-end';
 
 const stamps = { createdAt: DataTypes.DATE, updatedAt: DataTypes.DATE };
 
@@ -73,6 +74,18 @@ export class Job extends Model<InferAttributes<Job>, InferCreationAttributes<Job
   declare finishedAt: Date | null;
   declare cancelledAt: Date | null;
   declare createdBy: number | null;
+  /** Where the piece is: awaiting collection, in the workshop, ready, returned (moves by JOB_CUSTODY_MOVES). */
+  declare custody: CreationOptional<JobCustody>;
+  declare collectionDate: CreationOptional<string | null>;
+  declare collectionArrangement: CreationOptional<string>;
+  declare returnDate: CreationOptional<string | null>;
+  declare returnArrangement: CreationOptional<string>;
+  declare collectedOn: CreationOptional<string | null>;
+  declare completedOn: CreationOptional<string | null>;
+  declare returnedOn: CreationOptional<string | null>;
+  /** The hand kept on the job (every session) or on its bodying (first bodying to spiriting off). */
+  declare keptPolisherId: CreationOptional<number | null>;
+  declare keepScope: CreationOptional<KeepScope | null>;
   declare createdAt: CreationOptional<Date>;
   declare updatedAt: CreationOptional<Date>;
   declare sessions?: NonAttribute<JobSession[]>;
@@ -104,6 +117,16 @@ export class Job extends Model<InferAttributes<Job>, InferCreationAttributes<Job
         finishedAt: { type: DataTypes.DATE, allowNull: true },
         cancelledAt: { type: DataTypes.DATE, allowNull: true },
         createdBy: { type: DataTypes.INTEGER, allowNull: true },
+        custody: { type: DataTypes.STRING(24), allowNull: false, defaultValue: 'awaiting-collection' },
+        collectionDate: { type: DataTypes.DATEONLY, allowNull: true },
+        collectionArrangement: { type: DataTypes.STRING(300), allowNull: false, defaultValue: '' },
+        returnDate: { type: DataTypes.DATEONLY, allowNull: true },
+        returnArrangement: { type: DataTypes.STRING(300), allowNull: false, defaultValue: '' },
+        collectedOn: { type: DataTypes.DATEONLY, allowNull: true },
+        completedOn: { type: DataTypes.DATEONLY, allowNull: true },
+        returnedOn: { type: DataTypes.DATEONLY, allowNull: true },
+        keptPolisherId: { type: DataTypes.INTEGER, allowNull: true },
+        keepScope: { type: DataTypes.STRING(10), allowNull: true },
         ...stamps,
       },
       { sequelize, tableName: 'jobs', underscored: true },

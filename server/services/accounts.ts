@@ -40,7 +40,7 @@ import { localToday } from '@shared/schemas/dates';
 import { mirrorEstimate, moveQuote } from '@shared/schemas/state-moves';
 import type { Config } from '../config';
 import { HttpProblem, problems } from '../http/problem';
-import { AccountDocument, AccountEntry, AccountSetting, Customer, Estimate, Job, OutboxMessage, Payment, Quote, QuoteLine, User, Workshop } from '../models';
+import { AccountDocument, AccountEntry, AccountSetting, Customer, Estimate, Job, JobVariation, OutboxMessage, Payment, Quote, QuoteLine, User, Workshop } from '../models';
 import type { DocumentContent } from '../models/accounts';
 import { renderAccountPdf } from '../pdf/account-pdf';
 import { formatDate, formatMoney } from '../pdf/pdf-format';
@@ -83,15 +83,17 @@ export function balanceOf(f: { agreedTotal: string; credited: string; paid: stri
 /** The account's figures, read in the caller's transaction. */
 export async function figuresOf(quote: Quote, transaction?: Transaction): Promise<AccountFigures> {
   const sequelize = Quote.sequelize!;
-  const [row] = await sequelize.query<{ credited: string | null; paid: string | null; refunded: string | null }>(
+  const [row] = await sequelize.query<{ credited: string | null; paid: string | null; refunded: string | null; variations: string | null }>(
     `SELECT (SELECT sum(total) FROM account_documents WHERE quote_id = :id AND kind = 'credit-note') AS credited,
+            (SELECT sum(price) FROM job_variations WHERE quote_id = :id AND state = 'approved') AS variations,
             (SELECT sum(amount) FROM account_entries WHERE quote_id = :id AND kind = 'payment') AS paid,
             (SELECT sum(amount) FROM account_entries WHERE quote_id = :id AND kind = 'refund') AS refunded`,
     { replacements: { id: quote.id }, type: QueryTypes.SELECT, transaction },
   );
   const f = {
     currency: quote.currency,
-    agreedTotal: fixed(quote.acceptedTotal ?? '0'),
+    // What was accepted, plus the variations the customer approved since (server/services/job-end/variations.ts).
+    agreedTotal: money(quote.acceptedTotal ?? '0').plus(money(row?.variations ?? '0')).toFixed(2),
     credited: fixed(row?.credited ?? '0'),
     paid: fixed(row?.paid ?? '0'),
     refunded: fixed(row?.refunded ?? '0'),
@@ -182,6 +184,8 @@ interface IssueSpec {
   taxPct: number;
   taxLabel: string;
   balanceDue: string;
+  /** The agreed total with approved variations (figuresOf). */
+  agreedTotal: string;
   lines: DocumentContent['lines'];
   payments: DocumentContent['payments'];
   credits: DocumentContent['credits'];
@@ -220,7 +224,7 @@ async function issue(spec: IssueSpec, transaction: Transaction): Promise<{ doc: 
     payments: spec.payments,
     credits: spec.credits,
     balanceDue: spec.balanceDue,
-    agreedTotal: fixed(quote.acceptedTotal ?? '0'),
+    agreedTotal: spec.agreedTotal,
     receivedToDate: spec.receivedToDate,
     reason: spec.reason ?? null,
     againstNumber: spec.invoice?.number ?? null,
@@ -291,6 +295,11 @@ async function issue(spec: IssueSpec, transaction: Transaction): Promise<{ doc: 
   return { doc, outboxId: outbox.id };
 }
 
+/** The variations the customer approved on the agreement's jobs, in the order they were approved. */
+async function approvedVariations(quoteId: number, transaction: Transaction): Promise<JobVariation[]> {
+  return JobVariation.findAll({ where: { quoteId, state: 'approved' }, order: [['answeredAt', 'ASC'], ['id', 'ASC']], transaction });
+}
+
 /** The workshop's tax rate and label, from its settings now. */
 async function taxOf(transaction: Transaction): Promise<{ pct: number; label: string }> {
   const { settings } = await loadSettings(transaction);
@@ -312,6 +321,7 @@ async function receiptFor(quote: Quote, entry: AccountEntry, actorId: number | n
       taxPct: tax.pct,
       taxLabel: tax.label,
       balanceDue: f.balance,
+      agreedTotal: f.agreedTotal,
       lines: [{ description: entryLabel(entry), note: `Received on ${formatDate(entry.receivedOn)}`, amount: fixed(entry.amount) }],
       payments: [{ label: entryLabel(entry), date: entry.receivedOn, amount: fixed(entry.amount) }],
       credits: [],
@@ -558,6 +568,7 @@ export async function issueInvoice(sequelize: Sequelize, config: Config, actorId
       ? record.choices.map((c) => ({ description: c.piece, note: c.option, amount: fixed(c.total) }))
       : [{ description: record.piece, note: `${record.systemName}, as quoted in ${record.quoteNumber}`, amount: fixed(record.quotedTotal) }];
     for (const x of record.extrasTaken) lines.push({ description: `Extra: ${x.label}`, amount: fixed(x.price) });
+    for (const v of await approvedVariations(quote.id, transaction)) lines.push({ description: `Variation: ${v.title}`, note: v.description || undefined, amount: fixed(v.price) });
     // The lines are the agreed total; any difference (an agreement recorded otherwise) shows as its own line.
     const diff = money(f.agreedTotal).minus(sumMoney(lines.map((l) => l.amount)));
     if (!diff.isZero()) lines.push({ description: 'Agreed adjustment', amount: diff.toFixed(2) });
@@ -571,6 +582,7 @@ export async function issueInvoice(sequelize: Sequelize, config: Config, actorId
         taxPct: tax.pct,
         taxLabel: tax.label,
         balanceDue: f.balance,
+        agreedTotal: f.agreedTotal,
         lines,
         payments: entries.map((e) => ({ label: entryLabel(e), date: e.receivedOn, amount: e.kind === 'refund' ? money(e.amount).negated().toFixed(2) : fixed(e.amount) })),
         credits: [],
@@ -652,6 +664,7 @@ export async function issueCreditNote(sequelize: Sequelize, config: Config, acto
         taxPct: Number(invoice.taxPct),
         taxLabel: invoice.taxLabel,
         balanceDue: balanceAfter,
+        agreedTotal: f.agreedTotal,
         lines: [{ description: `Credit against invoice ${invoice.number}`, note: input.reason, amount: amount.toFixed(2) }],
         payments: refund ? [{ label: `Refunded by ${refund.method}`, date: localToday(), amount: money(refund.amount).negated().toFixed(2) }] : [],
         credits: [],
@@ -775,6 +788,7 @@ export async function listOwed(q: OwedQuery): Promise<OwedPage> {
       SELECT d.quote_id, d.number AS invoice_number, d.issued_at, d.total AS invoiced, d.currency, d.customer_id,
              q.number AS quote_number, c.name AS customer_name,
              q.accepted_total
+               + COALESCE((SELECT sum(v.price) FROM job_variations v WHERE v.quote_id = d.quote_id AND v.state = 'approved'), 0)
                - COALESCE((SELECT sum(x.total) FROM account_documents x WHERE x.quote_id = d.quote_id AND x.kind = 'credit-note'), 0)
                - COALESCE((SELECT sum(e.amount) FROM account_entries e WHERE e.quote_id = d.quote_id AND e.kind = 'payment'), 0)
                + COALESCE((SELECT sum(e.amount) FROM account_entries e WHERE e.quote_id = d.quote_id AND e.kind = 'refund'), 0) AS balance,

@@ -132,7 +132,15 @@ async function decode(header: Header): Promise<Checked> {
 }
 
 /** Stores several photos at once: all are checked first; files are written, then rows in one transaction. */
-export async function addPhotos(sequelize: Sequelize, uploadsDir: string, actorId: number, pieceId: number, files: UploadedFile[], captions: string[]): Promise<PhotoDto[]> {
+export async function addPhotos(
+  sequelize: Sequelize,
+  uploadsDir: string,
+  actorId: number,
+  pieceId: number,
+  files: UploadedFile[],
+  captions: string[],
+  progress?: { jobId: number; phase: 'before' | 'during' | 'after' },
+): Promise<PhotoDto[]> {
   if (!(await Piece.findByPk(pieceId))) throw problems.notFound('Piece');
   if (files.length === 0) throw problems.badRequest('no_files', 'photos: choose at least one image', 'photos');
   if (files.length > PHOTO_LIMITS.maxFiles) throw problems.badRequest('too_many_files', `photos: at most ${PHOTO_LIMITS.maxFiles} at once`, 'photos');
@@ -175,6 +183,7 @@ export async function addPhotos(sequelize: Sequelize, uploadsDir: string, actorI
               height: s.c.height,
               caption: (captions[i] ?? '').trim().slice(0, 300),
               createdBy: actorId,
+              ...(progress ? { jobId: progress.jobId, phase: progress.phase } : {}),
             },
             { transaction },
           ),

@@ -3,6 +3,7 @@
  * already on the board in the engine's shape (shared/calc/planning). Also the board lock that serialises every
  * write that takes or frees places, so that two bookings never both take the last bay.
  */
+import { BODYING_KINDS } from '@shared/schemas/job-end';
 import { Op, type Transaction, type WhereOptions } from 'sequelize';
 import { fromMinutes, toMinutes } from '@shared/calc';
 import type { BookedJob, JobPlan, NewJob, Overbooking, PlanningContext, RoomCapacity } from '@shared/calc/planning';
@@ -77,6 +78,8 @@ export function toBooked(job: Job, sessions: readonly JobSession[]): BookedJob {
       end: toMinutes(s.plannedEnd!),
       restUntil: toMinutes(s.restUntil!),
       segments: s.segments.map((g) => ({ start: toMinutes(g.start), end: toMinutes(g.end) })),
+      // A session the kept hand holds stays theirs when the rest of the job is laid again (a planner's override stands).
+      ...(keptPolisherOf(job, s) !== null && s.polisherId === keptPolisherOf(job, s) ? { kept: true } : {}),
     })),
     room: { start: toMinutes(job.roomStart!), end: toMinutes(job.roomEnd!) },
     bays: job.bays,
@@ -85,10 +88,24 @@ export function toBooked(job: Job, sessions: readonly JobSession[]): BookedJob {
 }
 
 /** A job still to lay, from its sessions. */
-export function toNewJob(job: Job, sessions: readonly JobSession[]): NewJob {
+/**
+ * The polisher kept on a session: the job's kept hand on every session (scope "job"), or on the bodying sessions
+ * (first bodying to spiriting off, scope "bodying"); null when no one is kept on it.
+ */
+export function keptPolisherOf(job: Pick<Job, 'keptPolisherId' | 'keepScope'>, s: Pick<JobSession, 'stageKind'>): number | null {
+  if (job.keptPolisherId === null || job.keptPolisherId === undefined || !job.keepScope) return null;
+  if (job.keepScope === 'job') return job.keptPolisherId;
+  return (BODYING_KINDS as readonly string[]).includes(s.stageKind) ? job.keptPolisherId : null;
+}
+
+/** A job to lay; `overrideKeep` lets the engine choose any polisher for the kept sessions (the planner's override). */
+export function toNewJob(job: Job, sessions: readonly JobSession[], opts: { overrideKeep?: boolean } = {}): NewJob {
   return {
     id: String(job.id),
-    sessions: sessions.map((s) => ({ label: s.stageName, handsOnMin: s.handsOnMin, restMin: s.restMin })),
+    sessions: sessions.map((s) => {
+      const kept = opts.overrideKeep ? null : keptPolisherOf(job, s);
+      return { label: s.stageName, handsOnMin: s.handsOnMin, restMin: s.restMin, ...(kept === null ? {} : { keep: String(kept) }) };
+    }),
     bays: job.bays,
     areaM2: Number(job.areaM2),
   };

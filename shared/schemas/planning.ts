@@ -88,6 +88,8 @@ export const BookingSchema = z
     start: dateOrDateTime.optional(),
     /** A chosen start that overbooks the room or a polisher is refused unless confirmed. */
     confirm: z.boolean().default(false),
+    /** Lay the sessions a polisher is kept on with whoever is free (the planner overrides the kept hand). */
+    overrideKeep: z.boolean().optional(),
   })
   .strict()
   .superRefine((b, ctx) => {
@@ -218,6 +220,13 @@ export interface JobSummary {
   sessionsTotal: number;
   estimatedHours: number;
   actualHours: number;
+  /** Where the piece is, and when it is collected and goes home (shared/schemas/job-end.ts). */
+  custody: 'awaiting-collection' | 'in-workshop' | 'ready' | 'returned';
+  collectionDate: string | null;
+  returnDate: string | null;
+  /** The polisher kept on the job or its bodying, when one is. */
+  keptPolisherId: number | null;
+  keepScope: 'job' | 'bodying' | null;
 }
 
 export interface OverbookingDto {

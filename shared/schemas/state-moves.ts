@@ -95,3 +95,71 @@ export function mirrorEstimate(
 export function quoteStateOn(state: QuoteState, validUntil: string, today: string): QuoteState {
   return OPEN_QUOTE_STATES.includes(state) && validUntil < today ? 'expired' : state;
 }
+
+// ------------------------------------------------------------------------------------------ a job's piece
+
+/** Where the customer's piece is, from the deposit to its return. */
+export const JOB_CUSTODY = ['awaiting-collection', 'in-workshop', 'ready', 'returned'] as const;
+export type JobCustody = (typeof JOB_CUSTODY)[number];
+
+/** What can happen to the piece: it arrives (collected or brought in), the work is done, it goes home, or it is reopened. */
+export const CUSTODY_EVENTS = ['arrive', 'ready', 'return', 'reopen'] as const;
+export type CustodyEvent = (typeof CUSTODY_EVENTS)[number];
+
+/** For each event, the states it may happen in and the state it leads to. */
+export const CUSTODY_MOVES: Record<CustodyEvent, { from: readonly JobCustody[]; to: JobCustody }> = {
+  arrive: { from: ['awaiting-collection'], to: 'in-workshop' },
+  ready: { from: ['in-workshop'], to: 'ready' },
+  return: { from: ['ready'], to: 'returned' },
+  // Something more to do once it was called ready (a variation approved late, a fault found at the check).
+  reopen: { from: ['ready'], to: 'in-workshop' },
+};
+
+/** A move of the piece the table does not hold (answered 409 `state_move_refused`). */
+export class CustodyMoveError extends Error {
+  constructor(
+    readonly event: CustodyEvent,
+    readonly from: JobCustody,
+  ) {
+    super(`a piece that is ${from} cannot be moved by "${event}"`);
+    this.name = 'CustodyMoveError';
+  }
+}
+
+export function canMoveCustody(from: JobCustody, event: CustodyEvent): boolean {
+  return CUSTODY_MOVES[event].from.includes(from);
+}
+
+/** The piece's next state; throws {@link CustodyMoveError} for a move the table does not hold. */
+export function moveCustody(from: JobCustody, event: CustodyEvent): JobCustody {
+  if (!canMoveCustody(from, event)) throw new CustodyMoveError(event, from);
+  return CUSTODY_MOVES[event].to;
+}
+
+/** The answers a variation sent to the customer can get, and staff's own moves. */
+export const VARIATION_STATES = ['draft', 'sent', 'approved', 'declined', 'withdrawn'] as const;
+export type VariationState = (typeof VARIATION_STATES)[number];
+export const VARIATION_EVENTS = ['send', 'approve', 'decline', 'withdraw'] as const;
+export type VariationEvent = (typeof VARIATION_EVENTS)[number];
+export const VARIATION_MOVES: Record<VariationEvent, { from: readonly VariationState[]; to: VariationState }> = {
+  // Sending again gives a fresh link and keeps it sent.
+  send: { from: ['draft', 'sent'], to: 'sent' },
+  approve: { from: ['sent'], to: 'approved' },
+  decline: { from: ['sent'], to: 'declined' },
+  withdraw: { from: ['draft', 'sent'], to: 'withdrawn' },
+};
+
+export class VariationMoveError extends Error {
+  constructor(
+    readonly event: VariationEvent,
+    readonly from: VariationState,
+  ) {
+    super(`a ${from} variation cannot be moved by "${event}"`);
+    this.name = 'VariationMoveError';
+  }
+}
+
+export function moveVariation(from: VariationState, event: VariationEvent): VariationState {
+  if (!VARIATION_MOVES[event].from.includes(from)) throw new VariationMoveError(event, from);
+  return VARIATION_MOVES[event].to;
+}

@@ -30,6 +30,7 @@ export function createRouter() {
     },
     // The customer's quote page: reached from the e-mailed link, no sign-in, outside the staff layout.
     { path: paths.publicQuote, errorElement: <RouteError />, hydrateFallbackElement: <Spinner label="Opening your quote…" />, lazy: () => import('@/features/public-quote/routes/public-quote') },
+    { path: paths.publicVariation, errorElement: <RouteError />, hydrateFallbackElement: <Spinner label="Opening…" />, lazy: () => import('@/features/public-quote/routes/public-variation') },
     {
       path: '/',
       element: <AppLayout />,

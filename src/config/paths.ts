@@ -39,6 +39,8 @@ export const paths = {
   account: '/accounts/quotes/:quoteId',
   /** The customer's page, opened from the signed link in the e-mail (no sign-in). */
   publicQuote: '/q/:token',
+  /** Extra work found during a job, for the customer to approve (its own signed link). */
+  publicVariation: '/v/:token',
 } as const;
 
 /** Addresses of one record, built from the patterns above. */

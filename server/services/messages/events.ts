@@ -8,8 +8,9 @@ import { formatDate, formatMoney } from '@shared/format';
 import { addDays, dayOf, today } from '@shared/time';
 import { QueryTypes, type Sequelize, type Transaction } from 'sequelize';
 import type { Config } from '../../config';
-import { problems } from '../../http/problem';
+import { HttpProblem, problems } from '../../http/problem';
 import { Customer, Estimate, Job, OutboxMessage, Quote } from '../../models';
+import { onJobEvent } from '../job-events';
 import { deliver, deliverQueued } from '../mail';
 import { runningQueue, type ReminderJob } from './queue';
 import { currentWorkshopId, getMessageSettings, morningOf, queueCustomerMessage } from './templates';
@@ -96,7 +97,7 @@ export async function messageOnBooking(
  * "Tell the customer it is ready": the ready message for a job, once (409 when it was already sent or is on its way;
  * a failed one is retried from the outbox page). Refused for a job cancelled or never booked.
  */
-export async function sendReadyMessage(sequelize: Sequelize, config: Config, actorId: number, jobId: number): Promise<{ outboxId: number; status: string }> {
+export async function sendReadyMessage(sequelize: Sequelize, config: Config, actorId: number | null, jobId: number): Promise<{ outboxId: number; status: string }> {
   const outboxId = await sequelize.transaction(async (transaction) => {
     const job = await Job.findByPk(jobId, { transaction, lock: transaction.LOCK.UPDATE });
     if (!job) throw problems.notFound('Job');
@@ -181,4 +182,21 @@ export async function runReminder(sequelize: Sequelize, job: ReminderJob): Promi
 /** The queue's send handler: delivers the outbox message (throws on a failed delivery, so the queue retries). */
 export async function sendQueuedMessage(config: Config, outboxId: number): Promise<void> {
   await deliverQueued(config, outboxId);
+}
+
+/**
+ * Messages that follow the job's own events (services/job-events.ts): when staff mark the piece ready, the customer
+ * hears of it once (a piece reopened and ready again is not announced twice). Runs after the change has committed,
+ * under the workshop of the request that made it. Returns the function that unhooks it (the app's close()).
+ */
+export function tellCustomerOfJobEvents(sequelize: Sequelize, config: Config): () => void {
+  return onJobEvent(async (event) => {
+    if (event.kind !== 'ready') return;
+    try {
+      await sendReadyMessage(sequelize, config, event.actorId, event.jobId);
+    } catch (err) {
+      if (err instanceof HttpProblem && (err.code === 'already_told' || err.code === 'no_recipient')) return;
+      throw err;
+    }
+  });
 }

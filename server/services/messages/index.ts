@@ -1,6 +1,6 @@
 /** Messages to the customer: templates and settings, the events that make messages, the queue, the history. */
 export { listCustomerMessages } from './history';
-export { messageOnAcceptance, messageOnBooking, piecesOf, runReminder, scheduleQuoteReminders, sendReadyMessage } from './events';
+export { messageOnAcceptance, messageOnBooking, piecesOf, runReminder, scheduleQuoteReminders, sendReadyMessage, tellCustomerOfJobEvents } from './events';
 export { MessageQueue, runningQueue, QUEUE_SCHEMA, REMINDER_QUEUE, SEND_QUEUE } from './queue';
 export {
   currentWorkshopId,

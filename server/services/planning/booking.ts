@@ -41,7 +41,7 @@ function bookable(job: Job): void {
 
 /** Lays the job with the engine against the other jobs on the board. Nothing is written. */
 function lay(job: Job, sessions: readonly JobSession[], input: BookingData, planning: Planning, booked: ReturnType<typeof toBooked>[], opts: { now: string; allowPast: boolean }): Laid {
-  const newJob = toNewJob(job, sessions);
+  const newJob = toNewJob(job, sessions, { overrideKeep: input.overrideKeep });
   const nowMin = toMinutes(opts.now);
   try {
     if (input.mode === 'earliest') {
@@ -158,7 +158,7 @@ export async function bookJob(sequelize: Sequelize, actorId: number, id: number,
         entityType: 'job',
         entityId: id,
         before,
-        after: { state: 'booked', roomStart: job.roomStart, roomEnd: job.roomEnd, mode: input.mode, forced: overbooked, overbooked: overbooked ? describeOverbooking(laid.overbooking, unit) : [] },
+        after: { state: 'booked', roomStart: job.roomStart, roomEnd: job.roomEnd, mode: input.mode, forced: overbooked, keptOverridden: Boolean(input.overrideKeep) && job.keptPolisherId !== null, overbooked: overbooked ? describeOverbooking(laid.overbooking, unit) : [] },
       },
       transaction,
     );

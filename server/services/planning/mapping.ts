@@ -51,6 +51,11 @@ export function summaryDto(job: Job, sessions: readonly JobSession[], rel: Relat
     sessionsTotal: sessions.length,
     estimatedHours: round(sessions.reduce((t, s) => t + Number(s.estimatedHours), 0)),
     actualHours: round(done.reduce((t, s) => t + Number(s.actualHours ?? 0), 0)),
+    custody: job.custody ?? 'awaiting-collection',
+    collectionDate: job.collectionDate ?? null,
+    returnDate: job.returnDate ?? null,
+    keptPolisherId: job.keptPolisherId ?? null,
+    keepScope: job.keepScope ?? null,
   };
 }
 

@@ -104,10 +104,13 @@ export function bookAt(job: NewJob, startMinute: number, booked: readonly Booked
       if (e instanceof CalendarError) return { ok: false, problem: { code: 'beyond-horizon', text: e.message } };
       throw e;
     }
-    let best: PolisherRow = last ?? (prep.polishers[0] as PolisherRow);
+    // A kept polisher does the session whatever it overbooks; otherwise the one it overbooks least.
+    const kept = w.keep === undefined ? undefined : prep.byId.get(w.keep);
+    if (w.keep !== undefined && !kept) return { ok: false, problem: { code: 'bad-input', text: `Session ${i + 1} is kept for a polisher who is not on the list of polishers` } };
+    let best: PolisherRow = kept ?? last ?? (prep.polishers[0] as PolisherRow);
     let bestCost = cost(prep, own, best, segments);
     for (const p of prep.polishers) {
-      if (bestCost === 0) break;
+      if (bestCost === 0 || kept) break;
       const c = cost(prep, own, p, segments);
       if (c < bestCost) {
         best = p;
@@ -160,6 +163,7 @@ export function shiftRemaining(
     ...(s.label === undefined ? {} : { label: s.label }),
     duration: Math.max(1, Math.round(s.handsOnMin)),
     rest: Math.max(0, Math.round(s.restMin)),
+    ...(s.kept ? { keep: s.polisherId } : {}),
   }));
   let sessions = done;
   if (rest.length > 0) {

@@ -22,6 +22,8 @@ export interface Work {
   label?: string;
   duration: number;
   rest: number;
+  /** The polisher kept on this session: only they may do it. */
+  keep?: string;
 }
 
 /** Whole-minute work of a job's sessions. */
@@ -30,6 +32,7 @@ export function normalise(sessions: readonly JobSession[]): Work[] {
     ...(s.label === undefined ? {} : { label: s.label }),
     duration: Math.max(1, Math.round(s.handsOnMin)),
     rest: Math.max(0, Math.round(s.restMin)),
+    ...(s.keep === undefined ? {} : { keep: s.keep }),
   }));
 }
 
@@ -58,8 +61,9 @@ export function earliestGap(busy: readonly number[] | undefined, lo: number, hi:
   return cur + d <= hi ? cur : null;
 }
 
-/** Polishers in the order they are tried: the preferred one first. */
-function order(polishers: readonly PolisherRow[], prefer: number): PolisherRow[] {
+/** Polishers in the order they are tried: the kept one alone, else the preferred one first. */
+function order(polishers: readonly PolisherRow[], prefer: number, keep?: PolisherRow): PolisherRow[] {
+  if (keep) return [keep];
   if (prefer < 0) return polishers as PolisherRow[];
   const first = polishers[prefer] as PolisherRow;
   return [first, ...polishers.filter((p) => p.index !== prefer)];
@@ -78,9 +82,9 @@ export interface Placement {
 }
 
 /** Places a session that fits in one window: first (day, time, polisher) with room for all of it. */
-function placeWhole(prep: Prepared, own: ReadonlyMap<number, number>, earliest: number, d: number, prefer: number): Placement | null {
+function placeWhole(prep: Prepared, own: ReadonlyMap<number, number>, earliest: number, d: number, prefer: number, keep?: PolisherRow): Placement | null {
   const n = prep.polishers.length;
-  const tried = order(prep.polishers, prefer);
+  const tried = order(prep.polishers, prefer, keep);
   const firstDay = dayOf(earliest);
   for (let day = firstDay; day < firstDay + prep.horizonDays; day++) {
     const w = openingWindow(prep.cal, day);
@@ -127,9 +131,9 @@ function tryParts(prep: Prepared, own: ReadonlyMap<number, number>, p: PolisherR
 }
 
 /** Places a session longer than any window: day-sized parts on consecutive open days, one polisher. */
-function placeSplit(prep: Prepared, own: ReadonlyMap<number, number>, earliest: number, d: number, prefer: number): Placement | null {
+function placeSplit(prep: Prepared, own: ReadonlyMap<number, number>, earliest: number, d: number, prefer: number, keep?: PolisherRow): Placement | null {
   const n = prep.polishers.length;
-  const tried = order(prep.polishers, prefer);
+  const tried = order(prep.polishers, prefer, keep);
   const firstDay = dayOf(earliest);
   for (let day = firstDay; day < firstDay + prep.horizonDays; day++) {
     const w = openingWindow(prep.cal, day);
@@ -164,6 +168,15 @@ export type Laid = { ok: true; sessions: PlannedSession[] } | { ok: false; probl
 export function workProblem(prep: Prepared, work: readonly Work[]): PlanProblem | null {
   const most = Math.max(0, ...prep.polishers.map((p) => Math.min(p.minutesPerDay, prep.cal.longestWindow)));
   for (const [i, w] of work.entries()) {
+    if (w.keep !== undefined) {
+      const kept = prep.byId.get(w.keep);
+      if (!kept) return { code: 'bad-input', text: `Session ${i + 1} is kept for a polisher who is not on the list of polishers` };
+      const theirs = Math.min(kept.minutesPerDay, prep.cal.longestWindow);
+      if (w.duration <= prep.cal.longestWindow && w.duration > theirs) {
+        return { code: 'session-too-long', text: `Session ${i + 1} needs ${w.duration} minutes in one day but the polisher kept on it works ${theirs} minutes a day` };
+      }
+      continue;
+    }
     if (w.duration <= prep.cal.longestWindow && w.duration > most) {
       return {
         code: 'session-too-long',
@@ -187,8 +200,9 @@ export function layWork(prep: Prepared, work: readonly Work[], from: number, pre
   let earliest = from;
   let last = prefer;
   for (const [i, w] of work.entries()) {
+    const keep = w.keep === undefined ? undefined : prep.byId.get(w.keep);
     const placed =
-      w.duration > prep.cal.longestWindow ? placeSplit(prep, own, earliest, w.duration, last) : placeWhole(prep, own, earliest, w.duration, last);
+      w.duration > prep.cal.longestWindow ? placeSplit(prep, own, earliest, w.duration, last, keep) : placeWhole(prep, own, earliest, w.duration, last, keep);
     if (!placed) {
       return {
         ok: false,
@@ -220,6 +234,7 @@ export function session(index: number, w: Work, polisherId: string, segments: Pl
     end,
     restUntil: end + w.rest,
     segments,
+    ...(w.keep === undefined ? {} : { kept: true }),
   };
 }
 

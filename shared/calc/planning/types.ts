@@ -47,6 +47,8 @@ export const JobSessionSchema = z.object({
   label: z.string().max(200).optional(),
   handsOnMin: z.number().min(0),
   restMin: z.number().min(0),
+  /** The polisher kept on this session (the same hand through the bodying, or on the whole job): no one else does it. */
+  keep: id.optional(),
 });
 export type JobSession = z.infer<typeof JobSessionSchema>;
 
@@ -78,6 +80,8 @@ export const PlannedSessionSchema = z.object({
   /** End of the rest that follows: the next session starts no earlier. */
   restUntil: minute,
   segments: z.array(SegmentSchema).min(1),
+  /** The polisher was kept on this session: laying it again keeps them. */
+  kept: z.boolean().optional(),
 });
 export type PlannedSession = z.infer<typeof PlannedSessionSchema>;
 

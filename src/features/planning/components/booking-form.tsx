@@ -17,7 +17,8 @@ import { jobPath } from './timeline';
 
 type Mode = 'earliest' | 'date';
 
-export function BookingForm({ ready, jobId, today, unit, onBooked }: { ready?: ReadyToBook; jobId?: number; today: string; unit: string; onBooked?: (job: JobDetail) => void }) {
+export function BookingForm({ ready, jobId, today, unit, onBooked, kept }: { ready?: ReadyToBook; jobId?: number; today: string; unit: string; onBooked?: (job: JobDetail) => void; kept?: string | null }) {
+  const [overrideKeep, setOverrideKeep] = useState(false);
   const options = [
     ...(ready?.jobs ?? []).map((j) => ({ value: `j:${j.id}`, label: `${j.number} · ${j.title} (${j.customer.name})` })),
     ...(ready?.quotes ?? []).map((q) => ({ value: `q:${q.quoteId}`, label: `Quote ${q.quoteNumber} · ${q.title} (${q.customer.name}), accepted` })),
@@ -42,7 +43,7 @@ export function BookingForm({ ready, jobId, today, unit, onBooked }: { ready?: R
     booking.reset();
   };
 
-  const body = () => (mode === 'earliest' ? { mode, ...(notBefore ? { notBefore } : {}) } : { mode, start });
+  const body = () => ({ ...(mode === 'earliest' ? { mode, ...(notBefore ? { notBefore } : {}) } : { mode, start }), ...(kept && overrideKeep ? { overrideKeep: true } : {}) });
 
   const showConsequences = async () => {
     reset();
@@ -144,6 +145,22 @@ export function BookingForm({ ready, jobId, today, unit, onBooked }: { ready?: R
             error={fieldError('start')}
             hint="The first session goes at the first opening that day, whatever else is booked."
           />
+        )}
+        {kept && (
+          <label className="flex items-start gap-2 text-sm text-walnut-800">
+            <input
+              type="checkbox"
+              className="mt-1"
+              checked={overrideKeep}
+              onChange={(e) => {
+                setOverrideKeep(e.target.checked);
+                reset();
+              }}
+            />
+            <span>
+              Override the kept hand: {kept} is kept on this job; let whoever is free do those sessions this time.
+            </span>
+          </label>
         )}
         <Button type="submit" variant="secondary" busy={create.isPending || previewing.isPending} disabled={mode === 'date' && !start}>
           <TriangleRight className="h-4 w-4" aria-hidden /> {mode === 'earliest' ? 'Find the earliest start' : 'Show the consequences'}

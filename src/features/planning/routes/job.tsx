@@ -16,6 +16,7 @@ import { paths, pathTo } from '@/config/paths';
 import { useMe } from '@/lib/me';
 import { formatMoney, todayIso } from '@/lib/format';
 import { JobCostingCard } from '../components/job-costing-card';
+import { JobEndCards } from '../components/job-end-card';
 import { useBoard } from '../api/board';
 import { useCancelJob, useJob, useUpdateJob } from '../api/jobs';
 import { BookingForm } from '../components/booking-form';
@@ -317,7 +318,7 @@ export function JobPage() {
           <Card title={j.state === 'unbooked' ? 'Book this job' : 'Move this job'}>
             <div className="space-y-4">
               {j.state === 'unbooked' && <RoomNeed job={j} />}
-              <BookingForm jobId={j.id} today={today} unit={j.roomUnit} />
+              <BookingForm jobId={j.id} today={today} unit={j.roomUnit} kept={j.keptPolisherId ? 'a polisher' : null} />
             </div>
           </Card>
         ) : (
@@ -326,6 +327,8 @@ export function JobPage() {
           </Card>
         )}
       </div>
+
+      <JobEndCards jobId={j.id} />
 
       {can(role, 'readCosting') && <JobCostingCard jobId={j.id} />}
 

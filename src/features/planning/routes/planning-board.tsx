@@ -2,6 +2,8 @@
  * The planning board: the drying room and the polishers over the weeks ahead, the sessions due today and
  * tomorrow, booking a job, the jobs on the board and the polishers.
  */
+import { CUSTODY_LABELS } from '@shared/schemas/job-end';
+import { formatDate } from '@/lib/format';
 import { AlertTriangle, CalendarDays, ChevronLeft, ChevronRight, CircleCheck, Droplets, Thermometer, Warehouse } from 'lucide-react';
 import { useState, type ReactNode } from 'react';
 import { Link } from 'react-router-dom';
@@ -242,6 +244,10 @@ export function PlanningBoardPage() {
                     <td className="px-3 py-2">
                       {j.title}
                       <span className="block text-xs text-walnut-500">{j.customer.name}</span>
+                      <span className="block text-xs text-walnut-500" data-testid="board-logistics">
+                        {CUSTODY_LABELS[j.custody]} · collection {j.collectionDate ? formatDate(j.collectionDate) : 'to arrange'} · return {j.returnDate ? formatDate(j.returnDate) : 'to arrange'}
+                        {j.keptPolisherId ? ' · a polisher is kept on it' : ''}
+                      </span>
                     </td>
                     <td className="px-3 py-2">
                       <JobStateBadge state={j.state} />

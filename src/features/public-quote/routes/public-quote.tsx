@@ -12,6 +12,7 @@ import { formatDate, formatMoney } from '@/lib/format';
 import { publicAcceptancePdfUrl, publicPdfUrl, useDepositCancelled, useDepositCheckout, usePublicQuote } from '../api/public-quote';
 import { Answer } from '../components/answer';
 import { Balance } from '../components/balance';
+import { JobProgress } from '../components/job-progress';
 import { Contact, Letterhead, Safety, Section } from '../components/parts';
 
 function Shell({ workshop, children }: { workshop: PublicQuote['workshop'] | null; children: ReactNode }) {
@@ -377,6 +378,7 @@ export function PublicQuotePage() {
 
       {!answerable && <Outcome token={token} q={q} returned={returned} />}
       {q.state === 'deposit-paid' && <Balance token={token} returned={params.get('balance')} />}
+      {q.state === 'deposit-paid' && <JobProgress token={token} />}
       {q.lines.length > 1 ? <Pieces q={q} /> : <Work q={q} />}
       <Section id="price-heading" title="The price">
         {q.lines.length > 1 && (
