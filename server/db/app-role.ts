@@ -53,8 +53,11 @@ export async function ensureAppRole(ownerUrl: string): Promise<string> {
     await client.query(`ALTER DEFAULT PRIVILEGES IN SCHEMA public GRANT SELECT, INSERT, UPDATE, DELETE ON TABLES TO ${APP_ROLE}`);
     await client.query(`ALTER DEFAULT PRIVILEGES IN SCHEMA public GRANT USAGE, SELECT, UPDATE ON SEQUENCES TO ${APP_ROLE}`);
     // The message queue's own schema (pg-boss, `QUEUE_SCHEMA` in services/messages/queue.ts): its jobs carry the
-    // workshop they belong to in their payload, and pg-boss creates and upgrades its tables itself when a queue starts,
-    // as the app. So the app owns that schema (and only that one); a schema made earlier by the owner is opened to it.
+    // workshop they belong to in their payload, and pg-boss creates and upgrades its tables itself when a queue starts
+    // (a table per queue, too), as the app. So the app owns that schema, and only that one: PostgreSQL asks for the
+    // right to create schemas in the database even when the schema exists, so the app has it; every table of the
+    // workshops' data stays the owner's, under row-level security.
+    await client.query(`GRANT CREATE ON DATABASE ${database} TO ${APP_ROLE}`);
     await client.query(`CREATE SCHEMA IF NOT EXISTS pgboss AUTHORIZATION ${APP_ROLE}`);
     await client.query(`GRANT ALL ON SCHEMA pgboss TO ${APP_ROLE}`);
     await client.query(`GRANT ALL ON ALL TABLES IN SCHEMA pgboss TO ${APP_ROLE}`);
