@@ -58,7 +58,7 @@ describe('backup and restore', () => {
     const target = urlFor(scratchName);
     db('restore', target, file);
     expect(await counts(target)).toEqual(await counts(source));
-    await withClient(target, (c) => c.query("INSERT INTO customers (name, created_at, updated_at) VALUES ('Added after the backup', now(), now())"));
+    await withClient(target, (c) => c.query("INSERT INTO customers (workshop_id, name, created_at, updated_at) VALUES ((SELECT min(id) FROM workshops), 'Added after the backup', now(), now())"));
     db('restore', target, file);
     const after = await withClient(target, (c) => c.query("SELECT count(*) FROM customers WHERE name = 'Added after the backup'"));
     expect(Number(after.rows[0].count)).toBe(0);

@@ -10,12 +10,15 @@ import { QueryTypes } from 'sequelize';
 import supertest from 'supertest';
 import { createApp, type BuiltApp } from '../../server/app';
 import { loadConfig } from '../../server/config';
-import { createSequelize } from '../../server/db/sequelize';
+import { createAppSequelize } from '../../server/db/sequelize';
 import type { Invalidation, SharedCaches } from '../../server/services/shared-caches';
-import { signIn, signInAs, testDatabaseUrl, type Session } from '../helpers/app';
+import { demoWorkshopFallback, signIn, signInAs, testAppDatabaseUrl, type Session } from '../helpers/app';
 
-const url = testDatabaseUrl();
-const sequelize = createSequelize(url);
+// As the app connects: the app role, bound by row-level security, in the demo workshop outside a request.
+const url = testAppDatabaseUrl();
+let fallback: () => Promise<number | null> = async () => null;
+const sequelize = createAppSequelize(url, { fallback: () => fallback() });
+fallback = demoWorkshopFallback(sequelize);
 const config = loadConfig();
 let a: BuiltApp;
 let b: BuiltApp;

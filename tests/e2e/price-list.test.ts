@@ -27,6 +27,9 @@ describe('the owner keeps the price list', () => {
     await signIn(page, 'owner');
     await page.getByRole('navigation', { name: 'Main' }).getByRole('link', { name: 'Price list' }).click();
     await page.getByRole('heading', { level: 1, name: 'Price list' }).waitFor();
+    // Other files add materials of their own: the flakes are found by searching, not by the first page.
+    await page.getByRole('searchbox', { name: /Search materials/ }).fill('shellac');
+    await page.getByRole('searchbox', { name: /Search materials/ }).press('Enter');
     await expect.poll(() => page.getByTestId('price-SHELLAC-FLAKES-250').textContent()).toBe('£11.40');
     await screenshot(page, 'price-list-before');
 

@@ -196,7 +196,8 @@ describe('quotes, from the salesperson to the customer and back, in a real brows
     await screenshot(page, 'quotes-list');
 
     await page.getByRole('navigation', { name: 'Main' }).getByRole('link', { name: 'Outbox' }).click();
-    const sent = page.getByRole('row').filter({ hasText: `Quote ${quoteNumber}` });
+    // The quote's own e-mail (the acceptance confirmation names the quote too, and comes after it).
+    const sent = page.getByRole('row').filter({ hasText: `Quote ${quoteNumber}` }).last();
     await expect.poll(() => sent.locator('[data-status]').textContent()).toBe('Sent');
     await screenshot(page, 'outbox-list');
     await sent.getByRole('button').first().click();
