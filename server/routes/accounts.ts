@@ -20,6 +20,7 @@ import {
   publicDocumentPdf,
   recordPayment,
   refuseEdit,
+  sendBalanceReminder,
   updateSettings,
 } from '../services/accounts';
 
@@ -49,6 +50,10 @@ export function accountRoutes(config: Config, sequelize: Sequelize, table: Route
   r.post('/quotes/:id/invoice', 'takePayments', async (req, res) => {
     const { id } = parseOr400(IdParam, req.params);
     res.status(201).json(await issueInvoice(sequelize, config, req.user!.id, id, parseOr400(IssueInvoiceSchema, req.body ?? {})));
+  });
+  /** "Send a reminder" from the owed list: the balance-due message, queued to the customer, once a day per invoice. */
+  r.post('/quotes/:id/reminder', 'takePayments', async (req, res) => {
+    res.status(201).json(await sendBalanceReminder(sequelize, req.user!.id, parseOr400(IdParam, req.params).id));
   });
   r.post('/documents/:id/credit-notes', 'takePayments', async (req, res) => {
     const { id } = parseOr400(IdParam, req.params);
