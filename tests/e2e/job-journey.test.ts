@@ -2,9 +2,10 @@
  * The rest of the job in a real browser, from a paid deposit to a settled invoice: the owner books the job (the
  * customer is e-mailed the dates), marks the piece arrived and its first session done, adds extra work found once the
  * old finish is off and sends it; the customer approves it on its own signed page; the work is finished, the piece is
- * marked ready (the customer is told), the tax invoice is issued from the account panel with the variation on it, and
- * the customer pays the balance by card on the payment stand-in from their quote page. The invoice and the last
- * receipt are read back as text. Everything the test relies on it makes itself through the API first.
+ * marked ready (the customer is told), the tax invoice is issued from the account panel with the variation on it, a
+ * reminder of the balance goes from the owed list, and the customer pays the balance by card on the payment stand-in
+ * from their quote page. The invoice and the last receipt are read back as text. Everything the test relies on it
+ * makes itself through the API first.
  */
 import { execFileSync } from 'node:child_process';
 import fs from 'node:fs';
@@ -204,6 +205,18 @@ describe('the rest of the job, from a paid deposit to a settled invoice', () => 
     await panel.getByText(/Invoice INV-\d{5} issued/).waitFor();
     await screenshot(page, 'job-journey-06-invoiced');
 
+    // The invoice is on the owed list; a reminder sent from there reaches the customer through the queue.
+    const balanceMails = () => mailsToCustomer().filter((m) => m.includes('The balance still to pay is')).length;
+    await expect.poll(balanceMails).toBe(1); // the invoice's own e-mail carries the balance-due text
+    await page.getByRole('link', { name: 'Owed to us' }).click();
+    const owedRow = page.getByRole('row').filter({ hasText: CUSTOMER });
+    await expect.poll(() => owedRow.count()).toBe(1);
+    expect(await owedRow.textContent()).toContain(gbp(balance));
+    await owedRow.getByRole('button', { name: /^Send a reminder/ }).click();
+    await owedRow.getByRole('status').getByText(`Reminder queued to ${EMAIL}`).waitFor();
+    await expect.poll(balanceMails).toBe(2);
+    await screenshot(page, 'job-journey-06b-reminded');
+
     // 8. The customer pays the balance by card from their quote page, which shows where the piece is.
     await phone.goto(link);
     await phone.getByTestId('public-job-where').waitFor();
@@ -235,7 +248,7 @@ describe('the rest of the job, from a paid deposit to a settled invoice', () => 
     expect(receiptText).toMatch(/Still to pay £0\.00/);
 
     // The staff panel agrees: nothing owed.
-    await page.reload();
+    await page.goto(`${suite.server.baseUrl}/accounts/quotes/${q.body.id as number}`);
     await expect.poll(() => panel.getByTestId('account-balance').textContent()).toBe(gbp('0'));
     await screenshot(page, 'job-journey-08-settled');
     expect(errors).toEqual([]);
