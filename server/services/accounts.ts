@@ -614,12 +614,13 @@ export async function issueInvoice(sequelize: Sequelize, config: Config, actorId
 
 /**
  * "Send a reminder" from the owed list: the owner's balance-due message, filled in with what is still owed today,
- * queued to the customer through the message queue and listed with their messages. One a day per invoice (its key
+ * put in the outbox with its job on the message queue, sent at once where the mail server answers (the queue retries
+ * it otherwise), and listed with the customer's messages. One a day per invoice (its key
  * names the invoice and the day: a second press the same day is a 409 naming the message); refused when no invoice
  * was issued, nothing is owed, or the customer has no e-mail address.
  */
-export async function sendBalanceReminder(sequelize: Sequelize, actorId: number, quoteId: number): Promise<{ outboxId: number; to: string; amount: string; currency: string }> {
-  return sequelize.transaction(async (transaction) => {
+export async function sendBalanceReminder(sequelize: Sequelize, config: Config, actorId: number, quoteId: number): Promise<{ outboxId: number; status: string; to: string; amount: string; currency: string }> {
+  const made = await sequelize.transaction(async (transaction) => {
     const quote = await lockAccount(quoteId, transaction);
     const invoice = await AccountDocument.findOne({ where: { quoteId: quote.id, kind: 'invoice' }, attributes: ['id', 'number'], transaction });
     if (!invoice) throw problems.conflict('no_invoice', `No invoice has been issued for quote ${quote.number}: a reminder asks for the balance of an invoice.`);
@@ -644,6 +645,9 @@ export async function sendBalanceReminder(sequelize: Sequelize, actorId: number,
         values: { piece: await piecesOf(sequelize, quote.id, transaction), quote_number: quote.number, amount },
         to: party.to,
         dedupeKey,
+        // Sent below, at once; the queue's job is the backstop a minute later (it finds the message sent and does
+        // nothing, or retries it when the mail server did not take it), so the two never race for it.
+        sendAfter: new Date(Date.now() + 60_000),
         actorId,
       },
       transaction,
@@ -652,6 +656,9 @@ export async function sendBalanceReminder(sequelize: Sequelize, actorId: number,
     await audit({ userId: actorId, action: 'account.balance-reminder', entityType: 'quote', entityId: quote.id, after: { invoice: invoice.number, balance: f.balance, outboxId } }, transaction);
     return { outboxId, to: party.to, amount: f.balance, currency: quote.currency };
   });
+  // Sent at once where the mail server answers (as the ready message is); the queue's job retries it when it did not.
+  const m = await deliver(config, made.outboxId);
+  return { ...made, status: m.status };
 }
 
 /** An issued invoice (or any issued document) is never edited: always a 409 saying what to do instead. */

@@ -82,7 +82,7 @@ export function useUpdateAccountSettings() {
 export function useSendReminder(quoteId: number) {
   const qc = useQueryClient();
   return useMutation({
-    mutationFn: () => api<{ outboxId: number; to: string; amount: string; currency: string }>(`/api/accounts/quotes/${quoteId}/reminder`, { method: 'POST', body: {} }),
+    mutationFn: () => api<{ outboxId: number; status: string; to: string; amount: string; currency: string }>(`/api/accounts/quotes/${quoteId}/reminder`, { method: 'POST', body: {} }),
     onSuccess: async () => {
       await Promise.all([qc.invalidateQueries({ queryKey: ['outbox'] }), qc.invalidateQueries({ queryKey: ['messages'] })]);
     },
