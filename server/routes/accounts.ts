@@ -20,12 +20,15 @@ import {
   publicDocumentPdf,
   recordPayment,
   refuseEdit,
+  sendBalanceReminder,
   updateSettings,
 } from '../services/accounts';
 
 const IdParam = z.object({ id: IdSchema });
 const TokenParam = z.object({ token: z.string().min(10).max(200) });
 const TokenDocParam = TokenParam.extend({ id: IdSchema });
+/** A reminder takes nothing but the press: anything sent with it is refused before anything is looked at. */
+const ReminderSchema = z.object({}).strict();
 
 function pdf(res: Response, number: string, bytes: Buffer): void {
   res.setHeader('Content-Type', 'application/pdf');
@@ -49,6 +52,12 @@ export function accountRoutes(config: Config, sequelize: Sequelize, table: Route
   r.post('/quotes/:id/invoice', 'takePayments', async (req, res) => {
     const { id } = parseOr400(IdParam, req.params);
     res.status(201).json(await issueInvoice(sequelize, config, req.user!.id, id, parseOr400(IssueInvoiceSchema, req.body ?? {})));
+  });
+  /** "Send a reminder" from the owed list: the balance-due message, queued to the customer, once a day per invoice. */
+  r.post('/quotes/:id/reminder', 'takePayments', async (req, res) => {
+    const { id } = parseOr400(IdParam, req.params);
+    parseOr400(ReminderSchema, req.body ?? {});
+    res.status(201).json(await sendBalanceReminder(sequelize, config, req.user!.id, id));
   });
   r.post('/documents/:id/credit-notes', 'takePayments', async (req, res) => {
     const { id } = parseOr400(IdParam, req.params);

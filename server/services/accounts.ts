@@ -47,7 +47,7 @@ import { formatDate, formatMoney } from '../pdf/pdf-format';
 import { audit } from './audit';
 import { loadSettings } from './catalog';
 import { deliver } from './mail';
-import { currentWorkshopId, fillTemplate, piecesOf } from './messages';
+import { currentWorkshopId, fillTemplate, piecesOf, queueCustomerMessage } from './messages';
 import type { MessageKind } from '@shared/schemas/messages';
 import { composeMail } from './mail-compose';
 import { offset, pageTotal } from './paging';
@@ -610,6 +610,55 @@ export async function issueInvoice(sequelize: Sequelize, config: Config, actorId
   });
   await deliverAll(config, [outboxId]);
   return getAccount(quoteId);
+}
+
+/**
+ * "Send a reminder" from the owed list: the owner's balance-due message, filled in with what is still owed today,
+ * put in the outbox with its job on the message queue, sent at once where the mail server answers (the queue retries
+ * it otherwise), and listed with the customer's messages. One a day per invoice (its key
+ * names the invoice and the day: a second press the same day is a 409 naming the message); refused when no invoice
+ * was issued, nothing is owed, or the customer has no e-mail address.
+ */
+export async function sendBalanceReminder(sequelize: Sequelize, config: Config, actorId: number, quoteId: number): Promise<{ outboxId: number; status: string; to: string; amount: string; currency: string }> {
+  const made = await sequelize.transaction(async (transaction) => {
+    const quote = await lockAccount(quoteId, transaction);
+    const invoice = await AccountDocument.findOne({ where: { quoteId: quote.id, kind: 'invoice' }, attributes: ['id', 'number'], transaction });
+    if (!invoice) throw problems.conflict('no_invoice', `No invoice has been issued for quote ${quote.number}: a reminder asks for the balance of an invoice.`);
+    const f = await figuresOf(quote, transaction);
+    if (!money(f.balance).greaterThan(0)) throw problems.conflict('nothing_owed', `Invoice ${invoice.number} is paid: nothing is owed, so there is nothing to remind the customer of.`);
+    const day = localToday();
+    const dedupeKey = `balance-reminder:invoice:${invoice.id}:${day}`;
+    const existing = await OutboxMessage.findOne({ where: { dedupeKey }, attributes: ['id', 'status'], transaction });
+    if (existing) throw problems.conflict('already_reminded', `The customer was already reminded of invoice ${invoice.number} today (message ${existing.id}, ${existing.status}).`);
+    const party = await partyOf(quote, transaction);
+    if (!party.to) throw problems.badRequest('no_recipient', `${party.customer.name} has no e-mail address: add one on the customer's page first.`, 'email');
+    const amount = formatMoney(f.balance, quote.currency);
+    const jobs = await Job.findAll({ where: { quoteId: quote.id }, attributes: ['id'], order: [['id', 'ASC']], transaction });
+    const outboxId = await queueCustomerMessage(
+      sequelize,
+      {
+        workshopId: await currentWorkshopId(transaction),
+        kind: 'balance-due',
+        customerId: party.customer.id,
+        quoteId: quote.id,
+        jobId: jobs.length === 1 ? jobs[0]!.id : null,
+        values: { piece: await piecesOf(sequelize, quote.id, transaction), quote_number: quote.number, amount },
+        to: party.to,
+        dedupeKey,
+        // Sent below, at once; the queue's job is the backstop a minute later (it finds the message sent and does
+        // nothing, or retries it when the mail server did not take it), so the two never race for it.
+        sendAfter: new Date(Date.now() + 60_000),
+        actorId,
+      },
+      transaction,
+    );
+    if (outboxId === null) throw problems.conflict('already_reminded', `The customer was already reminded of invoice ${invoice.number} today.`);
+    await audit({ userId: actorId, action: 'account.balance-reminder', entityType: 'quote', entityId: quote.id, after: { invoice: invoice.number, balance: f.balance, outboxId } }, transaction);
+    return { outboxId, to: party.to, amount: f.balance, currency: quote.currency };
+  });
+  // Sent at once where the mail server answers (as the ready message is); the queue's job retries it when it did not.
+  const m = await deliver(config, made.outboxId);
+  return { ...made, status: m.status };
 }
 
 /** An issued invoice (or any issued document) is never edited: always a 409 saying what to do instead. */

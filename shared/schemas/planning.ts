@@ -262,7 +262,10 @@ export interface JobDetail extends JobSummary {
   startMode: 'earliest' | 'date' | null;
   stages: StagePlanVsActual[];
   sessions: JobSessionDto[];
-  /** What the customer agreed to in the quote: the total with the extras taken, the deposit and the balance due. */
+  /**
+   * What the customer agreed to: the quote's total with the extras taken plus the variations approved since, the
+   * deposit, and the balance due on collection (the total less the deposit).
+   */
   agreed: (AgreedFigures & { currency: string }) | null;
 }
 

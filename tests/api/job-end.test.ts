@@ -233,6 +233,9 @@ describe('variations', () => {
     const acc = (await sales.agent.get(`/api/accounts/quotes/${quoteId}`).expect(200)).body as AccountDto;
     expect(acc.figures.agreedTotal).toBe(new Decimal(before.figures.agreedTotal).plus('180.00').toFixed(2));
     expect(acc.figures.balance).toBe(new Decimal(before.figures.balance).plus('180.00').toFixed(2));
+    // The job page's agreed figures follow the account: the total with the variation, the deposit unchanged.
+    expect(after.agreed!.total).toBe(acc.figures.agreedTotal);
+    expect(after.agreed!.balance).toBe(new Decimal(acc.figures.agreedTotal).minus(after.agreed!.deposit).toFixed(2));
     const pub = (await request(app).get(`/api/public/quotes/${token}/jobs`).expect(200)).body as PublicJobDto[];
     expect(pub[0]!.variations).toEqual([{ title: 'Re-lay loose veneer on the lid edge', description: expect.any(String), price: '180.00', currency: expect.any(String), state: 'approved' }]);
 

@@ -133,4 +133,31 @@ describe('owed to us', () => {
     await expect.poll(() => net.calls.some((c) => c.url.includes('sort=balance'))).toBe(true);
     expect(((await screen.findByLabelText('Invoices are issued')) as HTMLSelectElement).disabled).toBe(true);
   });
+
+  it('sends a reminder from a row and says so; a refusal is shown in the row in words', async () => {
+    const { OwedPage } = await import('../../src/features/accounts/routes/owed');
+    const row = (quoteId: number, name: string, invoice: string) => ({ quoteId, quoteNumber: `Q-2026-000${quoteId}`, invoiceNumber: invoice, invoicedOn: '2026-11-20', ageDays: 12, bucket: '0-30', customer: { id: quoteId, name }, currency: 'GBP', invoiced: '600.00', balance: '420.00' });
+    const page = { rows: [row(7, 'Perpetua Langstroth', 'INV-00003'), row(8, 'Isolde Marchbanks', 'INV-00009')], total: 2, page: 1, pageSize: 25, buckets: [{ bucket: '0-30', currency: 'GBP', count: 2, amount: '840.00' }] };
+    const net = fakeFetch({
+      '/api/auth/csrf': () => json({ csrfToken: 't' }),
+      '/api/accounts/owed': () => json(page),
+      '/api/accounts/settings': () => json({ invoiceStage: 'finished', canChange: false }),
+      '/api/accounts/quotes/7/reminder': () => json({ outboxId: 51, to: 'perpetua@example.com', amount: '420.00', currency: 'GBP' }, 201),
+      '/api/accounts/quotes/8/reminder': () =>
+        json({ status: 409, code: 'already_reminded', title: 'Conflict', detail: 'The customer was already reminded of invoice INV-00009 today (message 50, sent).' }, 409, 'application/problem+json'),
+    });
+    vi.stubGlobal('fetch', net.fn);
+    renderWithApp(
+      <Routes>
+        <Route path="/accounts/owed" element={<OwedPage />} />
+      </Routes>,
+      { route: '/accounts/owed' },
+    );
+    const table = await screen.findByRole('table', { name: /Owed to us/ });
+    fireEvent.click(await within(table).findByRole('button', { name: 'Send a reminder to Perpetua Langstroth for INV-00003' }));
+    expect((await within(table).findByRole('status')).textContent).toBe('Reminder queued to perpetua@example.com');
+    expect(net.calls.some((c) => c.url === '/api/accounts/quotes/7/reminder' && c.init?.method === 'POST')).toBe(true);
+    fireEvent.click(within(table).getByRole('button', { name: 'Send a reminder to Isolde Marchbanks for INV-00009' }));
+    expect((await within(table).findByRole('alert')).textContent).toMatch(/already reminded of invoice INV-00009 today/);
+  });
 });

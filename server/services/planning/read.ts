@@ -1,8 +1,9 @@
 /** Reading jobs: one job in full, and the list by state. */
 import { Op, type Transaction } from 'sequelize';
+import { money } from '@shared/money';
 import { ACTIVE_JOB_STATES, type JobDetail, type JobState, type JobSummary } from '@shared/schemas/planning';
 import { problems } from '../../http/problem';
-import { Job, JobSession, Polisher, Quote, User } from '../../models';
+import { Job, JobSession, JobVariation, Polisher, Quote, User } from '../../models';
 import { agreedOf } from '../quotes';
 import { loadPlanning } from '../planning-context';
 import { related, summaryDto, sessionDto, stagesDto, sessionsOf } from './mapping';
@@ -27,11 +28,21 @@ export async function getJob(id: number, transaction?: Transaction): Promise<Job
     startMode: job.startMode,
     stages: stagesDto(sessions),
     sessions: sessions.map((s) => sessionDto(s, polishers, users)),
-    agreed: await Quote.findByPk(job.quoteId, { transaction }).then((q) => {
-      const agreed = q ? agreedOf(q) : null;
-      return agreed && q ? { ...agreed, currency: q.currency } : null;
-    }),
+    agreed: await agreedWithVariations(job.quoteId, transaction),
   };
+}
+
+/**
+ * What the customer agreed, as the job page shows it: the accepted total plus the variations the customer approved
+ * since (as the account counts them, docs/job-end.md), the deposit, and the rest due on collection.
+ */
+async function agreedWithVariations(quoteId: number, transaction?: Transaction): Promise<JobDetail['agreed']> {
+  const q = await Quote.findByPk(quoteId, { transaction });
+  const agreed = q ? agreedOf(q) : null;
+  if (!agreed || !q) return null;
+  const approved = await JobVariation.findAll({ where: { quoteId, state: 'approved' }, attributes: ['price'], transaction });
+  const total = approved.reduce((t, v) => t.plus(money(v.price)), money(agreed.total));
+  return { ...agreed, total: total.toFixed(2), balance: total.minus(money(agreed.deposit)).toFixed(2), currency: q.currency };
 }
 
 export async function listJobs(state: JobState | 'active' | 'all'): Promise<JobSummary[]> {

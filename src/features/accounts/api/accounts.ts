@@ -78,4 +78,15 @@ export function useUpdateAccountSettings() {
   });
 }
 
+/** "Send a reminder" from the owed list: the balance-due message queued to the customer (once a day per invoice). */
+export function useSendReminder(quoteId: number) {
+  const qc = useQueryClient();
+  return useMutation({
+    mutationFn: () => api<{ outboxId: number; status: string; to: string; amount: string; currency: string }>(`/api/accounts/quotes/${quoteId}/reminder`, { method: 'POST', body: {} }),
+    onSuccess: async () => {
+      await Promise.all([qc.invalidateQueries({ queryKey: ['outbox'] }), qc.invalidateQueries({ queryKey: ['messages'] })]);
+    },
+  });
+}
+
 export const documentPdfUrl = (id: number) => `/api/accounts/documents/${id}/pdf`;

@@ -1,15 +1,40 @@
 import { Link } from 'react-router-dom';
 import { AGEING_BUCKETS, AGEING_LABELS, type AgeingBucket, type OwedRow } from '@shared/schemas/accounts';
+import { Button } from '@/components/button';
 import { PageHeader } from '@/components/card';
 import type { Column } from '@/components/data-table';
 import { PagedTable } from '@/components/paged-table';
 import { pathTo } from '@/config/paths';
 import { formatDate, formatMoney } from '@/lib/format';
 import { useTableState } from '@/lib/use-table-state';
-import { useOwed, type OwedQuery } from '../api/accounts';
+import { useOwed, useSendReminder, type OwedQuery } from '../api/accounts';
 import { InvoiceStageSetting } from '../components/invoice-stage';
 
 const PAGE_SIZE = 25;
+
+/** Sends the customer the balance-due message again, through the message queue; says what happened in the row. */
+function ReminderButton({ row }: { row: OwedRow }) {
+  const send = useSendReminder(row.quoteId);
+  if (send.isSuccess) {
+    return (
+      <span role="status" className="text-sm text-moss-700">
+        Reminder queued to {send.data.to}
+      </span>
+    );
+  }
+  return (
+    <span className="inline-flex flex-col items-start gap-1">
+      <Button size="sm" variant="secondary" busy={send.isPending} onClick={() => send.mutate()} aria-label={`Send a reminder to ${row.customer.name} for ${row.invoiceNumber}`}>
+        Send a reminder
+      </Button>
+      {send.isError && (
+        <span role="alert" className="max-w-64 text-xs text-brick-700">
+          {send.error.message}
+        </span>
+      )}
+    </span>
+  );
+}
 
 /** What customers owe on invoices issued, oldest first by default, in age buckets of 0–30, 31–60 and over 60 days. */
 export function OwedPage() {
@@ -35,6 +60,8 @@ export function OwedPage() {
     { key: 'invoiced', header: 'Invoiced amount', align: 'right', render: (r) => <span className="num">{formatMoney(r.invoiced, r.currency)}</span> },
     { key: 'balance', header: 'Owed', sortKey: 'balance', align: 'right', render: (r) => <strong className="num">{formatMoney(r.balance, r.currency)}</strong> },
     { key: 'account', header: 'Account', render: (r) => <Link to={pathTo.account(r.quoteId)} className="font-medium text-walnut-900 underline decoration-amber-400 underline-offset-2 hover:text-amber-700">Open {r.quoteNumber}</Link> },
+    // The page is for the owner and sales (takePayments), who may send reminders.
+    { key: 'reminder', header: 'Reminder', render: (r) => <ReminderButton row={r} /> },
   ];
   const totals = owed.data?.buckets ?? [];
   return (
