@@ -1,12 +1,11 @@
 import type { Response } from 'express';
-import { rateLimit } from 'express-rate-limit';
 import type { Sequelize } from 'sequelize';
 import { z } from 'zod';
 import { AccountSettingsSchema, CreditNoteSchema, IssueInvoiceSchema, OwedQuerySchema, RecordPaymentSchema } from '@shared/schemas/accounts';
 import { IdSchema } from '@shared/schemas/customers';
 import type { Config } from '../config';
 import { secureRouter, type RouteInfo } from '../http/guard';
-import { HttpProblem, parseOr400, sendProblem } from '../http/problem';
+import { parseOr400 } from '../http/problem';
 import { can } from '@shared/roles';
 import {
   balanceCheckout,
@@ -23,6 +22,7 @@ import {
   sendBalanceReminder,
   updateSettings,
 } from '../services/accounts';
+import { publicLinkLimiter } from '../http/public-limit';
 
 const IdParam = z.object({ id: IdSchema });
 const TokenParam = z.object({ token: z.string().min(10).max(200) });
@@ -71,13 +71,7 @@ export function accountRoutes(config: Config, sequelize: Sequelize, table: Route
     pdf(res, number, bytes);
   });
 
-  const limiter = rateLimit({
-    windowMs: 60_000,
-    limit: 120,
-    standardHeaders: 'draft-8',
-    legacyHeaders: false,
-    handler: (_req, res) => sendProblem(res, new HttpProblem(429, 'too_many_requests', 'Too many requests', 'Too many requests from this address; wait a minute.')),
-  });
+  const limiter = publicLinkLimiter();
   const p = secureRouter('/api/public/quotes', table);
   p.get('/:token/account', 'public', limiter, async (req, res) => {
     res.setHeader('Cache-Control', 'no-store');

@@ -1,5 +1,4 @@
 import multer from 'multer';
-import { rateLimit } from 'express-rate-limit';
 import type { Sequelize } from 'sequelize';
 import { z } from 'zod';
 import { IdSchema, PHOTO_LIMITS } from '@shared/schemas/customers';
@@ -16,7 +15,7 @@ import {
 import type { Config } from '../config';
 import { secureRouter, type RouteInfo } from '../http/guard';
 import { multipart } from '../http/input';
-import { HttpProblem, parseOr400, sendProblem } from '../http/problem';
+import { parseOr400 } from '../http/problem';
 import {
   addNote,
   addProgressPhotos,
@@ -33,6 +32,7 @@ import {
   sharePhoto,
   withdrawVariation,
 } from '../services/job-end';
+import { publicLinkLimiter } from '../http/public-limit';
 
 const IdParam = z.object({ id: IdSchema });
 const PhotoParam = z.object({ id: IdSchema, photoId: IdSchema });
@@ -92,13 +92,7 @@ export function jobEndRoutes(config: Config, sequelize: Sequelize, table: RouteI
     res.json(await withdrawVariation(sequelize, req.user!.id, id, variationId));
   });
 
-  const limiter = rateLimit({
-    windowMs: 60_000,
-    limit: 120,
-    standardHeaders: 'draft-8',
-    legacyHeaders: false,
-    handler: (_req, res) => sendProblem(res, new HttpProblem(429, 'too_many_requests', 'Too many requests', 'Too many requests from this address; wait a minute.')),
-  });
+  const limiter = publicLinkLimiter();
   // The customer's side, through the quote's signed link: where the job is and the photos staff shared.
   const q = secureRouter('/api/public/quotes', table);
   q.get('/:token/jobs', 'public', limiter, async (req, res) => {

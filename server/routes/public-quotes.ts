@@ -1,27 +1,21 @@
 import express from 'express';
-import { rateLimit } from 'express-rate-limit';
 import type { Sequelize } from 'sequelize';
 import { z } from 'zod';
 import { AcceptQuoteSchema, DeclineQuoteSchema } from '@shared/schemas/quotes';
 import type { Config } from '../config';
 import { secureRouter, type RouteInfo } from '../http/guard';
-import { HttpProblem, parseOr400, sendProblem } from '../http/problem';
+import { parseOr400 } from '../http/problem';
 import { renderQuotePdf } from '../pdf/quote-pdf';
 import { handleWebhook } from '../services/payments';
 import { renderAcceptancePdf } from '../pdf/acceptance-pdf';
 import { acceptQuote, acceptanceRecord, declineQuote, depositCancelled, depositCheckout, publicPdf, viewQuote } from '../services/public-quotes';
+import { publicLinkLimiter } from '../http/public-limit';
 
 const TokenParam = z.object({ token: z.string().min(10).max(200) });
 
 /** The customer's side: no account, only the signed link. CSRF does not apply (no cookie is involved). */
 export function publicQuoteRoutes(config: Config, sequelize: Sequelize, table: RouteInfo[]) {
-  const limiter = rateLimit({
-    windowMs: 60_000,
-    limit: 120,
-    standardHeaders: 'draft-8',
-    legacyHeaders: false,
-    handler: (_req, res) => sendProblem(res, new HttpProblem(429, 'too_many_requests', 'Too many requests', 'Too many requests from this address; wait a minute.')),
-  });
+  const limiter = publicLinkLimiter();
   const r = secureRouter('/api/public/quotes', table);
   r.get('/:token', 'public', limiter, async (req, res) => {
     res.setHeader('Cache-Control', 'no-store');
