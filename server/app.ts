@@ -37,6 +37,8 @@ import { reportRoutes } from './routes/reports';
 import { stockRoutes } from './routes/stock';
 import { userRoutes } from './routes/users';
 import { workshopRoutes } from './routes/workshop';
+import { signupRoutes } from './routes/signup';
+import { checklistRoutes } from './routes/checklist';
 import { invalidateAfterWrites, SharedCaches } from './services/shared-caches';
 
 export interface AppDeps {
@@ -142,6 +144,8 @@ export function createApp({ config, sequelize, databaseUrl, serveClient = true, 
 
   app.use(authRoutes(config, sequelize, routes, sessionPool));
   app.use(userRoutes(sequelize, routes));
+  app.use(signupRoutes(config, sequelize, routes, sessionPool));
+  app.use(checklistRoutes(sequelize, routes));
   app.use(workshopRoutes(routes));
   app.use(calcRoutes(sequelize, routes));
   app.use(customerRoutes(sequelize, routes));

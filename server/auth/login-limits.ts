@@ -66,3 +66,24 @@ export function resetLimits(config: Pick<Config, 'loginAttempts' | 'loginWindowM
     },
   };
 }
+
+/**
+ * Sign-ups, confirmations and resent links per address, in the same shared table: as many in the sign-in window as
+ * the sign-in limit per address (a whole office may sign up and confirm from one address), so that no instance can
+ * be used to create workshops in bulk, flood an inbox or guess a link.
+ */
+export function signupLimits(config: Pick<Config, 'loginAddressAttempts' | 'loginWindowMs'>, pool: pg.Pool): { attempt(address: string): Promise<number> } {
+  const duration = Math.max(1, Math.ceil(config.loginWindowMs / 1000));
+  const limiter = new RateLimiterPostgres({ storeClient: pool, storeType: 'pool', tableName: 'login_attempts', tableCreated: true, clearExpiredByTimeout: true, duration, keyPrefix: 'signup', points: config.loginAddressAttempts });
+  return {
+    async attempt(address) {
+      try {
+        await limiter.consume(address);
+        return 0;
+      } catch (e) {
+        if (e instanceof RateLimiterRes) return Math.max(1, Math.ceil(e.msBeforeNext / 1000));
+        throw e;
+      }
+    },
+  };
+}

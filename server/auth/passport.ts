@@ -41,7 +41,12 @@ export function configurePassport(): typeof passport {
   passport.use(
     new LocalStrategy({ usernameField: 'email', passwordField: 'password' }, (email, password, done) => {
       verifyCredentials(email, password).then(
-        (user) => done(null, user ? { id: user.id, email: user.email, name: user.name, role: user.role, workshopId: user.workshopId } : false),
+        (user) => {
+          // The right password for an address not confirmed yet (a sign-up whose link was not opened): refused, and
+          // the sign-in route says why. Only someone who knows the password learns that.
+          if (user && user.emailConfirmedAt === null) return done(null, false, { message: 'unconfirmed' });
+          done(null, user ? { id: user.id, email: user.email, name: user.name, role: user.role, workshopId: user.workshopId } : false);
+        },
         (err: unknown) => done(err),
       );
     }),

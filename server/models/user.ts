@@ -18,6 +18,8 @@ export class User extends Model<InferAttributes<User>, InferCreationAttributes<U
   /** Filled by the database from the workshop the insert runs under (row-level security). */
   declare workshopId: CreationOptional<number>;
   declare lastLoginAt: Date | null;
+  /** When the address was confirmed; null only for a sign-up whose link has not been opened (it cannot sign in). */
+  declare emailConfirmedAt: CreationOptional<Date | null>;
   declare createdAt: CreationOptional<Date>;
   declare updatedAt: CreationOptional<Date>;
 
@@ -45,6 +47,8 @@ export class User extends Model<InferAttributes<User>, InferCreationAttributes<U
         active: { type: DataTypes.BOOLEAN, allowNull: false, defaultValue: true },
         workshopId: { type: DataTypes.INTEGER, allowNull: true },
         lastLoginAt: { type: DataTypes.DATE, allowNull: true },
+        // The column's DEFAULT (now()) confirms users an owner adds; leaving the attribute out lets it apply.
+        emailConfirmedAt: { type: DataTypes.DATE, allowNull: true },
         createdAt: DataTypes.DATE,
         updatedAt: DataTypes.DATE,
       },

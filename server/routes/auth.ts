@@ -31,8 +31,18 @@ export function authRoutes(config: Config, sequelize: Sequelize, table: RouteInf
         new HttpProblem(429, 'too_many_attempts', 'Too many sign-in attempts', `Too many failed sign-in attempts. Wait ${wait > 90 ? `${Math.ceil(wait / 60)} minutes` : `${wait} seconds`} and try again.`),
       );
     }
-    passport.authenticate('local', { session: false }, (err: unknown, user: Express.User | false) => {
+    passport.authenticate('local', { session: false }, (err: unknown, user: Express.User | false, info?: { message?: string }) => {
       if (err) return next(err);
+      if (!user && info?.message === 'unconfirmed') {
+        // The password was right: the attempt does not count against the account.
+        limits.succeeded(address, email).then(() => {
+          sendProblem(
+            res,
+            new HttpProblem(403, 'email_unconfirmed', 'E-mail address not confirmed', 'Confirm your e-mail address first: open the link in the message we sent when you signed up. No message? Ask for a new link.', { field: 'email', errors: [{ field: 'email', message: 'is not confirmed yet' }] }),
+          );
+        }, next);
+        return;
+      }
       if (!user) {
         return sendProblem(res, new HttpProblem(401, 'invalid_credentials', 'Sign-in failed', 'That e-mail and password do not match an active account.'));
       }

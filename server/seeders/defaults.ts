@@ -78,8 +78,12 @@ async function materials(transaction: Transaction): Promise<void> {
   }
 }
 
-export async function ensureDefaults(sequelize: Sequelize): Promise<void> {
-  await sequelize.transaction(async (transaction) => {
+/**
+ * Fills in the defaults of the workshop the caller runs under. With `outer`, inside the caller's transaction (the
+ * sign-up writes the workshop, its defaults and its owner as one); otherwise in a transaction of its own.
+ */
+export async function ensureDefaults(sequelize: Sequelize, outer?: Transaction): Promise<void> {
+  const fill = async (transaction: Transaction) => {
     await presets(transaction);
     if (!(await Workshop.findOne({ transaction }))) {
       await Workshop.create({ name: 'Your workshop', email: null, phone: null, address: null, settings: DEFAULT_SETTINGS }, { transaction });
@@ -91,5 +95,7 @@ export async function ensureDefaults(sequelize: Sequelize): Promise<void> {
     ]) {
       await LabourRate.findOrCreate({ where: { key: rate.key }, defaults: { ...rate, perHour: '0' }, transaction });
     }
-  });
+  };
+  if (outer) await fill(outer);
+  else await sequelize.transaction(fill);
 }

@@ -14,6 +14,7 @@ import { LabourRate, Material, MaterialPack } from '../models';
 import { audit } from './audit';
 import { loadSettings } from './catalog';
 import { showPrice } from './price-list';
+import { markDryingRoomSaved } from './checklist';
 
 type FieldError = { field: string; message: string };
 
@@ -77,6 +78,8 @@ export async function updateWorkshop(sequelize: Sequelize, actorId: number, inpu
     workshop.set({ name: input.name, email: input.email, phone: input.phone, address: input.address, settings: input.settings });
     workshop.changed('settings', true);
     await workshop.save({ transaction });
+    // The settings page shows the drying room: saving it counts as the owner having reviewed it (first-run checklist).
+    await markDryingRoomSaved(sequelize, actorId, transaction);
     const after = workshop.toDto();
     const diff = changedFields({ ...before, id: undefined }, { ...after, id: undefined });
     if (Object.keys(diff.after).length > 0) {

@@ -39,6 +39,8 @@ export const WorkshopSettingsSchema = z.object({
    * workshop (migration 2026.12.04T19.00); a client that leaves it out keeps the workshop on DEFAULT_TIME_ZONE.
    */
   timeZone: z.string().refine(isTimeZone, { message: 'must be a time zone name like Europe/London' }).optional(),
+  /** The country the workshop works in (ISO 3166-1 alpha-2), given at sign-up; older workshops have none. */
+  country: z.string().regex(/^[A-Z]{2}$/, { message: 'must be a two-letter country code' }).optional(),
 });
 export type WorkshopSettings = z.infer<typeof WorkshopSettingsSchema>;
 
