@@ -28,6 +28,9 @@ export function createRouter() {
       hydrateFallbackElement: <Spinner />,
       lazy: async () => ({ Component: (await import('@/features/auth/routes/reset-password')).ChooseNewPasswordPage }),
     },
+    // A new workshop's sign-up and the confirmation of its owner's address: no sign-in, outside the staff layout.
+    { path: paths.signUp, errorElement: <RouteError />, hydrateFallbackElement: <Spinner />, lazy: () => import('@/features/signup/routes/signup') },
+    { path: paths.confirmEmail, errorElement: <RouteError />, hydrateFallbackElement: <Spinner />, lazy: () => import('@/features/signup/routes/confirm-email') },
     // The customer's quote page: reached from the e-mailed link, no sign-in, outside the staff layout.
     { path: paths.publicQuote, errorElement: <RouteError />, hydrateFallbackElement: <Spinner label="Opening your quote…" />, lazy: () => import('@/features/public-quote/routes/public-quote') },
     { path: paths.publicVariation, errorElement: <RouteError />, hydrateFallbackElement: <Spinner label="Opening…" />, lazy: () => import('@/features/public-quote/routes/public-variation') },

@@ -4,6 +4,9 @@ export const paths = {
   /** "Forgot your password?": ask for a link, then choose a new password from it. */
   forgotPassword: '/reset-password',
   resetPassword: '/reset-password/:token',
+  /** A new workshop's owner signs up, then confirms their address from the e-mailed link (no sign-in). */
+  signUp: '/signup',
+  confirmEmail: '/confirm/:token',
   home: '/',
   users: '/users',
   customers: '/customers',

@@ -6,6 +6,8 @@ import { Button } from '@/components/button';
 import { TextField } from '@/components/field';
 import { Logo } from '@/components/logo';
 import { paths } from '@/config/paths';
+import { ApiError } from '@/lib/api';
+import { useResendConfirmation } from '@/lib/confirmation';
 import { useMe } from '@/lib/me';
 import { useSignIn } from '../api/sign-in';
 
@@ -17,6 +19,7 @@ function safeNext(next: string | null): string {
 export function SignInPage() {
   const me = useMe();
   const signIn = useSignIn();
+  const resend = useResendConfirmation();
   const navigate = useNavigate();
   const [params] = useSearchParams();
   const [email, setEmail] = useState('');
@@ -66,12 +69,25 @@ export function SignInPage() {
             <h1 id="signin-title" className="text-3xl font-semibold text-walnut-900">
               Sign in
             </h1>
-            <p className="mt-1 text-sm text-walnut-600">Use the account your workshop owner gave you.</p>
+            <p className="mt-1 text-sm text-walnut-600">Use the account your workshop owner gave you, or the one you signed up with.</p>
           </div>
-          {signIn.isError && (
-            <Alert tone="error" title="Sign-in failed">
-              {signIn.error.message}
+          {signIn.isError && signIn.error instanceof ApiError && signIn.error.code === 'email_unconfirmed' ? (
+            <Alert tone="warning" title="Confirm your e-mail address first">
+              {signIn.error.message}{' '}
+              {resend.isSuccess ? (
+                <span className="block pt-1">{resend.data.message}</span>
+              ) : (
+                <Button type="button" variant="secondary" size="sm" className="mt-2" busy={resend.isPending} onClick={() => resend.mutate({ email })}>
+                  Send the link again
+                </Button>
+              )}
             </Alert>
+          ) : (
+            signIn.isError && (
+              <Alert tone="error" title="Sign-in failed">
+                {signIn.error.message}
+              </Alert>
+            )
           )}
           <TextField label="E-mail" type="email" name="email" autoComplete="username" value={email} onChange={(e) => setEmail(e.target.value)} error={fieldErrors.email} />
           <TextField
@@ -89,6 +105,12 @@ export function SignInPage() {
           <p className="text-center text-sm">
             <Link to={paths.forgotPassword} className="text-walnut-700 underline decoration-walnut-300 underline-offset-2 hover:text-walnut-900">
               Forgot your password?
+            </Link>
+          </p>
+          <p className="border-t border-parchment-200 pt-4 text-center text-sm text-walnut-600">
+            A workshop new to Shellwright?{' '}
+            <Link to={paths.signUp} className="font-medium text-walnut-800 underline decoration-walnut-300 underline-offset-2 hover:text-walnut-900">
+              Sign up your workshop
             </Link>
           </p>
         </form>

@@ -5,7 +5,9 @@ import { Alert } from '@/components/alert';
 import { Card, PageHeader } from '@/components/card';
 import { Spinner } from '@/components/spinner';
 import { useMe } from '@/lib/me';
+import { useCan } from '@/lib/permissions';
 import { useWorkshop } from '@/lib/workshop';
+import { FirstRunChecklist } from '../components/first-run-checklist';
 import { WhereToStart } from '../components/where-to-start';
 
 const DAY_NAMES: Record<(typeof WEEKDAYS)[number], string> = {
@@ -21,10 +23,12 @@ const DAY_NAMES: Record<(typeof WEEKDAYS)[number], string> = {
 export function OverviewPage() {
   const me = useMe();
   const workshop = useWorkshop();
+  const can = useCan();
   const user = me.data!;
   return (
     <>
       <PageHeader title={`Good to see you, ${user.name.split(' ')[0]}`} description={`Signed in as ${ROLE_LABELS[user.role]}. ${ROLE_DUTIES[user.role]}`} />
+      {can.editSettings && <FirstRunChecklist />}
       <WhereToStart userId={user.id} role={user.role} />
       {workshop.isPending && <Spinner />}
       {workshop.isError && <Alert tone="error" title="The workshop could not be loaded">{workshop.error.message}</Alert>}
