@@ -88,11 +88,18 @@ export function SignupForm({ onDone }: { onDone: (result: SignupResult) => void 
   const [errors, setErrors] = useState<Record<string, string>>({});
   const [failure, setFailure] = useState<string>();
   const zones = useMemo(() => timeZoneOptions(form.timeZone), [form.timeZone]);
-  const set = <K extends keyof Form>(key: K, value: Form[K]) => setForm((f) => ({ ...f, [key]: value }));
+  /** A field changed: its old message goes (the form checks again when sent). */
+  const clear = (...keys: string[]) =>
+    setErrors((e) => (keys.some((k) => k in e) ? Object.fromEntries(Object.entries(e).filter(([k]) => !keys.includes(k))) : e));
+  const set = <K extends keyof Form>(key: K, value: Form[K]) => {
+    setForm((f) => ({ ...f, [key]: value }));
+    clear(key);
+  };
 
   const chooseCountry = (code: string) => {
     const suggested = suggestionsFor(code);
     setForm((f) => ({ ...f, country: code, ...(suggested ?? {}) }));
+    clear('country', ...(suggested ? Object.keys(suggested) : []));
   };
 
   const submit = (e: FormEvent) => {
