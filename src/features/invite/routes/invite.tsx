@@ -32,6 +32,11 @@ export function InvitePage() {
   const [form, setForm] = useState({ name: '', password: '', repeat: '' });
   const [errors, setErrors] = useState<Record<string, string>>({});
   const inv = invitation.data;
+  /** Changes a field and drops what was said about it (the rest stays until the next try). */
+  const edit = (field: keyof typeof form, value: string) => {
+    setForm({ ...form, [field]: value });
+    setErrors(({ [field]: _dropped, ...rest }) => rest);
+  };
 
   const onSubmit = (e: FormEvent) => {
     e.preventDefault();
@@ -83,7 +88,7 @@ export function InvitePage() {
               {accept.isError && !Object.keys(serverFieldErrors(accept.error)).length && (
                 <Alert tone="error" title="Not accepted">{accept.error.message}</Alert>
               )}
-              <TextField label="Your name" name="name" autoComplete="name" hint="As your colleagues will see it." value={form.name} onChange={(e) => setForm({ ...form, name: e.target.value })} error={errors.name} />
+              <TextField label="Your name" name="name" autoComplete="name" hint="As your colleagues will see it." value={form.name} onChange={(e) => edit('name', e.target.value)} error={errors.name} />
               <input type="email" name="email" autoComplete="username" value={inv.email} readOnly hidden />
               <TextField
                 label="Choose a password"
@@ -92,10 +97,10 @@ export function InvitePage() {
                 autoComplete="new-password"
                 hint="At least 10 characters. A few words you will remember make a good one."
                 value={form.password}
-                onChange={(e) => setForm({ ...form, password: e.target.value })}
+                onChange={(e) => edit('password', e.target.value)}
                 error={errors.password}
               />
-              <TextField label="The same password again" type="password" name="repeat-password" autoComplete="new-password" value={form.repeat} onChange={(e) => setForm({ ...form, repeat: e.target.value })} error={errors.repeat} />
+              <TextField label="The same password again" type="password" name="repeat-password" autoComplete="new-password" value={form.repeat} onChange={(e) => edit('repeat', e.target.value)} error={errors.repeat} />
               <Button type="submit" className="w-full" busy={accept.isPending}>
                 <UserPlus className="h-4 w-4" aria-hidden /> Accept and sign in
               </Button>

@@ -111,7 +111,7 @@ export function UsersPage() {
         description="Who may sign in to the workshop's Shellwright, and in which role. Invite people by e-mail: they choose their own name and password."
         actions={
           <Button variant="secondary" onClick={() => setAdding(true)}>
-            <Plus className="h-4 w-4" aria-hidden /> Add with a password
+            <Plus className="h-4 w-4" aria-hidden /> Add user
           </Button>
         }
       />
