@@ -1,8 +1,8 @@
 /**
  * Invitations: the owner invites someone by e-mail to join the workshop in a role. The e-mail carries a link with a
  * random token; only the token's SHA-256 is kept here, with the link's expiry, who invited, how often and when it was
- * last sent (and its outbox message), and when it was accepted (by which new user) or revoked. Resending gives a new token (the old link stops
- * working) and a new expiry.
+ * last sent (and its outbox message), and when it was accepted (by which new user) or revoked. Resending gives a new
+ * token (the old link stops working) and a new expiry.
  *
  * The table belongs to a workshop like every other (the pattern of `2026.12.07T00.00.workshop-row-security`):
  * `workshop_id` defaults to the connection's workshop, and a forced `workshop_isolation` policy shows and takes only

@@ -20,7 +20,7 @@ const when = (iso: string) => new Date(iso).toLocaleString('en-GB', { dateStyle:
 
 function StateBadge({ invitation }: { invitation: Invitation }) {
   return (
-    <span className={`inline-flex rounded-full px-2 py-0.5 text-xs font-medium ${STATE_STYLE[invitation.state]}`}>{INVITATION_STATE_LABELS[invitation.state]}</span>
+    <span className={`inline-flex whitespace-nowrap rounded-full px-2 py-0.5 text-xs font-medium ${STATE_STYLE[invitation.state]}`}>{INVITATION_STATE_LABELS[invitation.state]}</span>
   );
 }
 
