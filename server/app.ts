@@ -26,6 +26,7 @@ import { customerRoutes } from './routes/customers';
 import { estimateRoutes } from './routes/estimates';
 import { finishingRoutes } from './routes/finishing';
 import { healthRoutes } from './routes/health';
+import { invitationRoutes } from './routes/invitations';
 import { pieceRoutes } from './routes/pieces';
 import { planningRoutes } from './routes/planning';
 import { jobEndRoutes } from './routes/job-end';
@@ -146,6 +147,7 @@ export function createApp({ config, sequelize, databaseUrl, serveClient = true, 
   app.use(userRoutes(sequelize, routes));
   app.use(signupRoutes(config, sequelize, routes, sessionPool));
   app.use(checklistRoutes(sequelize, routes));
+  app.use(...invitationRoutes(config, sequelize, routes));
   app.use(workshopRoutes(routes));
   app.use(calcRoutes(sequelize, routes));
   app.use(customerRoutes(sequelize, routes));

@@ -46,10 +46,11 @@ export function guard(access: Access): RequestHandler {
   };
 }
 
-/** Public paths under these prefixes carry a signed token in `:token`: a quote's, or a variation's. */
+/** Public paths under these prefixes carry a signed token in `:token`: a quote's, a variation's, or an invitation's. */
 const SIGNED_LINK_PREFIXES = [
   { prefix: '/api/public/quotes/:token', lookup: 'quote_token' },
   { prefix: '/api/public/variations/:token', lookup: 'variation_token' },
+  { prefix: '/api/public/invitations/:token', lookup: 'invitation' },
 ] as const;
 
 /**

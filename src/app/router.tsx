@@ -34,6 +34,8 @@ export function createRouter() {
     // The customer's quote page: reached from the e-mailed link, no sign-in, outside the staff layout.
     { path: paths.publicQuote, errorElement: <RouteError />, hydrateFallbackElement: <Spinner label="Opening your quote…" />, lazy: () => import('@/features/public-quote/routes/public-quote') },
     { path: paths.publicVariation, errorElement: <RouteError />, hydrateFallbackElement: <Spinner label="Opening…" />, lazy: () => import('@/features/public-quote/routes/public-variation') },
+    // An invitation to join a workshop: no sign-in; accepting it signs the person in.
+    { path: paths.invite, errorElement: <RouteError />, hydrateFallbackElement: <Spinner label="Opening your invitation…" />, lazy: () => import('@/features/invite/routes/invite') },
     {
       path: '/',
       element: <AppLayout />,

@@ -44,6 +44,8 @@ export const paths = {
   publicQuote: '/q/:token',
   /** Extra work found during a job, for the customer to approve (its own signed link). */
   publicVariation: '/v/:token',
+  /** An invitation to join a workshop, opened from the e-mailed link (no sign-in). */
+  invite: '/invite/:token',
 } as const;
 
 /** Addresses of one record, built from the patterns above. */

@@ -47,6 +47,7 @@ const PARAM_TABLES: Record<string, string> = {
   outbox: 'outbox',
   payments: 'payments',
   customers: 'customers',
+  invitations: 'invitations',
 };
 
 function tableOf(path: string, param: string): string | undefined {

@@ -3,13 +3,15 @@ import { useState } from 'react';
 import { ROLE_LABELS, ROLES, type Role, type User, type UserListQuery } from '@shared/schemas/auth';
 import { Alert } from '@/components/alert';
 import { Button } from '@/components/button';
-import { PageHeader } from '@/components/card';
+import { Card, PageHeader } from '@/components/card';
 import type { Column } from '@/components/data-table';
 import { SearchBox } from '@/components/search-box';
 import { PagedTable } from '@/components/paged-table';
 import { useMe } from '@/lib/me';
 import { useTableState } from '@/lib/use-table-state';
 import { useUpdateUser, useUsers } from '../api/users';
+import { InvitationsTable } from '../components/invitations-table';
+import { InviteForm } from '../components/invite-form';
 import { AddUserDialog } from '../components/user-form-dialog';
 import { ResetPasswordDialog } from '../components/reset-password-dialog';
 
@@ -106,13 +108,23 @@ export function UsersPage() {
     <>
       <PageHeader
         title="Users"
-        description="Who may sign in to the workshop's Shellwright, and in which role."
+        description="Who may sign in to the workshop's Shellwright, and in which role. Invite people by e-mail: they choose their own name and password."
         actions={
-          <Button onClick={() => setAdding(true)}>
+          <Button variant="secondary" onClick={() => setAdding(true)}>
             <Plus className="h-4 w-4" aria-hidden /> Add user
           </Button>
         }
       />
+      <div className="mb-6 space-y-4">
+        <Card title="Invite someone">
+          <InviteForm />
+        </Card>
+        <section aria-labelledby="invitations-heading" className="space-y-2">
+          <h2 id="invitations-heading" className="text-lg font-semibold text-walnut-800">Invitations</h2>
+          <InvitationsTable />
+        </section>
+      </div>
+      <h2 className="mb-2 font-serif text-lg font-semibold text-walnut-900">People with an account</h2>
       <div className="mb-4 flex flex-wrap items-end gap-3">
         <SearchBox value={table.state.q} onSearch={table.setSearch} label="Search users by name or e-mail" placeholder="Search name or e-mail" className="w-72" />
         <select
