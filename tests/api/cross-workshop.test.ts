@@ -9,8 +9,7 @@ import pg from 'pg';
 import type request from 'supertest';
 import { afterAll, beforeAll, describe, expect, it } from 'vitest';
 import { can, isPermission, ROLES, type Role } from '../../shared/roles';
-import { allWorkshopIds } from '../../server/db/workshop-context';
-import { closeTestApp, getTestApp, signIn, testDatabaseUrl, type Session } from '../helpers/app';
+import { closeTestApp, demoWorkshopId, getTestApp, signIn, testDatabaseUrl, type Session } from '../helpers/app';
 import { createOtherWorkshop, OTHER_PASSWORD } from '../helpers/workshops';
 
 const { app, routes, sequelize } = getTestApp();
@@ -88,7 +87,7 @@ const lists = signedIn.filter((r) => r.method === 'get' && !r.path.includes('/:'
 
 beforeAll(async () => {
   await owner.connect();
-  workshopA = (await allWorkshopIds(sequelize))[0]!;
+  workshopA = (await demoWorkshopId(sequelize))!;
   for (const table of new Set([...Object.values(PARAM_TABLES), 'estimate_revisions'])) {
     const { rows } = await owner.query<{ id: string }>(`SELECT id::text AS id FROM "${table}" WHERE workshop_id = $1 ORDER BY ctid DESC LIMIT 1`, [workshopA]);
     if (rows[0]) idsOfA.set(table, rows[0].id);
