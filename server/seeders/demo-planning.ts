@@ -176,8 +176,8 @@ export async function loadDemoPlanning(
   demo: { users: readonly { email: string; role: Role }[]; planning: DemoPlanning },
   log: (m: string) => void = () => {},
 ): Promise<void> {
-  const emails = (['estimator', 'sales', 'workshop'] as const).map((role) => demoEmailOf(demo.users, role));
-  const [estimator, sales, planner] = await Promise.all(emails.map((email) => User.findOne({ where: { email } })));
+  const userOf = (role: Role) => User.findOne({ where: { email: demoEmailOf(demo.users, role) } });
+  const [estimator, sales, planner] = await Promise.all([userOf('estimator'), userOf('sales'), userOf('workshop')]);
   if (!estimator || !sales || !planner) return;
   if ((await Polisher.count()) === 0) {
     for (const p of demo.planning.polishers) await Polisher.create({ ...p, active: true });
