@@ -10,8 +10,7 @@ import { clientProgram, clusterUrl, describeCluster, ensureDatabase, findServerB
 import { DEV_DATABASE, resolveDatabaseUrl } from '../db/connect';
 import { createMigrator } from '../db/migrator';
 import { createSequelize } from '../db/sequelize';
-import { initModels } from '../models';
-import { seed } from '../seeders';
+import { prepareDatabase } from '../index';
 import { QUEUE_SCHEMA } from '../services/messages/queue';
 
 const config = loadConfig();
@@ -58,12 +57,10 @@ async function main(command: string | undefined, arg: string | undefined): Promi
       startCluster(cluster);
       await ensureDatabase(cluster, DEV_DATABASE, { fresh: true });
       fs.rmSync(config.uploadsDir, { recursive: true, force: true });
-      const sequelize = createSequelize(clusterUrl(cluster, DEV_DATABASE));
-      await createMigrator(sequelize).up();
-      initModels(sequelize);
-      await seed(sequelize, { demo: config.demo, uploadsDir: config.uploadsDir, log: (m) => console.log(`[demo] ${m}`) });
-      await sequelize.close();
-      console.log('[db] reset: fresh database with migrations and the demo workshop');
+      // Migrations as the owner, then the defaults and demo through the app's role, which row-level security binds
+      // (as `npm start` does): seeding as the owner would see every workshop's rows at once.
+      await prepareDatabase(config, clusterUrl(cluster, DEV_DATABASE));
+      console.log(`[db] reset: fresh database with migrations${config.demo ? ' and the demo workshops' : ''}`);
       return;
     }
     case 'backup':

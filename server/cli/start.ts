@@ -1,12 +1,14 @@
 /**
- * `npm start`: the private PostgreSQL on loopback (installed and created on first run), migrations, the demo
- * workshop, the client build when stale, then one Express process serving app and API on 127.0.0.1:3000.
+ * `npm start`: the private PostgreSQL on loopback (installed and created on first run), migrations, the two demo
+ * workshops, the client build when stale, then one Express process serving app and API on 127.0.0.1:3000.
  * Ctrl-C stops the server, and the private database if this command started it; the data stays in .data/.
  */
 import { loadConfig } from '../config';
 import { clusterUrl, describeCluster, ensureDatabase, startCluster, stopCluster, type Cluster } from '../db/cluster';
 import { DEV_DATABASE } from '../db/connect';
 import { runServer } from '../index';
+import { DEMOS } from '../seeders';
+import { DEMO_PASSWORD } from '../seeders/demo';
 import { buildClientIfNeeded } from './build-client';
 
 async function main(): Promise<void> {
@@ -21,8 +23,9 @@ async function main(): Promise<void> {
   await buildClientIfNeeded();
   const running = await runServer(config);
   if (config.demo) {
-    console.log('[start] demo sign-ins (demo only): owner@example.com, estimator@example.com, sales@example.com,');
-    console.log('[start]   workshop@example.com — password shellwright-demo');
+    // Two invented workshops, kept apart: each person signs in to their own.
+    console.log(`[start] demo sign-ins (demo only), password ${DEMO_PASSWORD}:`);
+    for (const { workshop } of DEMOS) console.log(`[start]   ${workshop.name}: ${workshop.users.map((u) => u.email).join(', ')}`);
   }
   console.log('[start] Ctrl-C stops it; the data stays in .data/ for next time.');
   for (const signal of ['SIGINT', 'SIGTERM'] as const) {

@@ -1,11 +1,11 @@
 import { secureRouter, type RouteInfo } from '../http/guard';
 import { problems } from '../http/problem';
-import { Workshop } from '../models';
+import { currentWorkshop } from '../services/workshops';
 
 export function workshopRoutes(table: RouteInfo[]) {
   const r = secureRouter('/api/workshop', table);
   r.get('', 'signed-in', async (_req, res) => {
-    const workshop = await Workshop.findOne({ order: [['id', 'ASC']] });
+    const workshop = await currentWorkshop();
     if (!workshop) throw problems.notFound('The workshop');
     res.json(workshop.toDto());
   });

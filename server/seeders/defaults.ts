@@ -1,14 +1,14 @@
 /**
- * Defaults every workshop starts with, demo or not: the preset wood species and finishing systems, a workshop row
- * with default settings, the standard materials (packs without prices until the owner enters them) and the labour
- * rates. Idempotent and additive: it only fills in what is missing and never overwrites the owner's edits.
+ * Defaults every workshop starts with, demo or not: the preset wood species and finishing systems, the standard
+ * materials (packs without prices until the owner enters them) and the labour rates; `DEFAULT_SETTINGS` for a new
+ * workshop's row. Idempotent and additive: it only fills in what is missing and never overwrites the owner's edits.
  */
 import type { Sequelize, Transaction } from 'sequelize';
 import { DEFAULT_FACTORS, DEFAULT_SHELLAC, DEFAULT_SPECIES, DEFAULT_SYSTEMS } from '@shared/calc';
 import { DEMO_MATERIALS } from '@shared/calc/presets/demo-materials';
 import type { WorkshopSettings } from '@shared/schemas/workshop';
 import { DEFAULT_TIME_ZONE, today } from '@shared/time';
-import { FinishingSystem, LabourRate, Material, MaterialPack, PackPrice, Species, Workshop } from '../models';
+import { FinishingSystem, LabourRate, Material, MaterialPack, PackPrice, Species } from '../models';
 
 /** Settings of a new workshop (the owner reviews them on the settings page). */
 export const DEFAULT_SETTINGS: WorkshopSettings = {
@@ -79,15 +79,14 @@ async function materials(transaction: Transaction): Promise<void> {
 }
 
 /**
- * Fills in the defaults of the workshop the caller runs under. With `outer`, inside the caller's transaction (the
- * sign-up writes the workshop, its defaults and its owner as one); otherwise in a transaction of its own.
+ * Fills in the defaults of the workshop the caller runs under (`runAsWorkshop`). The workshop's row comes first, from
+ * `createWorkshop` (sign-up, the demo, `npm run user:add -- … --new-workshop`); this never makes one. With `outer`,
+ * inside the caller's transaction (the sign-up writes the workshop, its defaults and its owner as one); otherwise in
+ * a transaction of its own.
  */
 export async function ensureDefaults(sequelize: Sequelize, outer?: Transaction): Promise<void> {
   const fill = async (transaction: Transaction) => {
     await presets(transaction);
-    if (!(await Workshop.findOne({ transaction }))) {
-      await Workshop.create({ name: 'Your workshop', email: null, phone: null, address: null, settings: DEFAULT_SETTINGS }, { transaction });
-    }
     await materials(transaction);
     for (const rate of [
       { key: 'polisher', name: 'French polisher' },

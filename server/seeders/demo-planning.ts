@@ -1,5 +1,5 @@
 /**
- * The demo workshop's planning: three polishers, two finished jobs with their actual hours (for the actuals
+ * A demo workshop's planning (`DEMO_PLANNING` for the first, `DEMO_PLANNING_2`, smaller, for the second). The first's: three polishers, two finished jobs with their actual hours (for the actuals
  * report), a job in progress with sessions done (one of them late, so the rest of it moved), a job booked at the
  * earliest start, and an accepted quote waiting to be booked. Dates are laid relative to the day the demo is
  * loaded, so the board is never empty on first start. All invented. Idempotent: keyed on the customers' e-mail
@@ -9,6 +9,7 @@ import type { Sequelize } from 'sequelize';
 import { fromMinutes, toMinutes } from '@shared/calc';
 import type { EstimateInput } from '@shared/schemas/calc';
 import type { JobStageKind } from '@shared/schemas/planning';
+import type { Role } from '@shared/schemas/auth';
 import type { PieceKind } from '@shared/schemas/customers';
 import { CreateQuoteSchema } from '@shared/schemas/quotes';
 import { Customer, Estimate, Material, MaterialStock, Piece, Polisher, Quote, QuoteLine, User } from '../models';
@@ -16,6 +17,7 @@ import { createEstimate, setEstimateState } from '../services/estimates';
 import { bookJob, createJob, getJob, markSessionDone } from '../services/planning';
 import { addDays, localNow } from '../services/planning-context';
 import { createQuote } from '../services/quotes';
+import { demoEmailOf } from './demo-work';
 
 /** What the demo shelf holds, in each material's own unit. */
 const STOCK: Record<string, number> = { 'shellac-flakes': 500, spirit: 4000, wadding: 1000, 'polishing-cloth': 20, 'abrasive-sheet': 10, wax: 400 };
@@ -29,7 +31,7 @@ const POLISHERS = [
 
 type Plan = { kind: 'finished'; startDaysAgo: number } | { kind: 'in-progress'; startDaysAgo: number } | { kind: 'booked' } | { kind: 'accepted' };
 
-interface DemoPlanned {
+export interface DemoPlanned {
   customer: { name: string; email: string; phone: string; address: string };
   piece: { kind: PieceKind; description: string; maker: string; year: number; dimensions: Record<string, string>; conditionNotes: string };
   input: EstimateInput;
@@ -132,12 +134,54 @@ async function progress(sequelize: Sequelize, userId: number, jobId: number, opt
   }
 }
 
-export async function loadDemoPlanning(sequelize: Sequelize, log: (m: string) => void = () => {}): Promise<void> {
-  const [estimator, sales, planner] = await Promise.all(['estimator@example.com', 'sales@example.com', 'workshop@example.com'].map((email) => User.findOne({ where: { email } })));
+/** What a demo workshop plans: its polishers and the jobs of its customers. */
+export interface DemoPlanning {
+  polishers: readonly { name: string; hoursPerDay: number; daysOff: string[] }[];
+  jobs: readonly DemoPlanned[];
+}
+
+export const DEMO_PLANNING: DemoPlanning = { polishers: POLISHERS, jobs: JOBS };
+
+/** The second demo workshop: two polishers, one finished job, one booked, one accepted quote. */
+export const DEMO_PLANNING_2: DemoPlanning = {
+  polishers: [
+    { name: 'Griselda Fenwick-Oddie', hoursPerDay: 8.5, daysOff: [] },
+    { name: 'Ptolemy Arkwright', hoursPerDay: 7, daysOff: [] },
+  ],
+  jobs: [
+    {
+      customer: { name: 'Honoria Pendlebrook', email: 'honoria.pendlebrook@example.net', phone: '01632 961 602', address: 'Lark Rise, Mill Hill\nQuernstone Parva QP3 1MC' },
+      piece: { kind: 'grand', description: 'Rosewood drawing-room grand', maker: 'Castellane & Webb', year: 1902, dimensions: { length: '6 ft 1 in', width: '4 ft 10 in', rimHeight: '13 in' }, conditionNotes: 'Lid and fall ring-marked; rim polish perished.' },
+      input: { piece: { template: 'grand', dimensions: { length: '6 ft 1 in', width: '4 ft 10 in', rimHeight: '13 in' }, species: 'rosewood', veneered: true }, system: 'full-repolish' },
+      plan: { kind: 'finished', startDaysAgo: 70 },
+    },
+    {
+      customer: { name: 'Ambrose Kettleworth', email: 'ambrose.kettleworth@example.net', phone: '01632 961 738', address: '4 Tanners\u2019 Steps\nSallowfield SF2 9KO' },
+      piece: { kind: 'furniture', description: 'Oak bureau with fall front', maker: 'Unknown', year: 1760, dimensions: { height: '3 ft 4 in', width: '3 ft', depth: '20 in' }, conditionNotes: 'Old polish dark and sticky; fall front sound.' },
+      input: { piece: { template: 'cabinet', dimensions: { height: '3 ft 4 in', width: '3 ft', depth: '20 in' }, species: 'oak', veneered: false }, system: 'full-repolish' },
+      plan: { kind: 'booked' },
+    },
+    {
+      customer: { name: 'Seraphina Dunnock', email: 'seraphina.dunnock@example.net', phone: '01632 961 115', address: 'Holly Lodge\nQuernstone Parva QP4 6VC' },
+      piece: { kind: 'square', description: 'Mahogany square piano on turned legs', maker: 'Brightmoor of Haymarket Row', year: 1832, dimensions: { length: '5 ft 6 in', width: '2 ft', height: '34 in' }, conditionNotes: 'Finish worn on the lid edges; cross-banding sound.' },
+      input: { piece: { template: 'square', dimensions: { length: '5 ft 6 in', width: '2 ft', height: '34 in' }, species: 'mahogany', veneered: true }, system: 're-body' },
+      plan: { kind: 'accepted' },
+    },
+  ],
+};
+
+/** Loads `planning` under the current workshop, done by its people (users of `users`, found by role). */
+export async function loadDemoPlanning(
+  sequelize: Sequelize,
+  demo: { users: readonly { email: string; role: Role }[]; planning: DemoPlanning },
+  log: (m: string) => void = () => {},
+): Promise<void> {
+  const userOf = (role: Role) => User.findOne({ where: { email: demoEmailOf(demo.users, role) } });
+  const [estimator, sales, planner] = await Promise.all([userOf('estimator'), userOf('sales'), userOf('workshop')]);
   if (!estimator || !sales || !planner) return;
   if ((await Polisher.count()) === 0) {
-    for (const p of POLISHERS) await Polisher.create({ ...p, active: true });
-    log(`${POLISHERS.length} polishers added`);
+    for (const p of demo.planning.polishers) await Polisher.create({ ...p, active: true });
+    log(`${demo.planning.polishers.length} polishers added`);
   }
   if ((await MaterialStock.count()) === 0) {
     for (const m of await Material.findAll({ where: { key: Object.keys(STOCK) } })) {
@@ -146,7 +190,7 @@ export async function loadDemoPlanning(sequelize: Sequelize, log: (m: string) =>
   }
   const now = localNow();
   const today = now.slice(0, 10);
-  for (const job of JOBS) {
+  for (const job of demo.planning.jobs) {
     if (await Customer.findOne({ where: { email: job.customer.email } })) continue;
     const quoteId = await accepted(sequelize, job, { estimator, sales });
     if (job.plan.kind === 'accepted') {

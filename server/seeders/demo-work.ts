@@ -1,16 +1,18 @@
 /**
- * The demo workshop's customers, their pieces with drawings for condition photos, and estimates in different
- * states. All invented. Idempotent: keyed on the customers' e-mail addresses.
+ * A demo workshop's customers, their pieces with drawings for condition photos, and estimates in different
+ * states: `DEMO_WORK` for the first workshop, `DEMO_WORK_2` (smaller, measured in feet and inches) for the second.
+ * All invented. Idempotent: keyed on the customers' e-mail addresses, within the workshop it runs under.
  */
 import type { Sequelize } from 'sequelize';
 import type { EstimateInput } from '@shared/schemas/calc';
 import type { PieceKind } from '@shared/schemas/customers';
+import type { Role } from '@shared/schemas/auth';
 import { Customer, Piece, User } from '../models';
 import { addPhotos } from '../services/photos';
 import { createEstimate, reviseEstimate, setEstimateState } from '../services/estimates';
 import { demoDrawing } from './demo-drawings';
 
-interface DemoJob {
+export interface DemoJob {
   customer: { name: string; email: string; phone: string; address: string; notes?: string };
   piece: { kind: PieceKind; description: string; maker: string; year: number; serial: string | null; dimensions: Record<string, string>; conditionNotes: string };
   drawing: { kind: 'grand' | 'upright' | 'square' | 'table'; wood: string; captions: string[] };
@@ -19,7 +21,7 @@ interface DemoJob {
   state: 'draft' | 'priced';
 }
 
-const JOBS: DemoJob[] = [
+export const DEMO_WORK: DemoJob[] = [
   {
     customer: { name: 'Araminta Coldstream', email: 'araminta.coldstream@example.com', phone: '01632 960 233', address: '3 Orchard Rise\nHebbleton HB2 9IK', notes: 'Prefers contact by e-mail. Collection by arrangement.' },
     piece: {
@@ -83,10 +85,57 @@ const JOBS: DemoJob[] = [
   },
 ];
 
-export async function loadDemoWork(sequelize: Sequelize, uploadsDir: string, log: (m: string) => void = () => {}): Promise<void> {
-  const estimator = await User.findOne({ where: { email: 'estimator@example.com' } });
+/** The second demo workshop's customers: fewer, measured in feet and inches. */
+export const DEMO_WORK_2: DemoJob[] = [
+  {
+    customer: { name: 'Evangeline Sharrowby', email: 'evangeline.sharrowby@example.net', phone: '01632 961 384', address: '11 Ropewalk Terrace\nQuernstone Parva QP1 4VK', notes: 'Telephone after six in the evening.' },
+    piece: {
+      kind: 'upright',
+      description: 'Ebonised overstrung upright with brass candle sconces',
+      maker: 'Haverill & Stoke',
+      year: 1889,
+      serial: '7 113',
+      dimensions: { height: '4 ft 1 in', width: '4 ft 10 in', depth: '25 in' },
+      conditionNotes: 'Polish dull and scratched on the fall and the top; sconces sound.',
+    },
+    drawing: { kind: 'upright', wood: '#2b2220', captions: ['Front, scratched fall'] },
+    input: { piece: { template: 'upright', dimensions: { height: '4 ft 1 in', width: '4 ft 10 in', depth: '25 in' }, species: 'ebonised', veneered: false }, system: 're-body' },
+    state: 'priced',
+  },
+  {
+    customer: { name: 'Thaddeus Inglenook-Price', email: 'thaddeus.inglenookprice@example.net', phone: '01632 961 950', address: 'Wicket Farm, Long Drove\nSallowfield SF6 2CI' },
+    piece: {
+      kind: 'furniture',
+      description: 'Figured walnut loo table, tilt top',
+      maker: 'Unknown',
+      year: 1855,
+      serial: null,
+      dimensions: { length: '4 ft 2 in', width: '3 ft 5 in', height: '28 in' },
+      conditionNotes: 'Top sun-bleached at one side; heat mark in the middle; base good.',
+    },
+    drawing: { kind: 'table', wood: '#6b4426', captions: ['Top from above'] },
+    input: { piece: { template: 'table', dimensions: { length: '4 ft 2 in', width: '3 ft 5 in', height: '28 in' }, species: 'walnut', veneered: true }, system: 'revive' },
+    state: 'draft',
+  },
+];
+
+/** The e-mail of a demo workshop's user of that role. */
+export function demoEmailOf(users: readonly { email: string; role: Role }[], role: Role): string {
+  const user = users.find((u) => u.role === role);
+  if (!user) throw new Error(`the demo workshop has no ${role}`);
+  return user.email;
+}
+
+/** Loads `jobs` under the current workshop, made by its estimator (a user of `users`). */
+export async function loadDemoWork(
+  sequelize: Sequelize,
+  uploadsDir: string,
+  demo: { users: readonly { email: string; role: Role }[]; jobs: readonly DemoJob[] },
+  log: (m: string) => void = () => {},
+): Promise<void> {
+  const estimator = await User.findOne({ where: { email: demoEmailOf(demo.users, 'estimator') } });
   if (!estimator) return;
-  for (const job of JOBS) {
+  for (const job of demo.jobs) {
     if (await Customer.findOne({ where: { email: job.customer.email } })) continue;
     const customer = await Customer.create({ ...job.customer, notes: job.customer.notes ?? null });
     const piece = await Piece.create({ customerId: customer.id, ...job.piece });

@@ -40,7 +40,8 @@ import { localToday } from '@shared/schemas/dates';
 import { mirrorEstimate, moveQuote } from '@shared/schemas/state-moves';
 import type { Config } from '../config';
 import { HttpProblem, problems } from '../http/problem';
-import { AccountDocument, AccountEntry, AccountSetting, Customer, Estimate, Job, JobVariation, OutboxMessage, Payment, Quote, QuoteLine, User, Workshop } from '../models';
+import { AccountDocument, AccountEntry, AccountSetting, Customer, Estimate, Job, JobVariation, OutboxMessage, Payment, Quote, QuoteLine, User, type Workshop } from '../models';
+import { currentWorkshop } from './workshops';
 import type { DocumentContent } from '../models/accounts';
 import { renderAccountPdf } from '../pdf/account-pdf';
 import { formatDate, formatMoney } from '../pdf/pdf-format';
@@ -515,7 +516,7 @@ export async function recordPayment(sequelize: Sequelize, config: Config, actorI
 // -------------------------------------------------------------------------------------- staff: invoices
 
 async function workshopId(transaction?: Transaction): Promise<number> {
-  const w = await Workshop.findOne({ order: [['id', 'ASC']], attributes: ['id'], transaction });
+  const w = await currentWorkshop(transaction);
   if (!w) throw problems.notFound('The workshop');
   return w.id;
 }

@@ -8,7 +8,8 @@ import { CatalogSchema, type Catalog, type Material as CatalogMaterial } from '@
 import { WorkshopSettingsSchema, type WorkshopSettings } from '@shared/schemas/workshop';
 import { DEFAULT_TIME_ZONE, setWorkshopTimeZone, today } from '@shared/time';
 import { HttpProblem, problems } from '../http/problem';
-import { FinishingSystem, LabourRate, Material, Species, Workshop } from '../models';
+import { FinishingSystem, LabourRate, Material, Species, type Workshop } from '../models';
+import { currentWorkshop } from './workshops';
 import type { SharedCaches } from './shared-caches';
 import { allOf } from '../db/queries';
 import { currentWorkshopId } from '../db/workshop-context';
@@ -38,7 +39,7 @@ function money(value: string): string {
 
 /** The workshop's settings, checked against the shared schema. */
 export async function loadSettings(transaction?: Transaction): Promise<{ workshop: Workshop; settings: WorkshopSettings }> {
-  const workshop = await Workshop.findOne({ order: [['id', 'ASC']], transaction });
+  const workshop = await currentWorkshop(transaction);
   if (!workshop) throw problems.notFound('The workshop');
   const parsed = WorkshopSettingsSchema.safeParse(workshop.settings);
   if (!parsed.success) {

@@ -13,7 +13,8 @@ import { formatArea } from '@shared/units';
 import type { Config } from '../config';
 import { HttpProblem } from '../http/problem';
 import type { AcceptanceRecord } from '../pdf/acceptance-pdf';
-import { Customer, Estimate, EstimateRevision, Payment, Piece, Quote, QuoteLine, Workshop } from '../models';
+import { Customer, Estimate, EstimateRevision, Payment, Piece, Quote, QuoteLine } from '../models';
+import { currentWorkshop } from './workshops';
 import { audit } from './audit';
 import { loadSettings } from './catalog';
 import { deliver } from './mail';
@@ -93,7 +94,7 @@ export async function viewQuote(config: Config, token: string): Promise<PublicQu
     Customer.findByPk(estimate.customerId),
     Piece.findByPk(estimate.pieceId),
     EstimateRevision.findByPk(quote.revisionId),
-    Workshop.findOne({ order: [['id', 'ASC']] }),
+    currentWorkshop(),
     loadSettings(),
   ]);
   const r = revision!.result;

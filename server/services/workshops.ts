@@ -4,7 +4,7 @@
  */
 import { QueryTypes, type Sequelize, type Transaction } from 'sequelize';
 import type { WorkshopSettings } from '@shared/schemas/workshop';
-import { runAsWorkshop } from '../db/workshop-context';
+import { currentWorkshopId, runAsWorkshop } from '../db/workshop-context';
 import { Workshop } from '../models';
 
 export interface NewWorkshop {
@@ -31,4 +31,14 @@ export async function createWorkshop(sequelize: Sequelize, fields: NewWorkshop):
   const id = await reserveWorkshopId(sequelize);
   await runAsWorkshop(id, () => insertWorkshop(id, fields));
   return id;
+}
+
+/**
+ * The workshop the current work runs under (a request's, a public link's, a background unit's): read by the scope's
+ * id, never "the first workshop". Row-level security shows no other; outside any scope this is whatever workshop the
+ * connection's setting names (none in the app), so callers treat null as not found.
+ */
+export async function currentWorkshop(transaction?: Transaction): Promise<Workshop | null> {
+  const id = currentWorkshopId();
+  return id === undefined ? Workshop.findOne({ transaction }) : id === null ? null : Workshop.findByPk(id, { transaction });
 }

@@ -17,7 +17,8 @@ import Stripe from 'stripe';
 import request from 'supertest';
 import { afterAll, beforeAll, describe, expect, it } from 'vitest';
 import type { AccountDto, OwedPage, PublicAccount } from '../../shared/schemas/accounts';
-import { AccountDocument, AccountEntry, Job, Payment, Quote, Workshop } from '../../server/models';
+import { AccountDocument, AccountEntry, Job, Payment, Quote } from '../../server/models';
+import { currentWorkshop } from '../../server/services/workshops';
 import { balanceOf, taxSplit } from '../../server/services/accounts';
 import { createSequelize } from '../../server/db/sequelize';
 import { closeTestApp, getTestApp, signInAs, startServices, testDatabaseUrl, type Session } from '../helpers/app';
@@ -42,7 +43,7 @@ beforeAll(async () => {
   sales = await signInAs(app, 'sales');
   owner = await signInAs(app, 'owner');
   // The figures below are worked by hand at 20 % VAT: this file sets the workshop's rate, and puts it back after.
-  const w = (await Workshop.findOne({ order: [['id', 'ASC']] }))!;
+  const w = (await currentWorkshop())!;
   keptPricing = { taxPct: w.settings.pricing.taxPct, taxLabel: w.settings.pricing.taxLabel };
   await w.update({ settings: { ...w.settings, pricing: { ...w.settings.pricing, taxPct: 20, taxLabel: 'VAT' } } });
   keptStage = (await owner.agent.get('/api/accounts/settings').expect(200)).body.invoiceStage;
@@ -52,7 +53,7 @@ beforeAll(async () => {
 afterAll(async () => {
   await ownerDb.close();
   if (keptPricing) {
-    const w = (await Workshop.findOne({ order: [['id', 'ASC']] }))!;
+    const w = (await currentWorkshop())!;
     await w.update({ settings: { ...w.settings, pricing: { ...w.settings.pricing, ...keptPricing } } });
   }
   if (keptStage && owner) await put(owner, '/api/accounts/settings', { invoiceStage: keptStage });

@@ -9,9 +9,8 @@ import pg from 'pg';
 import type request from 'supertest';
 import { afterAll, beforeAll, describe, expect, it } from 'vitest';
 import { can, isPermission, ROLES, type Role } from '../../shared/roles';
-import { allWorkshopIds } from '../../server/db/workshop-context';
-import { closeTestApp, getTestApp, signIn, testDatabaseUrl, type Session } from '../helpers/app';
-import { createOtherWorkshop, OTHER_PASSWORD } from '../helpers/workshops';
+import { closeTestApp, demoWorkshopId, getTestApp, signIn, testDatabaseUrl, type Session } from '../helpers/app';
+import { createOtherWorkshop, crossWorkshopReferences, OTHER_PASSWORD, PARAM_TABLES, tableOf } from '../helpers/workshops';
 
 const { app, routes, sequelize } = getTestApp();
 const owner = new pg.Client({ connectionString: testDatabaseUrl() });
@@ -21,41 +20,8 @@ let workshopA: number;
 const idsOfA = new Map<string, string>();
 /** Strings only A's rows hold: customer names, user e-mails, the workshop's name. */
 let markers: string[] = [];
-
-/** The table behind a path parameter, from the path segment before it. */
-const PARAM_TABLES: Record<string, string> = {
-  users: 'users',
-  'labour-rates': 'labour_rates',
-  'accounts/quotes': 'quotes',
-  documents: 'account_documents',
-  'finishing-systems': 'finishing_systems',
-  species: 'species',
-  stock: 'materials',
-  jobs: 'jobs',
-  sessions: 'job_sessions',
-  polishers: 'polishers',
-  materials: 'materials',
-  packs: 'material_packs',
-  'price-files': 'price_file_previews',
-  'purchase-orders': 'purchase_orders',
-  pieces: 'pieces',
-  photos: 'piece_photos',
-  'progress-photos': 'piece_photos',
-  variations: 'job_variations',
-  estimates: 'estimates',
-  quotes: 'quotes',
-  outbox: 'outbox',
-  payments: 'payments',
-  customers: 'customers',
-  invitations: 'invitations',
-};
-
-function tableOf(path: string, param: string): string | undefined {
-  const before = path.split(`/:${param}`)[0]!.split('/');
-  const last = before.at(-1)!;
-  if (param === 'number') return 'estimate_revisions';
-  return PARAM_TABLES[`${before.at(-2)}/${last}`] ?? PARAM_TABLES[last];
-}
+/** A's estimate, quote, job and purchase order numbers. */
+let numbersOfA: string[] = [];
 
 /** The route's path with A's ids in it, or undefined when A has no such row yet. */
 function aimedAtA(path: string): string | undefined {
@@ -89,7 +55,7 @@ const lists = signedIn.filter((r) => r.method === 'get' && !r.path.includes('/:'
 
 beforeAll(async () => {
   await owner.connect();
-  workshopA = (await allWorkshopIds(sequelize))[0]!;
+  workshopA = (await demoWorkshopId(sequelize))!;
   for (const table of new Set([...Object.values(PARAM_TABLES), 'estimate_revisions'])) {
     const { rows } = await owner.query<{ id: string }>(`SELECT id::text AS id FROM "${table}" WHERE workshop_id = $1 ORDER BY ctid DESC LIMIT 1`, [workshopA]);
     if (rows[0]) idsOfA.set(table, rows[0].id);
@@ -99,6 +65,13 @@ beforeAll(async () => {
     [workshopA],
   );
   markers = names.map((r) => r.m).filter((m) => m.length >= 8);
+  // A's record numbers (EST-, Q-, JOB-, PO-), searched for in every list below.
+  const { rows: numbers } = await owner.query<{ n: string }>(
+    `(SELECT number AS n FROM estimates WHERE workshop_id = $1 ORDER BY id LIMIT 1) UNION ALL (SELECT number FROM quotes WHERE workshop_id = $1 ORDER BY id LIMIT 1)
+     UNION ALL (SELECT number FROM jobs WHERE workshop_id = $1 ORDER BY id LIMIT 1) UNION ALL (SELECT number FROM purchase_orders WHERE workshop_id = $1 ORDER BY id LIMIT 1)`,
+    [workshopA],
+  );
+  numbersOfA = numbers.map((r) => r.n);
   const other = await createOtherWorkshop(sequelize, 'Tallowgate Finishing Rooms');
   for (const role of ROLES) sessions[role] = await signIn(app, other.emails[role], OTHER_PASSWORD);
 });
@@ -115,6 +88,7 @@ describe('cross-workshop matrix', () => {
 
   it('finds objects of A for the routes to aim at', () => {
     expect(markers.length).toBeGreaterThan(3);
+    expect(numbersOfA.length).toBeGreaterThanOrEqual(3);
     for (const t of ['customers', 'pieces', 'estimates', 'quotes', 'jobs', 'users', 'materials', 'piece_photos']) expect(idsOfA.has(t), t).toBe(true);
   });
 
@@ -144,16 +118,20 @@ describe('cross-workshop matrix', () => {
   }
 
   for (const route of lists) {
-    it(`GET ${route.path}: every role of B sees none of A's rows, also when searching A's names`, async () => {
+    it(`GET ${route.path}: every role of B sees none of A's rows, also when searching A's names and numbers`, async () => {
       for (const role of ROLES) {
         const allowed = route.access === 'signed-in' || (isPermission(route.access) && can(role, route.access));
         if (!allowed) continue;
-        for (const query of [{}, { q: markers[0]!.split(' ')[0]! }]) {
+        for (const query of [{}, { q: markers[0]!.split(' ')[0]! }, ...numbersOfA.map((n) => ({ q: n, number: n }))]) {
           const res = await sessions[role].agent.get(route.path).query(query);
           expect(res.status, `${role} ${JSON.stringify(query)}`).toBeLessThan(500);
-          for (const m of markers) expect(res.text, `${role} ${route.path}`).not.toContain(m);
+          for (const m of [...markers, ...numbersOfA]) expect(res.text, `${role} ${route.path} ${JSON.stringify(query)}`).not.toContain(m);
         }
       }
     });
   }
+
+  it("leaves no row of any workshop referencing another workshop's row", async () => {
+    expect(await crossWorkshopReferences(owner)).toEqual([]);
+  });
 });

@@ -14,7 +14,9 @@ import request from 'supertest';
 import { afterAll, beforeAll, beforeEach, describe, expect, it } from 'vitest';
 import pg from 'pg';
 import { QueryTypes } from 'sequelize';
-import { closeTestApp, getTestApp, signInAs, startServices, testDatabaseUrl, type Session } from '../helpers/app';
+import { can, isPermission, ROLES, type Role } from '../../shared/roles';
+import { closeTestApp, demoWorkshopId, getTestApp, signIn, signInAs, startServices, testDatabaseUrl, type Session } from '../helpers/app';
+import { createOtherWorkshop, crossWorkshopReferences, idsOfWorkshop, OTHER_PASSWORD, tableOf } from '../helpers/workshops';
 
 const { app, routes, sequelize } = getTestApp();
 /** The database's owner, for the fingerprint (see below). */
@@ -441,5 +443,125 @@ describe('input classes at every write route and every public route', () => {
       expect(res.status, path).toBe(400);
       expect(JSON.parse(res.text).code).toBe('bad_path');
     }
+  });
+});
+
+// ------------------------------------------------------------------------------ another workshop at the demo's objects
+
+/**
+ * The same generated requests, sent by each role of another workshop (B) at the demo workshop's (A) objects: A's ids
+ * and revision numbers in the path, and A's ids in every id field of the body. A route that names an object of A in
+ * its path answers 404 (or 400 for input refused before the object is looked up): never 403, never 2xx, never a 5xx.
+ * A route that names none may do its work in B (a new customer of B is fine), but never shows, changes or references
+ * anything of A. A's rows, read by the owner past row-level security, are the same at the end of every route.
+ */
+describe("another workshop's people at the demo workshop's objects", () => {
+  let a = 0;
+  let idsOfA = new Map<string, string[]>();
+  let markersOfA: string[] = [];
+  const sessionsOfB = {} as Record<Role, Session>;
+  let aFingerprintSql: string | undefined;
+
+  /** A's rows only (the workshop row by its id), as one hash a table; the outbox's delivery state left out as above. */
+  async function fingerprintOfA(): Promise<string> {
+    if (!aFingerprintSql) {
+      const { rows: columns } = await ownerDb.query<{ t: string; c: string; binary: boolean }>(
+        `SELECT c.table_name::text AS t, c.column_name::text AS c, c.data_type = 'bytea' AS binary
+           FROM information_schema.columns c JOIN information_schema.tables t USING (table_schema, table_name)
+          WHERE c.table_schema = 'public' AND t.table_type = 'BASE TABLE'
+            AND (c.table_name = 'workshops' OR EXISTS (SELECT 1 FROM information_schema.columns w
+                  WHERE w.table_schema = 'public' AND w.table_name = c.table_name AND w.column_name = 'workshop_id'))
+          ORDER BY c.table_name, c.ordinal_position`,
+      );
+      const tables = new Map<string, string[]>();
+      for (const { t, c, binary } of columns) {
+        if (DELIVERY_STATE[t]?.has(c)) continue;
+        tables.set(t, [...(tables.get(t) ?? []), binary ? `md5(x."${c}")` : `x."${c}"`]);
+      }
+      aFingerprintSql = [...tables]
+        .map(([t, cols]) => `SELECT '${t}' AS t, md5(coalesce(string_agg(md5(ROW(${cols.join(', ')})::text), '' ORDER BY md5(ROW(${cols.join(', ')})::text)), '')) AS h FROM "${t}" x WHERE x.${t === 'workshops' ? 'id' : 'workshop_id'} = $1`)
+        .join(' UNION ALL ');
+    }
+    const { rows } = await ownerDb.query<{ t: string; h: string }>(aFingerprintSql, [a]);
+    return rows.map((r) => `${r.t}:${r.h}`).join('|');
+  }
+
+  beforeAll(async () => {
+    a = (await demoWorkshopId(sequelize))!;
+    idsOfA = await idsOfWorkshop(ownerDb, a, 3);
+    const { rows } = await ownerDb.query<{ m: string }>(
+      `SELECT name AS m FROM customers WHERE workshop_id = $1 UNION SELECT email FROM users WHERE workshop_id = $1
+       UNION SELECT name FROM workshops WHERE id = $1 UNION SELECT number FROM estimates WHERE workshop_id = $1`,
+      [a],
+    );
+    markersOfA = rows.map((r) => r.m).filter((m) => m.length >= 8);
+    const b = await createOtherWorkshop(sequelize, 'Fuzzing Bench Polishers');
+    for (const role of ROLES) sessionsOfB[role] = await signIn(app, b.emails[role], OTHER_PASSWORD);
+  });
+
+  /** A's ids of a table, as path values; a parameter of no mapped table gets A's newest estimate's. */
+  const idsFor = (table: string | undefined) => idsOfA.get(table ?? 'estimates') ?? ['999999'];
+  /** Id fields of request bodies and the table whose ids they carry. */
+  const ID_FIELDS: Record<string, string> = {
+    customerId: 'customers', pieceId: 'pieces', estimateId: 'estimates', quoteId: 'quotes', jobId: 'jobs', materialId: 'materials',
+    packId: 'material_packs', polisherId: 'polishers', userId: 'users', sessionId: 'job_sessions', fromId: 'finishing_systems',
+    systemId: 'finishing_systems', outboxId: 'outbox', lineId: 'purchase_orders', previewId: 'price_file_previews', keptPolisherId: 'polishers',
+  };
+  /** A generated body with A's ids put in its id fields (and a list of A's ids where a list of ids goes). */
+  const bodyAtA = fc.tuple(body, fc.subarray(Object.keys(ID_FIELDS), { minLength: 1, maxLength: 4 }), fc.nat({ max: 2 })).map(([payload, fields, pick]) => {
+    const withIds: Record<string, unknown> = payload && typeof payload === 'object' && !Array.isArray(payload) ? { ...(payload as object) } : {};
+    for (const f of fields) {
+      const ids = idsFor(ID_FIELDS[f]);
+      withIds[f] = Number(ids[pick % ids.length]);
+    }
+    if (pick === 0) withIds.ids = idsFor('estimates').map(Number);
+    if (pick === 1) withIds.jobIds = idsFor('jobs').map(Number);
+    return Array.isArray(payload) || payload === null || typeof payload !== 'object' ? (pick === 2 ? payload : withIds) : withIds;
+  });
+
+  const OWN_KEYS = new Set(['kind', 'token']);
+  const aimed = routes.filter((r) => r.access !== 'public' && !SKIP.has(`${r.method} ${r.path}`));
+
+  it('aims at objects of A, from a workshop of its own', () => {
+    for (const t of ['customers', 'pieces', 'estimates', 'quotes', 'jobs', 'users']) expect(idsOfA.has(t), t).toBe(true);
+    expect(markersOfA.length).toBeGreaterThan(3);
+    expect(aimed.length).toBeGreaterThan(60);
+  });
+
+  for (const route of aimed) {
+    const params = [...route.path.matchAll(/:(\w+)/g)].map((m) => m[1]!);
+    const namesA = params.some((p) => !OWN_KEYS.has(p));
+    it(`${route.method.toUpperCase()} ${route.path}: B's roles at A's ${namesA ? 'objects → 404 or 400' : 'ids in the body → nothing of A'}`, async () => {
+      const before = await fingerprintOfA();
+      const pathAtA = fc.tuple(...params.map((p) => (OWN_KEYS.has(p) ? fc.constant('1') : fc.constantFrom(...(p === 'number' ? ['1', '2'] : idsFor(tableOf(route.path, p)))))));
+      for (const role of ROLES) {
+        if (!(route.access === 'signed-in' || (isPermission(route.access) && can(role, route.access)))) continue; // 403 for it: the role matrix's
+        const s = sessionsOfB[role];
+        await fc.assert(
+          fc.asyncProperty(bodyAtA, params.length ? pathAtA : fc.constant([] as string[]), async (payload, values) => {
+            let i = 0;
+            const url = route.path.replace(/:(\w+)/g, () => values[i++]!);
+            const req = (s.agent as unknown as Record<string, (u: string) => request.Test>)[route.method]!(url);
+            if (route.method !== 'get') req.set('x-csrf-token', s.csrf).set('content-type', 'application/json').send(JSON.stringify(payload));
+            const res = await req;
+            const label = `${role} of B: ${route.method} ${url} ${route.method === 'get' ? '' : JSON.stringify(payload).slice(0, 200)} → ${res.status} ${res.text.slice(0, 300)}`;
+            // 400 where the input is refused before any object is looked up (a path value of the wrong shape where A
+            // holds no row of that kind), else 404: never 403, never 2xx.
+            if (namesA) expect([400, 404], label).toContain(res.status);
+            else {
+              expect(res.status, label).toBeLessThan(500);
+              expect([401, 403], label).not.toContain(res.status);
+            }
+            for (const m of markersOfA) expect(res.text, label).not.toContain(m);
+          }),
+          { numRuns: namesA ? 4 : 6, seed: 20261208 },
+        );
+      }
+      expect(await fingerprintOfA(), `${route.path} changed A's rows`).toBe(before);
+    });
+  }
+
+  it("no row of any workshop references another workshop's row", async () => {
+    expect(await crossWorkshopReferences(ownerDb)).toEqual([]);
   });
 });

@@ -14,7 +14,8 @@ import { afterAll, beforeAll, describe, expect, it } from 'vitest';
 import type { AccountDto } from '../../shared/schemas/accounts';
 import { localToday } from '../../shared/schemas/dates';
 import type { MoneyReport } from '../../shared/schemas/reports';
-import { AccountEntry, Payment, Quote, Workshop } from '../../server/models';
+import { AccountEntry, Payment, Quote } from '../../server/models';
+import { currentWorkshop } from '../../server/services/workshops';
 import { closeTestApp, getTestApp, signInAs, startServices, type Session } from '../helpers/app';
 
 const { app, sequelize } = getTestApp();
@@ -33,7 +34,7 @@ beforeAll(async () => {
   services = await startServices();
   [estimator, sales, owner, planner] = await Promise.all([signInAs(app, 'estimator'), signInAs(app, 'sales'), signInAs(app, 'owner'), signInAs(app, 'workshop')]);
   // The figures are worked by hand at 20 % VAT: this file sets the workshop's rate, and puts it back after.
-  const w = (await Workshop.findOne({ order: [['id', 'ASC']] }))!;
+  const w = (await currentWorkshop())!;
   keptPricing = { taxPct: w.settings.pricing.taxPct, taxLabel: w.settings.pricing.taxLabel };
   await w.update({ settings: { ...w.settings, pricing: { ...w.settings.pricing, taxPct: 20, taxLabel: 'VAT' } } });
   keptStage = (await owner.agent.get('/api/accounts/settings').expect(200)).body.invoiceStage;
@@ -42,7 +43,7 @@ beforeAll(async () => {
 
 afterAll(async () => {
   if (keptPricing) {
-    const w = (await Workshop.findOne({ order: [['id', 'ASC']] }))!;
+    const w = (await currentWorkshop())!;
     await w.update({ settings: { ...w.settings, pricing: { ...w.settings.pricing, ...keptPricing } } });
   }
   if (keptStage && owner) await put(owner, '/api/accounts/settings', { invoiceStage: keptStage });

@@ -7,9 +7,9 @@ import { QueryTypes } from 'sequelize';
 import { afterAll, beforeAll, describe, expect, it } from 'vitest';
 import { GLOBAL_TABLES } from '../../server/migrations/2026.12.07T00.00.workshop-row-security';
 import { APP_ROLE } from '../../server/db/app-role';
-import { allWorkshopIds, runAsWorkshop } from '../../server/db/workshop-context';
+import { runAsWorkshop } from '../../server/db/workshop-context';
 import { Customer } from '../../server/models';
-import { closeTestApp, getTestApp, signIn, signInAs, testDatabaseUrl } from '../helpers/app';
+import { closeTestApp, demoWorkshopId, getTestApp, signIn, signInAs, testDatabaseUrl } from '../helpers/app';
 import { createOtherWorkshop, OTHER_PASSWORD, type OtherWorkshop } from '../helpers/workshops';
 
 const { app, sequelize } = getTestApp();
@@ -19,7 +19,7 @@ let other: OtherWorkshop;
 
 beforeAll(async () => {
   await owner.connect();
-  demoId = (await allWorkshopIds(sequelize))[0]!;
+  demoId = (await demoWorkshopId(sequelize))!;
   other = await createOtherWorkshop(sequelize);
 });
 afterAll(async () => {

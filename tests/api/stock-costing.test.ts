@@ -9,7 +9,8 @@ import request from 'supertest';
 import { afterAll, beforeAll, describe, expect, it } from 'vitest';
 import type { JobDetail } from '../../shared/schemas/planning';
 import type { EstimateAccuracy, JobCosting, PurchaseOrderDto, SessionMaterialLine, StockMovementPage, StockOverview } from '../../shared/schemas/stock';
-import { EstimateRevision, Job, LabourRate, Material, MaterialPack, OutboxMessage, PackPrice, Quote, Workshop } from '../../server/models';
+import { EstimateRevision, Job, LabourRate, Material, MaterialPack, OutboxMessage, PackPrice, Quote } from '../../server/models';
+import { currentWorkshop } from '../../server/services/workshops';
 import { closeTestApp, getTestApp, signInAs, startServices, type Session } from '../helpers/app';
 
 const built = getTestApp();
@@ -74,7 +75,7 @@ async function ownMaterial(label: string, size: number, price: string): Promise<
  * carries them; the workshop's own values are put back after.
  */
 async function withPricing<T>(p: { perHour: string; overheadPct: number; taxPct: number }, make: () => Promise<T>): Promise<T> {
-  const workshop = (await Workshop.findOne({ order: [['id', 'ASC']] }))!;
+  const workshop = (await currentWorkshop())!;
   const saved = structuredClone(workshop.settings);
   const rate = (await LabourRate.findOne({ where: { key: saved.pricing.polisherRate } }))!;
   const savedRate = rate.perHour;

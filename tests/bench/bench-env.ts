@@ -10,7 +10,7 @@ import { clusterUrl, describeCluster, ensureDatabase, startCluster, type Cluster
 import { createMigrator } from '../../server/db/migrator';
 import type { Sequelize } from 'sequelize';
 import { createSequelize } from '../../server/db/sequelize';
-import { allWorkshopIds, runAsWorkshop } from '../../server/db/workshop-context';
+import { lookupWorkshop, runAsWorkshop } from '../../server/db/workshop-context';
 import { initModels } from '../../server/models';
 import { seed } from '../../server/seeders';
 
@@ -36,13 +36,15 @@ export async function benchDatabase(opts: { estimates?: number; poolMax?: number
   const sequelize = createSequelize(url, { poolMax: opts.poolMax ?? 20 });
   await createMigrator(sequelize, { quiet: true }).up();
   initModels(sequelize);
-  await seed(sequelize, { demo: true, uploadsDir: config.uploadsDir });
+  // The first demo workshop only: this connection is the owner's, which row-level security does not bind, so a second
+  // workshop's demo would find the first's rows by their keys.
+  await seed(sequelize, { demo: true, uploadsDir: config.uploadsDir, demoWorkshops: 1 });
   const want = opts.estimates ?? 10_000;
   const [[{ n }]] = (await sequelize.query('SELECT count(*)::int AS n FROM estimates')) as [[{ n: number }], unknown];
   if (n < want) {
     console.log(`[bench] adding ${want - n} estimates…`);
     // The rows go to the demo workshop (the column's default reads the workshop setting).
-    const [demoWorkshop] = await allWorkshopIds(sequelize);
+    const demoWorkshop = await lookupWorkshop(sequelize, 'email', 'owner@example.com');
     await runAsWorkshop(demoWorkshop!, async () => {
     // Copies of the demo estimates: other numbers, spread over customers, states, totals and dates.
     await sequelize.query(

@@ -6,7 +6,7 @@ import { loadConfig, type Config } from '../../server/config';
 import type { Sequelize } from 'sequelize';
 import { appUrlOf } from '../../server/db/app-role';
 import { createAppSequelize } from '../../server/db/sequelize';
-import { allWorkshopIds } from '../../server/db/workshop-context';
+import { lookupWorkshop } from '../../server/db/workshop-context';
 import { DEMO_PASSWORD, DEMO_USERS } from '../../server/seeders/demo';
 
 /** The owner's URL: migrations and checks of the schema (it bypasses row-level security). */
@@ -21,13 +21,19 @@ export function testAppDatabaseUrl(): string {
   return process.env.APP_DATABASE_URL || appUrlOf(testDatabaseUrl());
 }
 
+/** The first demo workshop's id (the one its owner, owner@example.com, signs in to), or null when there is none. */
+export function demoWorkshopId(sequelize: Sequelize): Promise<number | null> {
+  return lookupWorkshop(sequelize, 'email', DEMO_USERS[0]!.email);
+}
+
 /**
  * The workshop a test's own queries run under when they are not inside a request or `runAsWorkshop`: the first
- * (demo) workshop, so fixtures written directly land where the demo users see them.
+ * demo workshop (found by its owner's e-mail, not by being first), so fixtures written directly land where the demo
+ * users see them. With no demo workshop, such queries run under none and see nothing.
  */
 export function demoWorkshopFallback(sequelize: Sequelize): () => Promise<number | null> {
   let id: Promise<number | null> | undefined;
-  return () => (id ??= allWorkshopIds(sequelize).then((ids) => ids[0] ?? null));
+  return () => (id ??= demoWorkshopId(sequelize));
 }
 
 let shared: (BuiltApp & { sequelize: Sequelize; config: Config }) | undefined;

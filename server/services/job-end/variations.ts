@@ -13,7 +13,8 @@ import { type PublicVariationDto, type VariationDto } from '@shared/schemas/job-
 import { safetyCautionTexts } from './cautions';
 import type { Config } from '../../config';
 import { HttpProblem, problems } from '../../http/problem';
-import { AccountDocument, Job, JobSession, JobVariation, Quote, Workshop } from '../../models';
+import { AccountDocument, Job, JobSession, JobVariation, Quote } from '../../models';
+import { currentWorkshop } from '../workshops';
 import { audit } from '../audit';
 import { estimateFromBody } from '../estimator';
 import { recordJobEvent } from '../job-events';
@@ -124,7 +125,7 @@ async function byToken(config: Config, token: string, transaction?: Transaction,
 /** The variation as the customer reads it: what, why, the price; never hours, rates or margins. */
 export async function publicVariation(config: Config, token: string): Promise<PublicVariationDto> {
   const v = await byToken(config, token);
-  const [job, quote, workshop] = await Promise.all([Job.findByPk(v.jobId), Quote.findByPk(v.quoteId), Workshop.findOne({ order: [['id', 'ASC']] })]);
+  const [job, quote, workshop] = await Promise.all([Job.findByPk(v.jobId), Quote.findByPk(v.quoteId), currentWorkshop()]);
   return {
     title: v.title,
     description: v.description,

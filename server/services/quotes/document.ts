@@ -8,7 +8,8 @@ import { CUSTOMER_VENTILATION_TEXT, customerCautions } from '@shared/calc';
 import { formatArea } from '@shared/units';
 import { QUOTE_TERMS, customerPriceLines, roundHoursForCustomer, type AgreedFigures, type QuoteExtra, type QuoteLineDto, type QuotePricing } from '@shared/schemas/quotes';
 import { HttpProblem, problems } from '../../http/problem';
-import { Customer, Estimate, EstimateRevision, Job, Piece, PiecePhoto, type QuoteLine, User, Workshop } from '../../models';
+import { Customer, Estimate, EstimateRevision, Job, Piece, PiecePhoto, type QuoteLine, User } from '../../models';
+import { currentWorkshop } from '../workshops';
 import type { AcceptanceRecord } from '../../pdf/acceptance-pdf';
 import type { QuoteDocument, QuoteDocumentLine } from '../../pdf/quote-document';
 import { loadSettings } from '../catalog';
@@ -94,7 +95,7 @@ async function documentFor(a: {
   transaction?: Transaction;
 }): Promise<QuoteDocument> {
   const { transaction, revision, pricing } = a;
-  const workshop = await Workshop.findOne({ order: [['id', 'ASC']], transaction });
+  const workshop = await currentWorkshop(transaction);
   const { settings } = await loadSettings(transaction);
   const author = a.createdBy ? await User.findByPk(a.createdBy, { transaction }) : null;
   const r = revision.result;
@@ -209,7 +210,7 @@ export async function acceptanceRecordOf(quoteId: number): Promise<AcceptanceRec
   if (!agreed || !quote.acceptedAt) throw problems.conflict('not_accepted', `Quote ${quote.number} has not been accepted: there is no acceptance record yet.`);
   const [revision, workshop, { settings }, piece] = await Promise.all([
     EstimateRevision.findByPk(quote.revisionId),
-    Workshop.findOne({ order: [['id', 'ASC']] }),
+    currentWorkshop(),
     loadSettings(),
     Piece.findByPk(estimate.pieceId),
   ]);
