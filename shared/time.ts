@@ -32,18 +32,29 @@ export function timeZoneOptions(current?: string): string[] {
 }
 
 let workshopZone = DEFAULT_TIME_ZONE;
+let zoneSource: () => string | undefined = () => undefined;
 
 /**
- * Tells the clock which zone the workshop keeps: the server calls it whenever it reads the settings, the browser
- * when the workshop arrives. An unknown name is ignored (the settings schema refuses it before it is stored).
+ * Tells the clock which zone the workshop keeps, when one process serves one workshop: the browser when the workshop
+ * arrives, and the server for work outside any workshop's scope. An unknown name is ignored (the settings schema
+ * refuses it before it is stored).
  */
 export function setWorkshopTimeZone(zone: string | undefined | null): void {
   if (zone && isTimeZone(zone)) workshopZone = zone;
 }
 
-/** The workshop's time zone as last read. */
+/**
+ * Where the clock asks first for the zone of the work running now. The server, which serves many workshops, answers
+ * with the zone of the workshop the current unit of work runs under (server/db/workshop-context.ts); undefined falls
+ * back to the zone given to `setWorkshopTimeZone`.
+ */
+export function setTimeZoneSource(source: () => string | undefined): void {
+  zoneSource = source;
+}
+
+/** The workshop's time zone: the current work's workshop's where the server knows it, else the one last given. */
 export function workshopTimeZone(): string {
-  return workshopZone;
+  return zoneSource() ?? workshopZone;
 }
 
 /** Calendar arithmetic happens in UTC, where every day has 24 hours: no daylight-saving surprise. */
@@ -56,22 +67,22 @@ function calendarDay(date: string): Date {
 }
 
 /** Today in the workshop's zone (or the zone given), 'YYYY-MM-DD'. */
-export function today(zone: string = workshopZone, now: Date = new Date()): string {
+export function today(zone: string = workshopTimeZone(), now: Date = new Date()): string {
   return format(new TZDate(now, zone), 'yyyy-MM-dd');
 }
 
 /** The workshop's wall clock now, 'YYYY-MM-DDTHH:MM' (board times carry no zone). */
-export function nowLocal(zone: string = workshopZone, now: Date = new Date()): string {
+export function nowLocal(zone: string = workshopTimeZone(), now: Date = new Date()): string {
   return format(new TZDate(now, zone), "yyyy-MM-dd'T'HH:mm");
 }
 
 /** The year it is in the workshop's zone (record numbers: Q-2026-0001). */
-export function currentYear(zone: string = workshopZone, now: Date = new Date()): number {
+export function currentYear(zone: string = workshopTimeZone(), now: Date = new Date()): number {
   return new TZDate(now, zone).getFullYear();
 }
 
 /** The calendar day an instant falls on in the workshop's zone, 'YYYY-MM-DD'. */
-export function dayOf(instant: Date, zone: string = workshopZone): string {
+export function dayOf(instant: Date, zone: string = workshopTimeZone()): string {
   return format(new TZDate(instant, zone), 'yyyy-MM-dd');
 }
 
@@ -96,6 +107,6 @@ export function weekdayIndex(date: string): number {
 }
 
 /** Today moved by whole days, in the workshop's zone: the default "valid until" of a quote, say. */
-export function daysFromToday(days: number, zone: string = workshopZone, now: Date = new Date()): string {
+export function daysFromToday(days: number, zone: string = workshopTimeZone(), now: Date = new Date()): string {
   return addDays(today(zone, now), days);
 }

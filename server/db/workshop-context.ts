@@ -10,12 +10,53 @@
  */
 import { AsyncLocalStorage } from 'node:async_hooks';
 import type { Sequelize } from 'sequelize';
+import { isTimeZone, setTimeZoneSource } from '@shared/time';
 
 interface Scope {
   workshopId: number | null;
+  /** The workshop's time zone, once read in this unit of work. */
+  timeZone?: string;
 }
 
 const storage = new AsyncLocalStorage<Scope>();
+
+/**
+ * Each workshop's time zone as last read by this process (its settings' `timeZone`): "today", the record numbers'
+ * year and the reports' days follow the zone of the workshop the work runs under, never one process-wide zone.
+ * Written whenever the settings are read (`loadSettings`) and on entering a request's scope when not known yet.
+ */
+const zones = new Map<number, string>();
+
+function scopeTimeZone(): string | undefined {
+  const scope = storage.getStore();
+  if (!scope || scope.workshopId === null) return undefined;
+  return scope.timeZone ?? zones.get(scope.workshopId);
+}
+setTimeZoneSource(scopeTimeZone);
+
+/** Records the time zone of the workshop the current work runs under (from its settings, just read). */
+export function noteWorkshopTimeZone(zone: string | undefined | null): boolean {
+  const scope = storage.getStore();
+  if (!scope || scope.workshopId === null || !zone || !isTimeZone(zone)) return false;
+  scope.timeZone = zone;
+  zones.set(scope.workshopId, zone);
+  return true;
+}
+
+/**
+ * Makes sure the clock knows the current workshop's time zone before a handler runs: undefined when it already
+ * does (or there is no workshop), else a promise that reads it from the workshop's row (one small query, once per
+ * workshop and process; `loadSettings` keeps it current afterwards).
+ */
+export function ensureWorkshopTimeZone(sequelize: Sequelize): Promise<void> | undefined {
+  const scope = storage.getStore();
+  if (!scope || scope.workshopId === null || scope.timeZone || zones.has(scope.workshopId)) return undefined;
+  return sequelize
+    .query<{ tz: string | null }>("SELECT settings->>'timeZone' AS tz FROM workshops WHERE id = :id", { replacements: { id: scope.workshopId }, type: 'SELECT' as never })
+    .then((rows) => {
+      noteWorkshopTimeZone((rows as unknown as { tz: string | null }[])[0]?.tz);
+    });
+}
 
 /** Runs `fn` under a workshop (or explicitly under none, with `null`). */
 export function runAsWorkshop<T>(workshopId: number | null, fn: () => T): T {

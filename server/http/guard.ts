@@ -1,6 +1,6 @@
 import express, { type RequestHandler, type Router } from 'express';
 import { allows, type Access } from '@shared/roles';
-import { lookupWorkshop, runAsWorkshop } from '../db/workshop-context';
+import { ensureWorkshopTimeZone, lookupWorkshop, runAsWorkshop } from '../db/workshop-context';
 import { User } from '../models';
 import { hashToken } from '../services/quotes/links';
 import { problems } from './problem';
@@ -21,7 +21,13 @@ declare global {
  * still runs under it.
  */
 export function scoped(handler: RequestHandler): RequestHandler {
-  return (req, res, next) => runAsWorkshop(req.workshopScope !== undefined ? req.workshopScope : (req.user?.workshopId ?? null), () => handler(req, res, next));
+  return (req, res, next) =>
+    runAsWorkshop(req.workshopScope !== undefined ? req.workshopScope : (req.user?.workshopId ?? null), () => {
+      // The clock follows this workshop's time zone; read it first when this process has not yet.
+      const reading = ensureWorkshopTimeZone(User.sequelize!);
+      if (!reading) return handler(req, res, next);
+      return reading.then(() => handler(req, res, next), next);
+    });
 }
 
 /**

@@ -37,6 +37,7 @@ import {
   type RecordPaymentSchema,
 } from '@shared/schemas/accounts';
 import { localToday } from '@shared/schemas/dates';
+import { DEFAULT_TIME_ZONE, dayOf, today } from '@shared/time';
 import { mirrorEstimate, moveQuote } from '@shared/schemas/state-moves';
 import type { Config } from '../config';
 import { HttpProblem, problems } from '../http/problem';
@@ -833,6 +834,10 @@ const OWED_SORT: Record<OwedQuery['sort'], string> = {
 /** Agreements invoiced and not fully paid, with how old the invoice is; sorted, paged, with bucket totals. */
 export async function listOwed(q: OwedQuery): Promise<OwedPage> {
   const sequelize = Quote.sequelize!;
+  // Ages count the workshop's own days: the invoice's day and today, both in the workshop's time zone.
+  const { settings } = await loadSettings();
+  const tz = settings.timeZone ?? DEFAULT_TIME_ZONE;
+  const day = { tz, today: today(tz) };
   const base = `
     WITH owed AS (
       SELECT d.quote_id, d.number AS invoice_number, d.issued_at, d.total AS invoiced, d.currency, d.customer_id,
@@ -842,7 +847,7 @@ export async function listOwed(q: OwedQuery): Promise<OwedPage> {
                - COALESCE((SELECT sum(x.total) FROM account_documents x WHERE x.quote_id = d.quote_id AND x.kind = 'credit-note'), 0)
                - COALESCE((SELECT sum(e.amount) FROM account_entries e WHERE e.quote_id = d.quote_id AND e.kind = 'payment'), 0)
                + COALESCE((SELECT sum(e.amount) FROM account_entries e WHERE e.quote_id = d.quote_id AND e.kind = 'refund'), 0) AS balance,
-             (current_date - (d.issued_at AT TIME ZONE current_setting('TimeZone'))::date) AS age_days
+             (:today::date - (d.issued_at AT TIME ZONE :tz)::date) AS age_days
         FROM account_documents d
         JOIN quotes q ON q.id = d.quote_id
         JOIN customers c ON c.id = d.customer_id
@@ -862,24 +867,24 @@ export async function listOwed(q: OwedQuery): Promise<OwedPage> {
     balance: string;
     age_days: number;
   }>(`${base}${bucketWhere} ORDER BY ${OWED_SORT[q.sort]} ${dir}, quote_id ${dir} LIMIT :limit OFFSET :offset`, {
-    replacements: { limit: q.pageSize, offset: offset(q.page, q.pageSize) },
+    replacements: { ...day, limit: q.pageSize, offset: offset(q.page, q.pageSize) },
     type: QueryTypes.SELECT,
   });
   const total = await pageTotal(rows.length, q, async (limit) => {
-    const [row] = await sequelize.query<{ n: string }>(`SELECT count(*) AS n FROM (${base}${bucketWhere} LIMIT :limit) t`, { replacements: { limit }, type: QueryTypes.SELECT });
+    const [row] = await sequelize.query<{ n: string }>(`SELECT count(*) AS n FROM (${base}${bucketWhere} LIMIT :limit) t`, { replacements: { ...day, limit }, type: QueryTypes.SELECT });
     return Number(row?.n ?? 0);
   });
   const buckets = await sequelize.query<{ bucket: string; currency: string; n: string; amount: string }>(
     `SELECT CASE WHEN age_days <= 30 THEN '0-30' WHEN age_days <= 60 THEN '31-60' ELSE '60+' END AS bucket, currency, count(*) AS n, sum(balance) AS amount
        FROM (${base}) t GROUP BY 1, 2 ORDER BY 1, 2`,
-    { type: QueryTypes.SELECT },
+    { replacements: day, type: QueryTypes.SELECT },
   );
   return {
     rows: rows.map((r) => ({
       quoteId: r.quote_id,
       quoteNumber: r.quote_number,
       invoiceNumber: r.invoice_number,
-      invoicedOn: localToday(new Date(r.issued_at)),
+      invoicedOn: dayOf(new Date(r.issued_at), tz),
       ageDays: Number(r.age_days),
       bucket: ageingBucket(Number(r.age_days)),
       customer: { id: r.customer_id, name: r.customer_name },

@@ -12,7 +12,7 @@ import { FinishingSystem, LabourRate, Material, Species, type Workshop } from '.
 import { currentWorkshop } from './workshops';
 import type { SharedCaches } from './shared-caches';
 import { allOf } from '../db/queries';
-import { currentWorkshopId } from '../db/workshop-context';
+import { currentWorkshopId, noteWorkshopTimeZone } from '../db/workshop-context';
 
 export interface LoadedCatalog {
   catalog: Catalog;
@@ -47,7 +47,10 @@ export async function loadSettings(transaction?: Transaction): Promise<{ worksho
     const issue = parsed.error.issues[0]!;
     throw new HttpProblem(500, 'settings_invalid', 'Workshop settings unreadable', `Stored setting ${issue.path.join('.')} is invalid: ${issue.message}`);
   }
-  setWorkshopTimeZone(parsed.data.timeZone ?? DEFAULT_TIME_ZONE);
+  // Under a workshop's scope the clock takes this workshop's zone for the rest of the work (and remembers it for the
+  // workshop); outside any scope (a script, a test's fixtures) it is the process's one zone.
+  const zone = parsed.data.timeZone ?? DEFAULT_TIME_ZONE;
+  if (!noteWorkshopTimeZone(zone)) setWorkshopTimeZone(zone);
   return { workshop, settings: parsed.data };
 }
 

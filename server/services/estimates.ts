@@ -4,7 +4,7 @@
  */
 import { estimateStateSql } from './quote-expiry';
 import { formatDate } from '@shared/format';
-import { currentYear, dayOf, daysFromToday, today as workshopToday } from '@shared/time';
+import { dayOf, daysFromToday, today as workshopToday } from '@shared/time';
 import { Op, QueryTypes, type Sequelize, type Transaction } from 'sequelize';
 import { validationSentence } from '@shared/schemas/error-map';
 import type { z } from 'zod';
@@ -29,6 +29,7 @@ import { withAgreements } from './agreements';
 import { audit } from './audit';
 import { loadCatalog, type LoadedCatalog } from './catalog';
 import { runEngine, withWorkshopDefaults } from './estimator';
+import { nextRecordNumber } from './numbering';
 import { containsPattern, countLimit, direction, offset, pageTotal } from './paging';
 
 type CreateInput = z.output<typeof CreateEstimateSchema>;
@@ -65,11 +66,6 @@ function underInput<T>(fn: () => T): T {
     }
     throw err;
   }
-}
-
-async function nextNumber(sequelize: Sequelize, transaction: Transaction): Promise<string> {
-  const [row] = await sequelize.query<{ n: string }>("SELECT nextval('estimate_number_seq') AS n", { type: QueryTypes.SELECT, transaction });
-  return `EST-${currentYear()}-${String(row!.n).padStart(4, '0')}`;
 }
 
 function priced(rawInput: unknown, loaded: LoadedCatalog) {
@@ -173,7 +169,9 @@ export async function getRevision(estimateId: number, number: number): Promise<R
 }
 
 export async function createEstimate(sequelize: Sequelize, actorId: number, body: CreateInput): Promise<EstimateDetail> {
-  return sequelize.transaction(async (transaction) => {
+  // Read back after the commit: the workshop's estimate counter stays locked until then, and a read on a second
+  // connection while holding it would tie up the pool when many estimates are made at once.
+  const id = await sequelize.transaction(async (transaction) => {
     const customer = await Customer.findByPk(body.customerId, { transaction });
     if (!customer) throw problems.badRequest('unknown_customer', 'customerId: no such customer', 'customerId');
     const piece = await Piece.findByPk(body.pieceId, { transaction });
@@ -182,7 +180,7 @@ export async function createEstimate(sequelize: Sequelize, actorId: number, body
     const loaded = await loadCatalog(sequelize, { transaction });
     const estimate = await Estimate.create(
       {
-        number: await nextNumber(sequelize, transaction),
+        number: await nextRecordNumber(sequelize, 'estimate', transaction),
         customerId: customer.id,
         pieceId: piece.id,
         ownerId: actorId,
@@ -195,8 +193,9 @@ export async function createEstimate(sequelize: Sequelize, actorId: number, body
     );
     await writeRevision(estimate, 1, body.input, loaded, actorId, body.note ?? '', transaction);
     await audit({ userId: actorId, action: 'estimate.create', entityType: 'estimate', entityId: estimate.id, after: { number: estimate.number, total: estimate.total } }, transaction);
-    return getEstimate(estimate.id, transaction);
+    return estimate.id;
   });
+  return getEstimate(id);
 }
 
 async function lockOpen(id: number, transaction: Transaction): Promise<Estimate> {

@@ -16,7 +16,7 @@
  */
 import PgBoss from 'pg-boss';
 import { QueryTypes, type Sequelize } from 'sequelize';
-import { allWorkshopIds, runAsWorkshop } from '../../db/workshop-context';
+import { allWorkshopIds, ensureWorkshopTimeZone, runAsWorkshop } from '../../db/workshop-context';
 
 export const SEND_QUEUE = 'customer-message';
 export const REMINDER_QUEUE = 'quote-reminder';
@@ -90,10 +90,18 @@ export class MessageQueue {
       this.workers.push(
         await this.boss.work<SendJob>(SEND_QUEUE, { pollingIntervalSeconds, batchSize: 1 }, async ([job]) => {
           // Each job runs under the workshop it belongs to: row-level security shows it that workshop's rows only.
-          if (job) await runAsWorkshop(job.data.workshopId, () => this.opts.handlers.send(job.data));
+          if (!job) return;
+          await runAsWorkshop(job.data.workshopId, async () => {
+            await ensureWorkshopTimeZone(this.opts.sequelize);
+            await this.opts.handlers.send(job.data);
+          });
         }),
         await this.boss.work<ReminderJob>(REMINDER_QUEUE, { pollingIntervalSeconds, batchSize: 1 }, async ([job]) => {
-          if (job) await runAsWorkshop(job.data.workshopId, () => this.opts.handlers.reminder(job.data));
+          if (!job) return;
+          await runAsWorkshop(job.data.workshopId, async () => {
+            await ensureWorkshopTimeZone(this.opts.sequelize);
+            await this.opts.handlers.reminder(job.data);
+          });
         }),
       );
       running.push(this);

@@ -1,6 +1,5 @@
 /** Making a job from an accepted quote, changing its notes or dates, and taking it off the board. */
-import { currentYear } from '@shared/time';
-import { Op, QueryTypes, type Sequelize, type Transaction } from 'sequelize';
+import { Op, type Sequelize } from 'sequelize';
 import type { EstimateResult } from '@shared/schemas/calc';
 import type { Catalog } from '@shared/schemas/catalog';
 import { type CreateJobData, type JobDetail, type UpdateJobInput } from '@shared/schemas/planning';
@@ -12,11 +11,7 @@ import { agreedOf } from '../quotes';
 import { lockBoard } from '../planning-context';
 import { ACCEPTED, round } from './mapping';
 import { getJob } from './read';
-
-async function nextNumber(sequelize: Sequelize, transaction: Transaction): Promise<string> {
-  const [row] = await sequelize.query<{ n: string }>("SELECT nextval('job_number_seq') AS n", { type: QueryTypes.SELECT, transaction });
-  return `JOB-${currentYear()}-${String(row!.n).padStart(4, '0')}`;
-}
+import { nextRecordNumber } from '../numbering';
 
 /** The quoted stages' hours and materials, flakes and spirit folded in under their material keys. */
 export function jobStages(result: EstimateResult, catalog: Pick<Catalog, 'shellac'>): JobStage[] {
@@ -92,7 +87,7 @@ export async function createJob(sequelize: Sequelize, actorId: number, input: Cr
     const stages = [...extras.map((x) => x.stage), ...jobStages(result, revision.catalog)];
     const job = await Job.create(
       {
-        number: await nextNumber(sequelize, transaction),
+        number: await nextRecordNumber(sequelize, 'job', transaction),
         quoteId: quote.id,
         quoteLineId: line.id,
         estimateId: estimate.id,

@@ -1,8 +1,8 @@
 /**
  * Making a quote from one or more priced estimates: its lines, option groups, price and validity, in one transaction.
  */
-import { currentYear, daysFromToday, today } from '@shared/time';
-import { QueryTypes, type Sequelize, type Transaction } from 'sequelize';
+import { daysFromToday, today } from '@shared/time';
+import type { Sequelize } from 'sequelize';
 import { money } from '@shared/money';
 import type { Role } from '@shared/schemas/auth';
 import type { EstimateState } from '@shared/schemas/estimates';
@@ -14,16 +14,12 @@ import { loadSettings } from '../catalog';
 import { alreadyAgreed, lockPieces, pieceAgreement } from './locks';
 import { combinedPricing, quotePricing, withTax } from './pricing';
 import { getQuote } from './read';
+import { nextRecordNumber } from '../numbering';
 
 type CreateInput = CreateQuote;
 
 /** Estimate states from which a new quote may be made. */
 const QUOTABLE: readonly EstimateState[] = ['priced', 'quoted', 'viewed', 'expired', 'declined'];
-async function nextNumber(sequelize: Sequelize, transaction: Transaction): Promise<string> {
-  const [row] = await sequelize.query<{ n: string }>("SELECT nextval('quote_number_seq') AS n", { type: QueryTypes.SELECT, transaction });
-  return `Q-${currentYear()}-${String(row!.n).padStart(4, '0')}`;
-}
-
 interface LineSpec {
   estimate: Estimate;
   revision: EstimateRevision;
@@ -135,7 +131,7 @@ export async function createQuote(sequelize: Sequelize, actor: { id: number; rol
     const customer = await Customer.findByPk(estimate.customerId, { transaction });
     const quote = await Quote.create(
       {
-        number: await nextNumber(sequelize, transaction),
+        number: await nextRecordNumber(sequelize, 'quote', transaction),
         estimateId,
         revisionId: first.revision.id,
         message: input.message,

@@ -19,14 +19,10 @@ import { offset } from '../paging';
 import { materialForecast } from '../planning-reports';
 import { localNow } from '../planning-context';
 import { move } from './ledger';
+import { nextRecordNumber } from '../numbering';
 
 const cents = (d: Decimal) => d.toDecimalPlaces(2, Decimal.ROUND_HALF_UP);
 const NO_SUPPLIER = 'Supplier not named';
-
-async function nextNumber(sequelize: Sequelize, transaction: Transaction): Promise<string> {
-  const [row] = await sequelize.query<{ n: string }>("SELECT nextval('purchase_order_number_seq') AS n", { type: QueryTypes.SELECT, transaction });
-  return `PO-${new Date().getFullYear()}-${String(row!.n).padStart(4, '0')}`;
-}
 
 async function orderDtos(orders: PurchaseOrder[], transaction?: Transaction): Promise<PurchaseOrderDto[]> {
   const lines = orders.length ? await PurchaseOrderLine.findAll({ where: { orderId: orders.map((o) => o.id) }, order: [['id', 'ASC']], transaction }) : [];
@@ -124,7 +120,7 @@ export async function ordersFromForecast(sequelize: Sequelize, actorId: number, 
     for (const [supplier, lines] of [...bySupplier.entries()].sort((a, b) => a[0].localeCompare(b[0]))) {
       const total = lines.reduce((t, l) => t.plus(cents(new Decimal(l.price).times(l.packs))), new Decimal(0));
       const order = await PurchaseOrder.create(
-        { number: await nextNumber(sequelize, transaction), supplier, currency: settings.pricing.currency, total: total.toFixed(2), expectedOn: null, sentTo: null, sentAt: null, outboxId: null, receivedAt: null, cancelledAt: null, createdBy: actorId },
+        { number: await nextRecordNumber(sequelize, 'purchase-order', transaction), supplier, currency: settings.pricing.currency, total: total.toFixed(2), expectedOn: null, sentTo: null, sentAt: null, outboxId: null, receivedAt: null, cancelledAt: null, createdBy: actorId },
         { transaction },
       );
       for (const l of lines) {
