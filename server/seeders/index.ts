@@ -5,6 +5,9 @@ import { DEFAULT_SETTINGS, ensureDefaults } from './defaults';
 import { DEMO_WORKSHOP, loadDemo } from './demo';
 import { loadDemoPlanning } from './demo-planning';
 import { loadDemoWork } from './demo-work';
+import type { Config } from '../config';
+import type { PaymentProvider } from '../fakes/payment-provider';
+import { connectDemoPayments } from './demo-payments';
 
 /**
  * After migrations, through the app's role: the first workshop (the demo workshop where allowed), then the defaults
@@ -25,4 +28,18 @@ export async function seed(sequelize: Sequelize, opts: { demo: boolean; uploadsD
     // Accepted quotes, booked and finished jobs, so the planning board is not empty on first start.
     if (opts.demo) await loadDemoPlanning(sequelize, opts.log);
   });
+}
+
+/** The workshops the demo loader fills (in demo mode): the first workshop. */
+export async function demoWorkshopIds(sequelize: Sequelize): Promise<number[]> {
+  const [first] = await allWorkshopIds(sequelize);
+  return first === undefined ? [] : [first];
+}
+
+/**
+ * Every demo workshop gets a ready card-payment account at the local payment stand-in (`connectDemoPayments`).
+ * Called once the stand-in runs (`npm start`, `npm run serve`'s primary, the tests), never with a real provider.
+ */
+export async function connectDemoWorkshops(sequelize: Sequelize, config: Config, provider: PaymentProvider): Promise<void> {
+  for (const id of await demoWorkshopIds(sequelize)) await connectDemoPayments(sequelize, config, provider, id);
 }
