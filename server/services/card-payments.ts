@@ -35,6 +35,9 @@ export function stateOfAccount(account: Pick<Stripe.Account, 'charges_enabled'>)
  * one account), and answers the address of the provider's set-up form for it. 409 once the account is ready.
  */
 export async function connectCardPayments(sequelize: Sequelize, config: Config, actorId: number): Promise<{ url: string }> {
+  if (!config.payments.secretKey) {
+    throw problems.conflict('payments_unconfigured', 'No payment provider is configured on this installation: its keys must be set before a workshop can connect.');
+  }
   const stripe = client(config);
   const accountId = await sequelize.transaction(async (transaction) => {
     const w = await Workshop.findOne({ order: [['id', 'ASC']], transaction, lock: transaction.LOCK.UPDATE });
@@ -72,7 +75,8 @@ export async function connectCardPayments(sequelize: Sequelize, config: Config, 
 /** Asks the provider how far the account has got (the owner is back from its form) and keeps the answer. */
 export async function refreshCardPayments(sequelize: Sequelize, config: Config, actorId: number): Promise<CardPayments> {
   const w = await current();
-  if (!w.paymentAccountId) return dtoOf(config, w);
+  // Nothing to ask when there is no account, or no provider to ask (the state kept stands).
+  if (!w.paymentAccountId || !config.payments.secretKey) return dtoOf(config, w);
   let account: Stripe.Account;
   try {
     account = await client(config).accounts.retrieve(w.paymentAccountId);
