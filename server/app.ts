@@ -33,6 +33,7 @@ import { jobEndRoutes } from './routes/job-end';
 import { publicQuoteRoutes } from './routes/public-quotes';
 import { quoteRoutes } from './routes/quotes';
 import { priceListRoutes } from './routes/price-list';
+import { cardPaymentRoutes } from './routes/card-payments';
 import { settingsRoutes } from './routes/settings';
 import { reportRoutes } from './routes/reports';
 import { stockRoutes } from './routes/stock';
@@ -157,6 +158,7 @@ export function createApp({ config, sequelize, databaseUrl, serveClient = true, 
   app.use(publicQuoteRoutes(config, sequelize, routes));
   app.use(priceListRoutes(sequelize, routes));
   app.use(settingsRoutes(sequelize, routes));
+  app.use(cardPaymentRoutes(config, sequelize, routes));
   app.use(finishingRoutes(sequelize, routes));
   app.use(auditRoutes(sequelize, routes));
   app.use(...planningRoutes(sequelize, routes));

@@ -9,7 +9,10 @@
 import cluster, { type Worker } from 'node:cluster';
 import os from 'node:os';
 import { pathToFileURL } from 'node:url';
-import { startLocalServices } from './fakes';
+import { paymentStateFile, startLocalServices } from './fakes';
+import { createAppSequelize } from './db/sequelize';
+import { initModels } from './models';
+import { connectDemoWorkshops } from './seeders';
 import { loadConfig } from './config';
 import { resolveDatabaseUrl } from './db/connect';
 import { prepareDatabase, runServer } from './index';
@@ -27,7 +30,17 @@ async function primary(): Promise<void> {
   const databaseUrl = await resolveDatabaseUrl(config);
   const appUrl = await prepareDatabase(config, databaseUrl);
   // One set of stand-ins for all workers, so that a payment webhook is verified whichever worker it reaches.
-  const local = await startLocalServices(config);
+  const local = await startLocalServices(config, { paymentsState: paymentStateFile(config) });
+  if (config.demo && local.payments) {
+    // The demo workshops' card-payment accounts at the stand-in, made ready once here for every worker.
+    const sequelize = createAppSequelize(appUrl);
+    try {
+      initModels(sequelize);
+      await connectDemoWorkshops(sequelize, config, local.payments);
+    } finally {
+      await sequelize.close();
+    }
+  }
   // Workers connect as the app's role the primary set up (and do not set it up again side by side).
   const env: Record<string, string> = { DATABASE_URL: databaseUrl, APP_DATABASE_URL: appUrl };
   if (config.mail.url) env.SMTP_URL = config.mail.url;

@@ -6,7 +6,7 @@ import cluster from 'node:cluster';
 import http from 'node:http';
 import { pathToFileURL } from 'node:url';
 import { createApp } from './app';
-import { startLocalServices } from './fakes';
+import { paymentStateFile, startLocalServices } from './fakes';
 import { loadConfig, type Config } from './config';
 import { resolveDatabaseUrl } from './db/connect';
 import { createMigrator } from './db/migrator';
@@ -14,7 +14,7 @@ import type { Sequelize } from 'sequelize';
 import { appUrlOf, ensureAppRole } from './db/app-role';
 import { createAppSequelize, createSequelize } from './db/sequelize';
 import { initModels } from './models';
-import { seed } from './seeders';
+import { connectDemoWorkshops, seed } from './seeders';
 
 export interface RunningServer {
   server: http.Server;
@@ -67,9 +67,15 @@ export async function runServer(config: Config = loadConfig(), opts: { prepared?
   if (!opts.prepared) await prepareDatabase(config, ownerUrl, sequelize);
   initModels(sequelize);
 
-  const local = await startLocalServices(config, { smtpPort: portFromEnv('SHELLWRIGHT_SMTP_PORT'), paymentsPort: portFromEnv('SHELLWRIGHT_PAYMENTS_PORT') });
+  const local = await startLocalServices(config, {
+    smtpPort: portFromEnv('SHELLWRIGHT_SMTP_PORT'),
+    paymentsPort: portFromEnv('SHELLWRIGHT_PAYMENTS_PORT'),
+    paymentsState: paymentStateFile(config),
+  });
   if (local.mail) console.log(`[mail] local mail catcher on ${local.mail.url}: sent mail is kept in .data/mail and on the Outbox page`);
-  if (local.payments) console.log(`[payments] local payment stand-in on ${local.payments.url}`);
+  if (local.payments) console.log(`[payments] local payment stand-in on ${local.payments.url}: accounts and checkouts kept in ${paymentStateFile(config)}`);
+  // The demo workshops take card payments on their own ready accounts at the stand-in (never with a real provider).
+  if (config.demo && local.payments) await connectDemoWorkshops(sequelize, config, local.payments);
   const built = createApp({ config, sequelize, databaseUrl: appUrl });
   const server = http.createServer(built.app);
   await new Promise<void>((resolve, reject) => {

@@ -13,7 +13,8 @@ import { createMigrator } from '../server/db/migrator';
 import { ensureAppRole } from '../server/db/app-role';
 import { createAppSequelize, createSequelize } from '../server/db/sequelize';
 import { initModels } from '../server/models';
-import { seed } from '../server/seeders';
+import { connectDemoWorkshops, seed } from '../server/seeders';
+import { startPaymentProvider } from '../server/fakes/payment-provider';
 
 const CHROMIUM = '/usr/bin/chromium';
 
@@ -61,6 +62,15 @@ async function main(): Promise<number> {
     const app = createAppSequelize(appUrl);
     initModels(app);
     await seed(app, { demo: true, uploadsDir: loadConfig().uploadsDir });
+    // The demo workshop's card-payment account, made ready at a stand-in as `npm start` does; each test file's own
+    // stand-in takes it back (tests/helpers/app.ts startServices).
+    const apiKey = 'sk_test_shellwright_local';
+    const provider = await startPaymentProvider({ apiKey, webhookSecret: 'whsec_test_runner', webhookUrl: 'http://127.0.0.1:9/unused' });
+    try {
+      await connectDemoWorkshops(app, { ...loadConfig(), payments: { apiUrl: provider.url, secretKey: apiKey, webhookSecret: 'whsec_test_runner' } }, provider);
+    } finally {
+      await provider.stop();
+    }
     await app.close();
 
     // The browser tests need Chromium and the built client; a run of other projects only does not.

@@ -106,7 +106,7 @@ export async function allWorkshopIds(sequelize: Sequelize): Promise<number[]> {
 }
 
 /** One workshop lookup function's answer (see the migration), or null when it finds none. */
-export async function lookupWorkshop(sequelize: Sequelize, fn: 'user' | 'email' | 'quote_token' | 'variation_token' | 'payment_session' | 'reset' | 'email_confirmation' | 'invitation', value: string | number): Promise<number | null> {
+export async function lookupWorkshop(sequelize: Sequelize, fn: 'user' | 'email' | 'quote_token' | 'variation_token' | 'payment_session' | 'payment_account' | 'reset' | 'email_confirmation' | 'invitation', value: string | number): Promise<number | null> {
   const rows = (await runAsWorkshop(null, () =>
     sequelize.query(`SELECT shellwright_workshop_of_${fn}(:value) AS id`, { type: 'SELECT' as never, replacements: { value } }),
   )) as unknown as { id: number | null }[];

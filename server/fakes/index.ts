@@ -14,8 +14,14 @@ export interface LocalServices {
   stop(): Promise<void>;
 }
 
-/** Fills config.mail and config.payments with local stand-ins where they are unset. */
-export async function startLocalServices(config: Config, opts: { smtpPort?: number; paymentsPort?: number } = {}): Promise<LocalServices> {
+/** Where `npm start` keeps the payment stand-in's accounts and checkouts between runs. */
+export const paymentStateFile = (config: Config) => path.join(config.dataDir, 'payments', 'state.json');
+
+/**
+ * Fills config.mail and config.payments with local stand-ins where they are unset. With `paymentsState`, the payment
+ * stand-in keeps what it holds in that file across restarts (`npm start`); the tests give none (each file's own).
+ */
+export async function startLocalServices(config: Config, opts: { smtpPort?: number; paymentsPort?: number; paymentsState?: string } = {}): Promise<LocalServices> {
   const services: LocalServices = { stop: async () => {} };
   if (!config.mail.url) {
     if (config.env === 'production') throw new Error('SMTP_URL must be set in production');
@@ -26,7 +32,13 @@ export async function startLocalServices(config: Config, opts: { smtpPort?: numb
     if (config.env === 'production') throw new Error('PAYMENTS_SECRET_KEY and PAYMENTS_WEBHOOK_SECRET must be set in production');
     const apiKey = 'sk_test_shellwright_local';
     const webhookSecret = `whsec_${randomBytes(18).toString('hex')}`;
-    services.payments = await startPaymentProvider({ port: opts.paymentsPort, apiKey, webhookSecret, webhookUrl: `${config.publicUrl}/api/webhooks/payments` });
+    services.payments = await startPaymentProvider({
+      port: opts.paymentsPort,
+      apiKey,
+      webhookSecret,
+      webhookUrl: `${config.publicUrl}/api/webhooks/payments`,
+      stateFile: opts.paymentsState,
+    });
     config.payments = { apiUrl: services.payments.url, secretKey: apiKey, webhookSecret };
   }
   services.stop = async () => {

@@ -198,6 +198,8 @@ export class Payment extends Model<InferAttributes<Payment>, InferCreationAttrib
   declare closedAt: CreationOptional<Date | null>;
   /** What the checkout pays: the deposit, or (after it) the balance. */
   declare purpose: CreationOptional<'deposit' | 'balance'>;
+  /** The workshop's account at the provider the checkout was opened on (closing and refunding go to the same one). */
+  declare providerAccountId: CreationOptional<string | null>;
 
   static initModel(sequelize: Sequelize): void {
     Payment.init(
@@ -219,6 +221,7 @@ export class Payment extends Model<InferAttributes<Payment>, InferCreationAttrib
         refundedAt: { type: DataTypes.DATE, allowNull: true },
         closedAt: { type: DataTypes.DATE, allowNull: true },
         purpose: { type: DataTypes.STRING(10), allowNull: false, defaultValue: 'deposit' },
+        providerAccountId: { type: DataTypes.STRING(120), allowNull: true },
       },
       { sequelize, tableName: 'payments', underscored: true, updatedAt: false },
     );

@@ -15,6 +15,9 @@ export class Workshop extends Model<InferAttributes<Workshop>, InferCreationAttr
   declare phone: string | null;
   declare address: string | null;
   declare settings: WorkshopSettings;
+  /** The workshop's own account with the payment provider (a connected account), and how far its set-up has gone. */
+  declare paymentAccountId: CreationOptional<string | null>;
+  declare paymentAccountState: CreationOptional<'none' | 'onboarding' | 'ready'>;
   declare createdAt: CreationOptional<Date>;
   declare updatedAt: CreationOptional<Date>;
 
@@ -38,6 +41,8 @@ export class Workshop extends Model<InferAttributes<Workshop>, InferCreationAttr
         phone: { type: DataTypes.STRING(40), allowNull: true },
         address: { type: DataTypes.TEXT, allowNull: true },
         settings: { type: DataTypes.JSONB, allowNull: false },
+        paymentAccountId: { type: DataTypes.STRING(120), allowNull: true },
+        paymentAccountState: { type: DataTypes.STRING(12), allowNull: false, defaultValue: 'none' },
         createdAt: DataTypes.DATE,
         updatedAt: DataTypes.DATE,
       },

@@ -20,6 +20,9 @@ async function demoWorkshopId(sequelize: Sequelize, demo: DemoWorkshop, log?: (m
   log?.(`workshop ${demo.name} created`);
   return id;
 }
+import type { Config } from '../config';
+import type { PaymentProvider } from '../fakes/payment-provider';
+import { connectDemoPayments } from './demo-payments';
 
 /**
  * After migrations, through the app's role: the defaults every workshop needs, for each workshop there is (each under
@@ -50,4 +53,22 @@ export async function seed(
   for (const id of await allWorkshopIds(sequelize)) {
     if (!demoIds.has(id)) await runAsWorkshop(id, () => ensureDefaults(sequelize));
   }
+}
+
+/** The demo workshops there are (in demo mode): each one its demo owner's e-mail signs in to. */
+export async function demoWorkshopIds(sequelize: Sequelize): Promise<number[]> {
+  const ids: number[] = [];
+  for (const demo of DEMOS) {
+    const id = await lookupWorkshop(sequelize, 'email', demo.workshop.users[0]!.email);
+    if (id !== null) ids.push(id);
+  }
+  return ids;
+}
+
+/**
+ * Every demo workshop gets a ready card-payment account at the local payment stand-in (`connectDemoPayments`).
+ * Called once the stand-in runs (`npm start`, `npm run serve`'s primary, the tests), never with a real provider.
+ */
+export async function connectDemoWorkshops(sequelize: Sequelize, config: Config, provider: PaymentProvider): Promise<void> {
+  for (const id of await demoWorkshopIds(sequelize)) await connectDemoPayments(sequelize, config, provider, id);
 }

@@ -53,7 +53,7 @@ import { currentWorkshopId, fillTemplate, piecesOf, queueCustomerMessage } from 
 import type { MessageKind } from '@shared/schemas/messages';
 import { composeMail } from './mail-compose';
 import { offset, pageTotal } from './paging';
-import { CHECKOUT_MINUTES, fromMinor, lapseCheckouts, minorUnits, paymentClient } from './payment-provider';
+import { accountOfPayment, cardPaymentsReady, CHECKOUT_MINUTES, fromMinor, lapseCheckouts, minorUnits, onAccount, paymentClient, workshopPaymentAccount } from './payment-provider';
 import { acceptanceRecordOf, hashToken, quoteLink, tokenSigned } from './quotes';
 
 type RecordInput = z.output<typeof RecordPaymentSchema>;
@@ -454,7 +454,9 @@ async function closeBalanceCheckouts(config: Config, quoteId: number, depositToo
   const open = await Payment.findAll({ where: { quoteId, status: 'pending', ...(depositToo ? {} : { purpose: 'balance' }) } });
   for (const p of open) {
     try {
-      await paymentClient(config).checkout.sessions.expire(p.providerSessionId);
+      const on = await accountOfPayment(p);
+      if (!on) continue;
+      await paymentClient(config).checkout.sessions.expire(p.providerSessionId, {}, onAccount(on));
       await Payment.update({ status: 'cancelled', closedAt: new Date() }, { where: { id: p.id, status: 'pending' } });
     } catch {
       /* already paid or gone: its webhook decides */
@@ -919,6 +921,7 @@ export async function publicAccount(config: Config, token: string): Promise<Publ
   const quote = await quoteByToken(config, token);
   if (quote.acceptedTotal === null || !['accepted', 'deposit-paid'].includes(quote.state)) throw notAgreedYet(quote);
   await lapseCheckouts(quote.id);
+  const cards = await cardPaymentsReady(config);
   const [f, docs, open] = await Promise.all([
     figuresOf(quote),
     AccountDocument.findAll({ where: { quoteId: quote.id }, attributes: ['id', 'kind', 'number', 'issuedAt', 'total'], order: [['issuedAt', 'ASC'], ['id', 'ASC']] }),
@@ -930,7 +933,8 @@ export async function publicAccount(config: Config, token: string): Promise<Publ
     paid: money(f.paid).minus(money(f.refunded)).toFixed(2),
     credited: f.credited,
     balance: f.balance,
-    canPay: quote.state === 'deposit-paid' && money(f.balance).gt(0) && Boolean(config.payments.secretKey),
+    canPay: quote.state === 'deposit-paid' && money(f.balance).gt(0) && cards,
+    cardPayments: cards,
     checkoutOpen: open !== null,
     documents: docs.map((d) => ({ id: d.id, kind: d.kind, number: d.number, issuedOn: localToday(d.issuedAt), total: fixed(d.total) })),
   };
@@ -958,12 +962,17 @@ export async function balanceCheckout(sequelize: Sequelize, config: Config, toke
     const f = await figuresOf(quote, transaction);
     const amount = minorUnits(f.balance, quote.currency);
     if (amount <= 0) throw new HttpProblem(409, 'nothing_owed', 'Nothing owed', `Nothing is owed on quote ${quote.number}: thank you.`);
+    // The balance is taken on the workshop's own account with the provider (409 while it has none ready).
+    const account = await workshopPaymentAccount(transaction);
     await lapseCheckouts(quote.id, transaction);
     const open = await Payment.findOne({ where: { quoteId: quote.id, status: 'pending' }, transaction });
-    if (open && open.purpose === 'balance' && Number(open.amountMinor) === amount && open.checkoutUrl) return { url: open.checkoutUrl, reused: true };
+    if (open && open.purpose === 'balance' && Number(open.amountMinor) === amount && open.checkoutUrl && (open.providerAccountId ?? account) === account) {
+      return { url: open.checkoutUrl, reused: true };
+    }
     const stripe = paymentClient(config);
     if (open) {
-      await stripe.checkout.sessions.expire(open.providerSessionId).catch(() => undefined);
+      const on = await accountOfPayment(open, transaction);
+      if (on) await stripe.checkout.sessions.expire(open.providerSessionId, {}, onAccount(on)).catch(() => undefined);
       await open.update({ status: 'cancelled', closedAt: new Date() }, { transaction });
     }
     const returnUrl = quoteLink(config, token);
@@ -978,7 +987,7 @@ export async function balanceCheckout(sequelize: Sequelize, config: Config, toke
         expires_at: Math.floor(Date.now() / 1000) + CHECKOUT_MINUTES * 60,
         ...(customerEmail ? { customer_email: customerEmail } : {}),
         metadata: { quote_id: String(quote.id), quote_number: quote.number, purpose: 'balance' },
-      });
+      }, onAccount(account));
     } catch (err) {
       throw new HttpProblem(502, 'payments_unreachable', 'Payment service unavailable', `The payment service did not answer: ${err instanceof Error ? err.message : String(err)}. Try again in a moment.`);
     }
@@ -993,6 +1002,7 @@ export async function balanceCheckout(sequelize: Sequelize, config: Config, toke
         checkoutUrl: session.url,
         expiresAt: session.expires_at ? new Date(session.expires_at * 1000) : new Date(Date.now() + CHECKOUT_MINUTES * 60_000),
         purpose: 'balance',
+        providerAccountId: account,
       },
       { transaction },
     );

@@ -9,7 +9,7 @@ import { money } from '@shared/money';
 import type { PaymentDto } from '@shared/schemas/quotes';
 import type { Config } from '../config';
 import { HttpProblem } from '../http/problem';
-import { Payment } from '../models';
+import { Payment, Workshop } from '../models';
 
 /** How long a checkout stays open at the provider (the provider accepts 30 minutes to 24 hours). */
 export const CHECKOUT_MINUTES = 60;
@@ -45,6 +45,38 @@ export function client(config: Config): Stripe {
     maxNetworkRetries: 0,
     telemetry: false,
   });
+}
+
+/** The SDK's request options that make a call on a workshop's connected account (the Stripe-Account header). */
+export function onAccount(accountId: string): Stripe.RequestOptions {
+  return { stripeAccount: accountId };
+}
+
+export const cardPaymentsNotSetUp = () =>
+  new HttpProblem(409, 'payments_not_set_up', 'Card payments not set up', 'Card payments are not set up for this workshop: please pay another way, or ask the workshop.');
+
+/** Whether the workshop the code runs under has an account ready to take card payments. */
+export async function cardPaymentsReady(config: Config, transaction?: Transaction): Promise<boolean> {
+  if (!config.payments.secretKey) return false;
+  const w = await Workshop.findOne({ attributes: ['id', 'paymentAccountId', 'paymentAccountState'], order: [['id', 'ASC']], transaction });
+  return Boolean(w?.paymentAccountId) && w?.paymentAccountState === 'ready';
+}
+
+/** The connected account the current workshop takes card payments on; 409 when it has none ready. */
+export async function workshopPaymentAccount(transaction?: Transaction): Promise<string> {
+  const w = await Workshop.findOne({ attributes: ['id', 'paymentAccountId', 'paymentAccountState'], order: [['id', 'ASC']], transaction });
+  if (!w?.paymentAccountId || w.paymentAccountState !== 'ready') throw cardPaymentsNotSetUp();
+  return w.paymentAccountId;
+}
+
+/**
+ * The account a checkout lives on: the one it was opened on, or (for a checkout recorded before workshops had
+ * accounts of their own) the workshop's account; null when there is none.
+ */
+export async function accountOfPayment(p: Pick<Payment, 'providerAccountId'>, transaction?: Transaction): Promise<string | null> {
+  if (p.providerAccountId) return p.providerAccountId;
+  const w = await Workshop.findOne({ attributes: ['id', 'paymentAccountId'], order: [['id', 'ASC']], transaction });
+  return w?.paymentAccountId ?? null;
 }
 
 export const unreachable = (err: unknown) =>

@@ -11,11 +11,11 @@ import type { FlaggedPayment, PaymentDto, PaymentFlag } from '@shared/schemas/qu
 import type { Config } from '../config';
 import { lookupWorkshop, runAsWorkshop } from '../db/workshop-context';
 import { HttpProblem, problems } from '../http/problem';
-import { Customer, Estimate, Payment, PaymentEvent, Quote } from '../models';
+import { Customer, Estimate, Payment, PaymentEvent, Quote, Workshop } from '../models';
 import { audit } from './audit';
 import { balanceCompleted, markDepositPaid, recordCardPayment } from './accounts';
 import { deliver } from './mail';
-import { CHECKOUT_MINUTES, client, fromMinor, lapseCheckouts, minorUnits, paymentDto, unreachable } from './payment-provider';
+import { accountOfPayment, CHECKOUT_MINUTES, client, fromMinor, lapseCheckouts, minorUnits, onAccount, paymentDto, unreachable, workshopPaymentAccount } from './payment-provider';
 
 /**
  * The deposit checkout of an accepted quote: the open one when there is one, else a new one at the provider for the
@@ -35,12 +35,15 @@ export async function openCheckout(
     if (quote.state !== 'accepted' || quote.acceptedDeposit === null) throw new HttpProblem(409, 'not_accepted', 'Accept first', 'Accept the quote before paying the deposit.');
     const amount = minorUnits(String(quote.acceptedDeposit), quote.currency);
     if (amount <= 0) throw new HttpProblem(409, 'no_deposit', 'No deposit due', 'This quote asks for no deposit.');
+    // The deposit is taken on the workshop's own account with the provider (409 while it has none ready).
+    const account = await workshopPaymentAccount(transaction);
     await lapseCheckouts(quote.id, transaction);
     const open = await Payment.findOne({ where: { quoteId: quote.id, status: 'pending' }, transaction });
-    if (open && Number(open.amountMinor) === amount && open.checkoutUrl) return { url: open.checkoutUrl, reused: true };
+    if (open && Number(open.amountMinor) === amount && open.checkoutUrl && (open.providerAccountId ?? account) === account) return { url: open.checkoutUrl, reused: true };
     if (open) {
       // A checkout for another amount cannot stand: close it at the provider before opening the right one.
-      await client(config).checkout.sessions.expire(open.providerSessionId).catch(() => undefined);
+      const on = await accountOfPayment(open, transaction);
+      if (on) await client(config).checkout.sessions.expire(open.providerSessionId, {}, onAccount(on)).catch(() => undefined);
       await open.update({ status: 'cancelled', closedAt: new Date() }, { transaction });
     }
     let session: Stripe.Checkout.Session;
@@ -54,7 +57,7 @@ export async function openCheckout(
         expires_at: Math.floor(Date.now() / 1000) + CHECKOUT_MINUTES * 60,
         ...(a.email ? { customer_email: a.email } : {}),
         metadata: { quote_id: String(quote.id), quote_number: quote.number },
-      });
+      }, onAccount(account));
     } catch (err) {
       throw unreachable(err);
     }
@@ -68,6 +71,7 @@ export async function openCheckout(
         paidAt: null,
         checkoutUrl: session.url,
         expiresAt: session.expires_at ? new Date(session.expires_at * 1000) : new Date(Date.now() + CHECKOUT_MINUTES * 60_000),
+        providerAccountId: account,
       },
       { transaction },
     );
@@ -82,10 +86,13 @@ export async function openCheckout(
 export async function cancelCheckout(config: Config, quoteId: number): Promise<{ cancelled: boolean }> {
   const open = await Payment.findOne({ where: { quoteId, status: 'pending' } });
   if (!open) return { cancelled: false };
+  const on = await accountOfPayment(open);
   try {
-    const session = await client(config).checkout.sessions.retrieve(open.providerSessionId);
-    if (session.status === 'complete') return { cancelled: false };
-    if (session.status === 'open') await client(config).checkout.sessions.expire(open.providerSessionId);
+    if (on) {
+      const session = await client(config).checkout.sessions.retrieve(open.providerSessionId, {}, onAccount(on));
+      if (session.status === 'complete') return { cancelled: false };
+      if (session.status === 'open') await client(config).checkout.sessions.expire(open.providerSessionId, {}, onAccount(on));
+    }
   } catch (err) {
     throw unreachable(err);
   }
@@ -172,12 +179,44 @@ export async function handleWebhook(sequelize: Sequelize, config: Config, raw: B
   } catch {
     throw new HttpProblem(400, 'bad_signature', 'Webhook refused', 'The webhook signature does not verify.');
   }
-  // The event is attributed to the workshop whose checkout session it names; an event for no known session is
-  // acknowledged and not kept (there is no workshop to keep it under).
+  // The event is attributed to the workshop whose connected account it names (`account`); an event for no known
+  // account is acknowledged and not kept (there is no workshop to keep it under).
+  const accountId = typeof event.account === 'string' ? event.account : null;
+  const workshopId = accountId ? await lookupWorkshop(sequelize, 'payment_account', accountId) : null;
+  if (workshopId === null || accountId === null) return { handled: false };
+  if (event.type === 'account.updated') return runAsWorkshop(workshopId, () => accountUpdated(sequelize, event, accountId));
+  // A checkout's event counts only when the checkout belongs to that same workshop, and was opened on that account:
+  // an event whose account does not own the session changes nothing.
   const sessionId = (event.data.object as { id?: unknown }).id;
-  const workshopId = typeof sessionId === 'string' ? await lookupWorkshop(sequelize, 'payment_session', sessionId) : null;
-  if (workshopId === null) return { handled: false };
-  return runAsWorkshop(workshopId, () => handleEvent(sequelize, config, event));
+  const sessionWorkshop = typeof sessionId === 'string' ? await lookupWorkshop(sequelize, 'payment_session', sessionId) : null;
+  if (sessionWorkshop !== workshopId) return { handled: false };
+  return runAsWorkshop(workshopId, async () => {
+    const payment = await Payment.findOne({ where: { providerSessionId: sessionId as string }, attributes: ['id', 'providerAccountId'] });
+    if (!payment || (payment.providerAccountId !== null && payment.providerAccountId !== accountId)) return { handled: false };
+    return handleEvent(sequelize, config, event);
+  });
+}
+
+/** The provider says how far the workshop's account has got: ready once it takes charges, else still onboarding. */
+async function accountUpdated(sequelize: Sequelize, event: Stripe.Event, accountId: string): Promise<Outcome> {
+  const account = event.data.object as Stripe.Account;
+  if (account.id !== accountId) return { handled: false };
+  try {
+    return await sequelize.transaction(async (transaction) => {
+      await PaymentEvent.create({ eventId: event.id, type: event.type, receivedAt: new Date() }, { transaction });
+      const workshop = await Workshop.findOne({ where: { paymentAccountId: accountId }, transaction, lock: transaction.LOCK.UPDATE });
+      if (!workshop) return { handled: false };
+      const state = account.charges_enabled ? 'ready' : 'onboarding';
+      if (workshop.paymentAccountState !== state) {
+        await workshop.update({ paymentAccountState: state }, { transaction });
+        await audit({ userId: null, action: 'workshop.card_payments', entityType: 'workshop', entityId: workshop.id, after: { account: accountId, state } }, transaction);
+      }
+      return { handled: true };
+    });
+  } catch (err) {
+    if (err instanceof UniqueConstraintError) return { handled: false, duplicate: true };
+    throw err;
+  }
 }
 
 async function handleEvent(sequelize: Sequelize, config: Config, event: Stripe.Event): Promise<Outcome> {
@@ -215,10 +254,13 @@ export async function refundPayment(config: Config, paymentId: number, actorId: 
     throw problems.conflict('not_refundable', 'Only a flagged payment (paid twice, or for another amount) is refunded from here; a counted deposit is not.');
   }
   if (!payment.paymentIntent) throw problems.conflict('not_refundable', 'The provider gave no payment reference for this payment: refund it from the provider\u2019s dashboard.');
+  const on = await accountOfPayment(payment);
+  if (!on) throw problems.conflict('not_refundable', 'This payment names no account at the provider: refund it from the provider\u2019s dashboard.');
   try {
+    // Refunded on the account that took the payment.
     const refund = await client(config).refunds.create(
       { payment_intent: payment.paymentIntent, metadata: { payment_id: String(payment.id), quote_id: String(payment.quoteId) } },
-      { idempotencyKey: `refund-payment-${payment.id}` },
+      { idempotencyKey: `refund-payment-${payment.id}`, ...onAccount(on) },
     );
     await payment.update({ status: 'refunded', refundId: refund.id, refundedAt: new Date() });
     await audit({ userId: actorId, action: 'payment.refund', entityType: 'quote', entityId: payment.quoteId, after: { payment: payment.id, refund: refund.id, amountMinor: refund.amount } });

@@ -19,7 +19,7 @@ import { audit } from './audit';
 import { loadSettings } from './catalog';
 import { deliver } from './mail';
 import { messageOnAcceptance } from './messages';
-import { lapseCheckouts } from './payment-provider';
+import { cardPaymentsReady, lapseCheckouts } from './payment-provider';
 import { cancelCheckout, openCheckout } from './payments';
 import {
   acceptanceRecordOf,
@@ -133,7 +133,7 @@ export async function viewQuote(config: Config, token: string): Promise<PublicQu
     pricing: { ...shown.pricing, lines: customerPriceLines(shown.pricing, shownHours) },
     schedule: { booked: schedule !== null, start: schedule?.start ?? null, ready: schedule?.ready ?? null, calendarDays: r.totals.calendarDays },
     agreed: agreedOf(quote),
-    checkout: { open: openPayment !== null, lastStatus: lastPayment?.status ?? null },
+    checkout: { open: openPayment !== null, lastStatus: lastPayment?.status ?? null, available: await cardPaymentsReady(config) },
     extras: quote.extras,
     terms: QUOTE_TERMS,
     cautions: customerCautions(r.cautions),

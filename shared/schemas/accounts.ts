@@ -175,6 +175,8 @@ export interface PublicAccount {
   balance: string;
   /** The customer may pay the balance by card now (deposit paid, something owed, card payments set up). */
   canPay: boolean;
+  /** The workshop has an account ready to take card payments (false: the customer pays another way). */
+  cardPayments: boolean;
   /** A card payment of the balance started and not finished or expired. */
   checkoutOpen: boolean;
   documents: { id: number; kind: DocumentKind; number: string; issuedOn: string; total: string }[];

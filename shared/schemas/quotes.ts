@@ -321,8 +321,11 @@ export interface PublicQuote {
   /** When the work happens: booked dates once the job is booked; until then an estimate of how long it takes. */
   schedule: { booked: boolean; start: string | null; ready: string | null; calendarDays: number };
   agreed: AgreedFigures | null;
-  /** The deposit checkout still open, if any, and what became of the last one. */
-  checkout: { open: boolean; lastStatus: PaymentStatus | null };
+  /**
+   * The deposit checkout still open, if any, and what became of the last one; `available` is false while the
+   * workshop has no account ready to take card payments.
+   */
+  checkout: { open: boolean; lastStatus: PaymentStatus | null; available: boolean };
   extras: QuoteExtra[];
   terms: string[];
   cautions: { code: string; severity: string; text: string }[];

@@ -315,7 +315,7 @@ describe('numbers and webhooks under parallel requests', () => {
     // The same event again, and nine new events for the same payment, all at once.
     const signer = new Stripe(config.payments.secretKey!);
     const deliveries = Array.from({ length: 10 }, (_, i) => {
-      const payload = JSON.stringify({ id: i < 2 ? `evt_replay_${sessionId}` : `evt_${i}_${sessionId}`, object: 'event', type: 'checkout.session.completed', created: Math.floor(Date.now() / 1000), data: { object: session }, livemode: false });
+      const payload = JSON.stringify({ id: i < 2 ? `evt_replay_${sessionId}` : `evt_${i}_${sessionId}`, object: 'event', type: 'checkout.session.completed', account: session.account, created: Math.floor(Date.now() / 1000), data: { object: session }, livemode: false });
       const header = signer.webhooks.generateTestHeaderString({ payload, secret: config.payments.webhookSecret! });
       return request(app).post('/api/webhooks/payments').set('content-type', 'application/json').set('stripe-signature', header).send(payload);
     });

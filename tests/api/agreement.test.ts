@@ -244,7 +244,7 @@ describe('one deposit', () => {
     const first = await checkout(q.token);
     await Payment.update({ expiresAt: new Date(Date.now() - 1000) }, { where: { providerSessionId: first } });
     const page = await request(app).get(pub(q.token)).expect(200);
-    expect(page.body.checkout).toEqual({ open: false, lastStatus: 'expired' });
+    expect(page.body.checkout).toEqual({ open: false, lastStatus: 'expired', available: true });
     expect(await checkout(q.token)).not.toBe(first);
   });
 
@@ -254,7 +254,7 @@ describe('one deposit', () => {
     await accept(q.token).expect(200);
     const first = await checkout(q.token);
     const page = await request(app).post(pub(q.token, '/deposit/cancel')).send({}).expect(200);
-    expect(page.body.checkout).toEqual({ open: false, lastStatus: 'cancelled' });
+    expect(page.body.checkout).toEqual({ open: false, lastStatus: 'cancelled', available: true });
     expect(services.payments!.sessions.get(first)!.status).toBe('expired');
     expect((await Payment.findOne({ where: { providerSessionId: first } }))!.status).toBe('cancelled');
     // The closed checkout cannot be paid any more; a new one can.

@@ -163,7 +163,7 @@ describe('making and sending a quote', () => {
     expect(session.amount_total).toBe(Math.round(Number(q!.acceptedDeposit) * 100));
 
     const paidSession = { ...session, status: 'complete', payment_status: 'paid' };
-    const payload = JSON.stringify({ id: 'evt_test_paid_1', object: 'event', type: 'checkout.session.completed', data: { object: paidSession } });
+    const payload = JSON.stringify({ id: 'evt_test_paid_1', object: 'event', type: 'checkout.session.completed', account: session.account, data: { object: paidSession } });
     const forged = await request(app).post('/api/webhooks/payments').set('content-type', 'application/json').set('stripe-signature', 't=1,v1=deadbeef').send(payload);
     expect(forged.status).toBe(400);
     expect((await Quote.findByPk(quoteId))!.state).toBe('accepted');

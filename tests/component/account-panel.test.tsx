@@ -79,7 +79,7 @@ describe('a job’s account panel', () => {
 
 describe('the customer’s balance', () => {
   const TOKEN = 'abcdefghijklmnopqrstuvwxyz012345.abcdefghijklmnopqrstuv';
-  const PUBLIC: PublicAccount = { currency: 'GBP', agreedTotal: '1234.56', paid: '708.64', credited: '100.00', balance: '425.92', canPay: true, checkoutOpen: false, documents: [{ id: 5, kind: 'invoice', number: 'INV-00002', issuedOn: '2026-12-02', total: '1234.56' }] };
+  const PUBLIC: PublicAccount = { currency: 'GBP', agreedTotal: '1234.56', paid: '708.64', credited: '100.00', balance: '425.92', canPay: true, cardPayments: true, checkoutOpen: false, documents: [{ id: 5, kind: 'invoice', number: 'INV-00002', issuedOn: '2026-12-02', total: '1234.56' }] };
 
   it('shows what is still owed in plain words, a pay button, and the invoice to download', async () => {
     const net = fakeFetch({ [`/api/public/quotes/${TOKEN}/account`]: () => json(PUBLIC) });

@@ -82,5 +82,5 @@ export const PUBLIC_QUOTE: PublicQuote = {
   pricesIncludeTax: true,
   schedule: { booked: false, start: null, ready: null, calendarDays: 21 },
   agreed: null,
-  checkout: { open: false, lastStatus: null },
+  checkout: { open: false, lastStatus: null, available: true },
 };

@@ -86,11 +86,18 @@ export function signInAs(app: BuiltApp['app'], role: Role): Promise<Session> {
   return signIn(app, demoEmail(role), DEMO_PASSWORD);
 }
 
-/** Starts the local mail catcher and payment stand-in for this file's app (config is read at call time). */
+/**
+ * Starts the local mail catcher and payment stand-in for this file's app (config is read at call time). The demo
+ * workshop's card-payment account (made by the test runner, as `npm start` does) is taken back by this file's own
+ * stand-in, ready, so deposits and balances on demo quotes are taken on it.
+ */
 export async function startServices() {
   const { startLocalServices } = await import('../../server/fakes');
+  const { connectDemoWorkshops } = await import('../../server/seeders');
   const app = getTestApp();
   app.config.mail.url = undefined;
   app.config.payments = { apiUrl: undefined, secretKey: undefined, webhookSecret: undefined };
-  return startLocalServices(app.config);
+  const services = await startLocalServices(app.config);
+  await connectDemoWorkshops(app.sequelize, app.config, services.payments!);
+  return services;
 }

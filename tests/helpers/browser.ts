@@ -6,6 +6,7 @@ import path from 'node:path';
 import { chromium, type Browser, type Page } from 'playwright-core';
 import { rootDir } from '../../server/config';
 import { startLocalServices, type LocalServices } from '../../server/fakes';
+import { connectDemoWorkshops } from '../../server/seeders';
 import { afterAll, beforeAll } from 'vitest';
 import { closeTestApp, getTestApp } from './app';
 
@@ -38,6 +39,7 @@ export async function startServer(opts: { services?: boolean } = {}): Promise<{
     built.config.mail.url = undefined;
     built.config.payments = { apiUrl: undefined, secretKey: undefined, webhookSecret: undefined };
     services = await startLocalServices(built.config);
+    await connectDemoWorkshops(built.sequelize, built.config, services.payments!);
   }
   return {
     baseUrl,

@@ -59,7 +59,10 @@ export function Balance({ token, returned }: { token: string; returned: string |
         ) : (
           <>
             <p className="text-walnut-800">
-              Still to pay: <strong className="num text-lg" data-testid="balance-owed">{formatMoney(a.balance, c)}</strong>. You can pay it by card on a secure payment page, or by bank transfer quoting your invoice number.
+              Still to pay: <strong className="num text-lg" data-testid="balance-owed">{formatMoney(a.balance, c)}</strong>.{' '}
+              {a.cardPayments
+                ? 'You can pay it by card on a secure payment page, or by bank transfer quoting your invoice number.'
+                : 'Card payments are not set up for this workshop: please pay by bank transfer quoting your invoice number, or as the workshop tells you.'}
             </p>
             {awaiting && <Alert tone="info" title="Payment made: waiting for the confirmation">This part of the page updates itself in a moment.</Alert>}
             {returned === 'cancelled' && <Alert tone="warning" title="Payment cancelled">Nothing was charged. You can pay whenever you are ready.</Alert>}

@@ -105,22 +105,31 @@ function Outcome({ token, q, returned }: { token: string; q: PublicQuote; return
               <Alert tone="warning" title="Payment cancelled">Nothing was charged. You can pay the deposit whenever you are ready.</Alert>
             </div>
           )}
-          <p className="mt-2 text-walnut-800">
-            The deposit of <strong className="num">{formatMoney(deposit, c)}</strong> ({q.pricing.depositPct} %) books the work. You pay it on a secure card payment page and come back here afterwards.
-          </p>
-          {checkout.error && (
-            <div className="mt-3">
-              <Alert tone="error" title="The payment page could not be opened">{checkout.error.message}</Alert>
-            </div>
+          {q.checkout.available ? (
+            <>
+              <p className="mt-2 text-walnut-800">
+                The deposit of <strong className="num">{formatMoney(deposit, c)}</strong> ({q.pricing.depositPct} %) books the work. You pay it on a secure card payment page and come back here afterwards.
+              </p>
+              {checkout.error && (
+                <div className="mt-3">
+                  <Alert tone="error" title="The payment page could not be opened">{checkout.error.message}</Alert>
+                </div>
+              )}
+              <Button
+                variant="accent"
+                className="mt-4 px-5 py-2.5 text-base"
+                busy={checkout.isPending}
+                onClick={() => checkout.mutate(undefined, { onSuccess: ({ url }) => window.location.assign(url) })}
+              >
+                <Banknote className="h-5 w-5" aria-hidden /> Pay the deposit of {formatMoney(deposit, c)}
+              </Button>
+            </>
+          ) : (
+            <p className="mt-2 text-walnut-800" data-testid="no-card-payments">
+              The deposit of <strong className="num">{formatMoney(deposit, c)}</strong> ({q.pricing.depositPct} %) books the work. Card payments are not set up for this workshop, so it cannot be paid
+              here: please pay it the way {q.workshop.name} tells you, or get in touch with them.
+            </p>
           )}
-          <Button
-            variant="accent"
-            className="mt-4 px-5 py-2.5 text-base"
-            busy={checkout.isPending}
-            onClick={() => checkout.mutate(undefined, { onSuccess: ({ url }) => window.location.assign(url) })}
-          >
-            <Banknote className="h-5 w-5" aria-hidden /> Pay the deposit of {formatMoney(deposit, c)}
-          </Button>
         </>
       )}
     </section>

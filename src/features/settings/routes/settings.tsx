@@ -5,6 +5,7 @@ import { PageHeader } from '@/components/card';
 import { Spinner } from '@/components/spinner';
 import { useMaterials } from '@/lib/materials';
 import { useLabourRates, useSaveSettings, useSettings } from '../api/settings';
+import { CardPaymentsCard } from '../components/card-payments';
 import { LabourRatesCard } from '../components/labour-rates';
 import { SettingsForm } from '../components/settings-form';
 
@@ -30,6 +31,7 @@ export function SettingsPage() {
       {settings.isError && <Alert tone="error" title="Settings could not be loaded">{settings.error.message}</Alert>}
       {settings.data && (
         <div className="space-y-6">
+          <CardPaymentsCard />
           <LabourRatesCard currency={settings.data.settings.pricing.currency} />
           <SettingsForm
             workshop={settings.data}
