@@ -83,7 +83,11 @@ async function serve(script: string, processes: number, ready: RegExp, env: Reco
   await new Promise<void>((resolve, reject) => {
     let up = 0;
     let buffered = '';
-    const timer = setTimeout(() => reject(new Error(`${script}: ${up} of ${processes} workers up after three minutes`)), 180_000);
+    const timer = setTimeout(() => {
+      // Stop it, or it would stay behind this script.
+      child.kill('SIGTERM');
+      reject(new Error(`${script}: ${up} of ${processes} workers up after three minutes`));
+    }, 180_000);
     child.once('exit', () => reject(new Error(`${script} stopped before it was up`)));
     child.stdout!.on('data', (chunk: Buffer) => {
       buffered += chunk.toString();
