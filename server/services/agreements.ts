@@ -13,6 +13,8 @@ export async function agreementsOf(estimateIds: readonly number[]): Promise<Map<
   // The estimates a customer chose in an accepted quote: the quote's agreed figures (for a quote of several pieces,
   // the figures of the whole agreement, which the estimate is part of).
   const lines = await QuoteLine.findAll({ where: { estimateId: { [Op.in]: [...estimateIds] }, agreed: true } });
+  // Most estimates listed were never agreed: no second round trip for them.
+  if (lines.length === 0) return out;
   const quotes = await Quote.findAll({ where: { id: { [Op.in]: lines.map((l) => l.quoteId) }, state: { [Op.in]: ['accepted', 'deposit-paid'] } } });
   for (const line of lines) {
     const q = quotes.find((x) => x.id === line.quoteId);

@@ -5,7 +5,7 @@ import type { z } from 'zod';
 import { problems } from '../http/problem';
 import { Customer } from '../models';
 import { audit } from './audit';
-import { containsPattern, direction, offset, pageTotal } from './paging';
+import { anyOf, containsPattern, direction, offset, pageTotal } from './paging';
 
 type ListQuery = z.output<typeof CustomerListQuerySchema>;
 type Input = z.output<typeof CustomerInputSchema>;
@@ -45,8 +45,10 @@ const SORT = { name: 'name', createdAt: 'createdAt', updatedAt: 'updatedAt' } as
 export async function listCustomers(sequelize: Sequelize, q: ListQuery): Promise<Page<CustomerDto>> {
   const where: WhereOptions<Customer> = { archived: q.archived === 'true' };
   if (q.q) {
-    const like = containsPattern(q.q);
-    Object.assign(where, { [Op.or]: [{ name: { [Op.iLike]: like } }, { email: { [Op.iLike]: like } }, { phone: { [Op.iLike]: like } }] });
+    // Name, e-mail or phone, through the trigram indexes (the search function: an ILIKE under row-level security
+    // cannot use an index, migration 2026.12.08T50.00).
+    const like = sequelize.escape(containsPattern(q.q));
+    Object.assign(where, { [Op.and]: [anyOf('"Customer"."id"', `SELECT shellwright_search_customers(${like})`)] });
   }
   const rows = await Customer.findAll({
     where,

@@ -25,6 +25,7 @@ import {
 import { isDeepStrictEqual } from 'node:util';
 import { HttpProblem, problems } from '../http/problem';
 import { Customer, Estimate, EstimateRevision, Piece, User } from '../models';
+import { allOf } from '../db/queries';
 import { withAgreements } from './agreements';
 import { audit } from './audit';
 import { loadCatalog, type LoadedCatalog } from './catalog';
@@ -132,14 +133,19 @@ export async function getEstimate(id: number, transaction?: Transaction): Promis
     transaction,
   });
   if (!e) throw problems.notFound('Estimate');
-  const rows = await sequelize.query<RevisionRow>(
-    `SELECT r.id, r.number, r.total, r.labour_hours, r.catalog_version, r.note, r.created_at, u.id AS author_id, u.name AS author_name,
-            CASE WHEN r.id = :current THEN r.input END AS input, CASE WHEN r.id = :current THEN r.result END AS result
-       FROM estimate_revisions r LEFT JOIN users u ON u.id = r.created_by
-      WHERE r.estimate_id = :id
-      ORDER BY r.number DESC`,
-    { replacements: { id, current: e.current_revision_id ?? 0 }, type: QueryTypes.SELECT, transaction },
-  );
+  // The revisions and the agreed figures side by side (one after another inside a transaction).
+  const [rows, [summary]] = await allOf(transaction, [
+    () =>
+      sequelize.query<RevisionRow>(
+        `SELECT r.id, r.number, r.total, r.labour_hours, r.catalog_version, r.note, r.created_at, u.id AS author_id, u.name AS author_name,
+                CASE WHEN r.id = :current THEN r.input END AS input, CASE WHEN r.id = :current THEN r.result END AS result
+           FROM estimate_revisions r LEFT JOIN users u ON u.id = r.created_by
+          WHERE r.estimate_id = :id
+          ORDER BY r.number DESC`,
+        { replacements: { id, current: e.current_revision_id ?? 0 }, type: QueryTypes.SELECT, transaction },
+      ),
+    () => withAgreements([summaryFromRow(e)]),
+  ] as const);
   const summaryOf = (r: RevisionRow): RevisionSummary => ({
     id: r.id,
     number: r.number,
@@ -158,7 +164,6 @@ export async function getEstimate(id: number, transaction?: Transaction): Promis
     // Notes written before price lists had names spoke of the hash.
     return { ...r, priceList, note: r.note.replace(/price list pl-[0-9a-f]{6,}/g, priceList) };
   };
-  const [summary] = await withAgreements([summaryFromRow(e)]);
   return { ...summary!, revisions: rows.map((r) => named(summaryOf(r))), current: named({ ...summaryOf(current), input: current.input, result: current.result }) };
 }
 
@@ -424,6 +429,9 @@ function summaryFromRow(r: SummaryRow): EstimateSummary {
   };
 }
 
+/** Above this many matching estimates a search term is broad: the list walks its sort index instead of the ids. */
+const BROAD_SEARCH = 500;
+
 /**
  * A page of estimates: one query for the rows (plain SQL, no model instances: the list is the busiest read) and, only
  * when the page is full, a count that stops ten pages on. A text search reads each table's trigram index: the
@@ -442,18 +450,25 @@ export async function listEstimates(q: ListQuery): Promise<Page<EstimateSummary>
     replacements.customerId = q.customerId;
   }
   if (q.q) {
-    // The customers and pieces that match come first, as plain id lists, so that PostgreSQL can size each part of
-    // the search and combine the trigram indexes (given a sub-select instead, it guesses and reads the sort index).
+    // The estimates, customers and pieces that match come first, as plain id lists, each read from its table's
+    // trigram index through the search functions (an ILIKE under row-level security cannot use an index: migration
+    // 2026.12.08T50.00), so that PostgreSQL can size each part of the search and combine the id indexes. A broad
+    // term (more than BROAD_SEARCH estimates) is answered instead by walking the sort index and filtering, which
+    // stops as soon as the page and its capped count are full.
     replacements.like = containsPattern(q.q);
-    const [matched] = await sequelize.query<{ customers: number[]; pieces: number[] }>(
-      `SELECT ARRAY(SELECT id FROM customers WHERE name ILIKE :like) AS customers, ARRAY(SELECT id FROM pieces WHERE description ILIKE :like) AS pieces`,
-      { replacements, type: QueryTypes.SELECT },
+    const [matched] = await sequelize.query<{ estimates: number[]; customers: number[]; pieces: number[] }>(
+      `SELECT ARRAY(SELECT shellwright_search_estimates(:like) LIMIT :broad) AS estimates,
+              ARRAY(SELECT shellwright_search_customer_names(:like)) AS customers,
+              ARRAY(SELECT shellwright_search_pieces(:like)) AS pieces`,
+      { replacements: { like: replacements.like, broad: BROAD_SEARCH + 1 }, type: QueryTypes.SELECT },
     );
-    const either = ['e.number ILIKE :like', 'e.title ILIKE :like'];
+    const either: string[] = [];
+    if (matched!.estimates.length > BROAD_SEARCH) either.push('e.number ILIKE :like', 'e.title ILIKE :like');
+    else if (matched!.estimates.length > 0) either.push('e.id IN (:estimates)');
     if (matched!.customers.length > 0) either.push('e.customer_id IN (:customers)');
     if (matched!.pieces.length > 0) either.push('e.piece_id IN (:pieces)');
     Object.assign(replacements, matched);
-    conditions.push(`(${either.join(' OR ')})`);
+    conditions.push(either.length > 0 ? `(${either.join(' OR ')})` : 'false');
   }
   const where = conditions.join(' AND ');
   // The capped count rides along in the same round trip (an uncorrelated sub-select PostgreSQL runs once).

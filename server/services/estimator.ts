@@ -4,7 +4,7 @@
  */
 import type { Sequelize, Transaction } from 'sequelize';
 import { validationSentence } from '@shared/schemas/error-map';
-import { estimate, EstimateError } from '@shared/calc';
+import { estimateParsed, EstimateError } from '@shared/calc';
 import { EstimateInputSchema, type EstimateResult, type ParsedEstimateInput } from '@shared/schemas/calc';
 import type { WorkshopSettings } from '@shared/schemas/workshop';
 import { HttpProblem, parseOr400 } from '../http/problem';
@@ -32,10 +32,13 @@ export function withWorkshopDefaults(body: unknown, settings: WorkshopSettings):
   return parseOr400(EstimateInputSchema, filled);
 }
 
-/** Runs the engine; an input problem only the catalog reveals (unknown system or species) is a 400 too. */
+/**
+ * Runs the engine on an input `withWorkshopDefaults` checked (it is not checked again); an input problem only the
+ * catalog reveals (unknown system or species) is a 400 too.
+ */
 export function runEngine(input: ParsedEstimateInput, loaded: LoadedCatalog, today?: string): EstimateResult {
   try {
-    return estimate(input, loaded.catalog, today ? { today } : {});
+    return estimateParsed(input, loaded.catalog, today ? { today } : {});
   } catch (err) {
     if (err instanceof EstimateError) {
       const field = err.path.map(String).join('.') || '(body)';

@@ -301,7 +301,15 @@ function sumCharged(charges: ReadonlyArray<Money | number>): { cents: number | n
  * @example estimate({ piece: { template: 'grand', dimensions: { length: '6 ft 3 in' } }, system: 'full-repolish' }, catalog).totals
  */
 export function estimate(rawInput: EstimateInput, catalog: Catalog, options: EstimateOptions = {}): EstimateResult {
-  const input = EstimateInputSchema.parse(rawInput);
+  return estimateParsed(EstimateInputSchema.parse(rawInput), catalog, options);
+}
+
+/**
+ * {@link estimate} for an input already parsed by `EstimateInputSchema` (its output, defaults filled): the server
+ * checks a request body once to answer a 400 naming the field, then prices what it checked without checking the
+ * same parts a second time. Only a value the schema itself produced may be passed (the type says so).
+ */
+export function estimateParsed(input: ParsedEstimateInput, catalog: Catalog, options: EstimateOptions = {}): EstimateResult {
   checkCatalog(catalog);
 
   const system = catalog.systems.find((s) => s.key === input.system);

@@ -2,7 +2,7 @@
  * The estimator engine: pure functions shared by the browser (live, as the user types) and the server (to price
  * and save). No I/O; prices arrive in the catalog.
  */
-export { estimate, EstimateError } from './estimate';
+export { estimate, estimateParsed, EstimateError } from './estimate';
 export type { EstimateOptions } from './estimate';
 export {
   partArea, resolvePart, resolveShape, shapeArea, shapePerimeter, polygonArea, polygonPerimeter, ellipsePerimeter,

@@ -1,31 +1,96 @@
 /**
  * A database of its own for the load and fault runs: a private cluster under .data/bench (so stopping it never
- * touches the development database), migrated, with the demo workshop and 10 000 estimates.
+ * touches the development database), prepared as production prepares it: migrations as the owning role, then the
+ * app's role (`shellwright_app`, bound by row-level security) loads the demo workshop. The signed-in users' workshop
+ * (the demo one) gets 10 000 estimates, and a second workshop on the same tables holds as many of its own, so the
+ * policies have rows to keep out, as they do on a shared service.
  */
 import http from 'node:http';
 import type { AddressInfo } from 'node:net';
 import path from 'node:path';
 import { loadConfig, rootDir, type Config } from '../../server/config';
+import { ensureAppRole } from '../../server/db/app-role';
 import { clusterUrl, describeCluster, ensureDatabase, startCluster, type Cluster } from '../../server/db/cluster';
 import { createMigrator } from '../../server/db/migrator';
 import type { Sequelize } from 'sequelize';
-import { createSequelize } from '../../server/db/sequelize';
-import { lookupWorkshop, runAsWorkshop } from '../../server/db/workshop-context';
-import { initModels } from '../../server/models';
+import { createAppSequelize, createSequelize } from '../../server/db/sequelize';
+import { allWorkshopIds, runAsWorkshop } from '../../server/db/workshop-context';
+import { initModels, User } from '../../server/models';
 import { seed } from '../../server/seeders';
+import { DEFAULT_SETTINGS, ensureDefaults } from '../../server/seeders/defaults';
+import { createWorkshop } from '../../server/services/workshops';
 
 export const BENCH_DATA_DIR = path.join(rootDir, '.data', 'bench');
 const DATABASE = 'shellwright_bench';
+const NEIGHBOUR = 'Bench neighbour workshop';
 
 export interface BenchDb {
   cluster: Cluster;
+  /** The owner's URL (migrations; what DATABASE_URL names for a served app, whose primary sets up the app role). */
   url: string;
+  /** The app role's URL, as the app connects. */
+  appUrl: string;
   config: Config;
-  /** Open for the caller (models are bound to it); close it when done. */
+  /**
+   * The app role's pool, open for the caller (models are bound to it); close it when done. Work outside any
+   * workshop runs under the signed-in users' workshop (`workshopId`), as a request of theirs would.
+   */
   sequelize: Sequelize;
+  /** The demo workshop: the one the demo users sign in to, holding the benchmark's estimates. */
+  workshopId: number;
 }
 
-/** Starts the bench cluster and fills the bench database once (10 000 estimates); later runs reuse it. */
+/** Copies of the demo estimates: other numbers, spread over customers, states, totals and dates (run as the app). */
+async function addEstimates(sequelize: Sequelize, count: number): Promise<void> {
+  await sequelize.query(
+    `INSERT INTO customers (name, email, created_at, updated_at)
+     SELECT 'Load customer ' || g, 'load' || g || '@example.com', now() - (g || ' minutes')::interval, now()
+       FROM generate_series(1, 1000) g`,
+  );
+  await sequelize.query(
+    `INSERT INTO estimates (number, customer_id, piece_id, owner_id, title, state, valid_until, revision_count, current_revision_id,
+                            total, labour_hours, currency, archived, created_at, updated_at)
+     SELECT 'LOAD-' || lpad(g::text, 6, '0'), e.customer_id, e.piece_id, e.owner_id, e.title || ' #' || g,
+            (ARRAY['draft','priced','quoted','accepted'])[1 + g % 4], e.valid_until, e.revision_count, e.current_revision_id,
+            e.total + (g % 500), e.labour_hours, e.currency, false, now() - (g || ' minutes')::interval, now() - (g || ' minutes')::interval
+       FROM generate_series(1, :count) g
+       JOIN LATERAL (SELECT * FROM estimates WHERE number LIKE 'EST-%' ORDER BY id OFFSET (g % 4) LIMIT 1) e ON true`,
+    { replacements: { count } },
+  );
+}
+
+/** A second workshop with its own customers, pieces and `count` estimates, whose words match the same searches. */
+async function addNeighbour(sequelize: Sequelize, count: number): Promise<void> {
+  const id = await createWorkshop(sequelize, { name: NEIGHBOUR, email: 'hello@bench-neighbour.example', phone: null, address: null, settings: DEFAULT_SETTINGS });
+  await runAsWorkshop(id, async () => {
+    await ensureDefaults(sequelize);
+    const owner = await User.create({ email: 'owner@bench-neighbour.example', name: 'Owner of the neighbour', role: 'owner', passwordHash: 'x', lastLoginAt: null });
+    await sequelize.query(
+      `INSERT INTO customers (name, email, created_at, updated_at)
+       SELECT 'Neighbour customer ' || g, 'neighbour' || g || '@example.com', now() - (g || ' minutes')::interval, now()
+         FROM generate_series(1, 1000) g`,
+    );
+    await sequelize.query(
+      `INSERT INTO pieces (customer_id, kind, description, created_at, updated_at)
+       SELECT id, (ARRAY['grand','table','cabinet','upright'])[1 + id % 4], (ARRAY['Boudoir grand','Side table','Cabinet','Upright'])[1 + id % 4] || ' ' || id, now(), now()
+         FROM customers`,
+    );
+    await sequelize.query(
+      `INSERT INTO estimates (number, customer_id, piece_id, owner_id, title, state, valid_until, total, labour_hours, currency, created_at, updated_at)
+       SELECT 'EST-2026-' || lpad(g::text, 5, '0'), p.customer_id, p.id, :owner, 'Refinish ' || p.description || ' #' || g,
+              (ARRAY['draft','priced','quoted','accepted'])[1 + g % 4], DATE '2027-06-30', 100 + g % 900, 3, 'GBP',
+              now() - (g || ' seconds')::interval, now() - (g || ' seconds')::interval
+         FROM generate_series(1, :count) g
+         JOIN LATERAL (SELECT * FROM pieces ORDER BY id OFFSET (g % 1000) LIMIT 1) p ON true`,
+      { replacements: { count, owner: owner.id } },
+    );
+  });
+}
+
+/**
+ * Starts the bench cluster and fills the bench database once (10 000 estimates in the demo workshop, as many in a
+ * neighbour); later runs reuse it.
+ */
 export async function benchDatabase(opts: { estimates?: number; poolMax?: number } = {}): Promise<BenchDb> {
   const cluster = describeCluster(BENCH_DATA_DIR);
   startCluster(cluster);
@@ -33,39 +98,41 @@ export async function benchDatabase(opts: { estimates?: number; poolMax?: number
   const url = clusterUrl(cluster, DATABASE);
   process.env.SHELLWRIGHT_DATA_DIR = BENCH_DATA_DIR;
   const config = { ...loadConfig(), databaseUrl: url, dataDir: BENCH_DATA_DIR, uploadsDir: path.join(BENCH_DATA_DIR, 'uploads'), loginAttempts: 1000 };
-  const sequelize = createSequelize(url, { poolMax: opts.poolMax ?? 20 });
-  await createMigrator(sequelize, { quiet: true }).up();
-  initModels(sequelize);
-  // The first demo workshop only: this connection is the owner's, which row-level security does not bind, so a second
-  // workshop's demo would find the first's rows by their keys.
-  await seed(sequelize, { demo: true, uploadsDir: config.uploadsDir, demoWorkshops: 1 });
-  const want = opts.estimates ?? 10_000;
-  const [[{ n }]] = (await sequelize.query('SELECT count(*)::int AS n FROM estimates')) as [[{ n: number }], unknown];
-  if (n < want) {
-    console.log(`[bench] adding ${want - n} estimates…`);
-    // The rows go to the demo workshop (the column's default reads the workshop setting).
-    const demoWorkshop = await lookupWorkshop(sequelize, 'email', 'owner@example.com');
-    await runAsWorkshop(demoWorkshop!, async () => {
-    // Copies of the demo estimates: other numbers, spread over customers, states, totals and dates.
-    await sequelize.query(
-      `INSERT INTO customers (name, email, created_at, updated_at)
-       SELECT 'Load customer ' || g, 'load' || g || '@example.com', now() - (g || ' minutes')::interval, now()
-         FROM generate_series(1, 1000) g`,
-    );
-    await sequelize.query(
-      `INSERT INTO estimates (number, customer_id, piece_id, owner_id, title, state, valid_until, revision_count, current_revision_id,
-                              total, labour_hours, currency, archived, created_at, updated_at)
-       SELECT 'LOAD-' || lpad(g::text, 6, '0'), e.customer_id, e.piece_id, e.owner_id, e.title || ' #' || g,
-              (ARRAY['draft','priced','quoted','accepted'])[1 + g % 4], e.valid_until, e.revision_count, e.current_revision_id,
-              e.total + (g % 500), e.labour_hours, e.currency, false, now() - (g || ' minutes')::interval, now() - (g || ' minutes')::interval
-         FROM generate_series(1, :count) g
-         JOIN LATERAL (SELECT * FROM estimates WHERE number LIKE 'EST-%' ORDER BY id OFFSET (g % 4) LIMIT 1) e ON true`,
-      { replacements: { count: want - n } },
-    );
-    });
-    await sequelize.query('ANALYZE');
+  // As prepareDatabase (server/index.ts) does it: the owner migrates, the app's role loads the workshops.
+  const owner = createSequelize(url, { poolMax: 2 });
+  let appUrl: string;
+  try {
+    await createMigrator(owner, { quiet: true }).up();
+    appUrl = await ensureAppRole(url);
+  } finally {
+    await owner.close();
   }
-  return { cluster, url, config, sequelize };
+  let workshopId: number | null = null;
+  const sequelize = createAppSequelize(appUrl, { poolMax: opts.poolMax ?? 20, fallback: async () => workshopId });
+  initModels(sequelize);
+  // The first demo workshop only; the neighbour below is the other workshop the figures need.
+  await seed(sequelize, { demo: true, uploadsDir: config.uploadsDir, demoWorkshops: 1 });
+  const [demo, ...others] = await allWorkshopIds(sequelize);
+  workshopId = demo!;
+  const want = opts.estimates ?? 10_000;
+  const [[{ n }]] = (await runAsWorkshop(workshopId, () => sequelize.query('SELECT count(*)::int AS n FROM estimates'))) as [[{ n: number }], unknown];
+  let filled = false;
+  if (n < want) {
+    console.log(`[bench] adding ${want - n} estimates to the demo workshop…`);
+    await runAsWorkshop(workshopId, () => addEstimates(sequelize, want - n));
+    filled = true;
+  }
+  if (want > 0 && others.length === 0) {
+    console.log(`[bench] adding a neighbour workshop with ${want} estimates of its own…`);
+    await addNeighbour(sequelize, want);
+    filled = true;
+  }
+  if (filled) {
+    // Statistics are the owner's to gather (the app's role may not ANALYZE tables it does not own).
+    const analyse = createSequelize(url, { poolMax: 1 });
+    await analyse.query('ANALYZE').finally(() => analyse.close());
+  }
+  return { cluster, url, appUrl, config, sequelize, workshopId };
 }
 
 export async function listen(handler: http.RequestListener): Promise<{ url: string; close: () => Promise<void> }> {

@@ -46,7 +46,11 @@ async function serveApp(env: Record<string, string>): Promise<{ url: string; sto
   });
   const exited = new Promise<void>((resolve) => child.once('exit', () => resolve()));
   await new Promise<void>((resolve, reject) => {
-    const timer = setTimeout(() => reject(new Error('the app was not up after a minute')), 60_000);
+    const timer = setTimeout(() => {
+      // Stop it, or it would stay behind this script.
+      child.kill('SIGTERM');
+      reject(new Error('the app was not up after three minutes'));
+    }, 180_000);
     child.once('exit', () => reject(new Error('the app stopped before it was up')));
     child.stdout!.on('data', (chunk: Buffer) => {
       if (/Shellwright is up/.test(chunk.toString())) {

@@ -5,13 +5,19 @@
  * same way. Prints requests per second (the median of the one-second counts, and the mean), p50/p99 latency, the
  * ratio to the bare endpoint and the errors; the query plans of the list and of the three search boxes; the client's
  * initial JavaScript (gzipped) against its 250 KB budget; and the time to make a quote PDF. Figures only, no
- * pass/fail. Options: BENCH_SECONDS (default 8), BENCH_CONNECTIONS (default 10), BENCH_PROCESSES (default "1,2"). */
+ * pass/fail. Options: BENCH_SECONDS (default 8), BENCH_CONNECTIONS (default 10), BENCH_PROCESSES (default "1,2").
+ *
+ * Everything runs as production does: the served app connects as `shellwright_app` under row-level security (its
+ * primary migrates as the owner and sets the role up), signed in as the demo workshop's estimator, whose workshop
+ * holds the 10 000 estimates beside a neighbour workshop with as many; the run prints the role the app's connections
+ * use to prove it. The plans and the PDF are taken through the same role, under the same workshop. */
 import { spawn, type ChildProcess } from 'node:child_process';
 import fs from 'node:fs';
 import net from 'node:net';
 import path from 'node:path';
 import { gzipSync } from 'node:zlib';
 import autocannon from 'autocannon';
+import pg from 'pg';
 import { buildClientIfNeeded } from '../../server/cli/build-client';
 import { rootDir } from '../../server/config';
 import { stopCluster } from '../../server/db/cluster';
@@ -63,7 +69,7 @@ interface Served {
 }
 
 /**
- * Starts `script` under node:cluster with `processes` workers and waits (at most a minute) until each worker has
+ * Starts `script` under node:cluster with `processes` workers and waits (at most three minutes: the machine may be busy) until each worker has
  * printed `ready`.
  */
 async function serve(script: string, processes: number, ready: RegExp, env: Record<string, string> = {}): Promise<Served> {
@@ -77,7 +83,11 @@ async function serve(script: string, processes: number, ready: RegExp, env: Reco
   await new Promise<void>((resolve, reject) => {
     let up = 0;
     let buffered = '';
-    const timer = setTimeout(() => reject(new Error(`${script}: ${up} of ${processes} workers up after a minute`)), 60_000);
+    const timer = setTimeout(() => {
+      // Stop it, or it would stay behind this script.
+      child.kill('SIGTERM');
+      reject(new Error(`${script}: ${up} of ${processes} workers up after three minutes`));
+    }, 180_000);
     child.once('exit', () => reject(new Error(`${script} stopped before it was up`)));
     child.stdout!.on('data', (chunk: Buffer) => {
       buffered += chunk.toString();
@@ -99,6 +109,23 @@ async function serve(script: string, processes: number, ready: RegExp, env: Reco
   };
 }
 
+/** The roles the served app's connections use, read by the owner from pg_stat_activity, with their RLS attributes. */
+async function appRoles(ownerUrl: string): Promise<string> {
+  const client = new pg.Client({ connectionString: ownerUrl });
+  await client.connect();
+  try {
+    const { rows } = await client.query<{ usename: string; n: number; rolsuper: boolean; rolbypassrls: boolean }>(
+      `SELECT a.usename, count(*)::int AS n, r.rolsuper, r.rolbypassrls
+         FROM pg_stat_activity a JOIN pg_roles r ON r.rolname = a.usename
+        WHERE a.datname = current_database() AND a.pid <> pg_backend_pid() AND a.application_name <> 'pg_dump'
+        GROUP BY 1, 3, 4 ORDER BY 1`,
+    );
+    return `the app's connections: ${rows.map((r) => `${r.n} as ${r.usename} (${r.rolsuper || r.rolbypassrls ? 'BYPASSES row-level security' : 'bound by row-level security'})`).join(', ')}`;
+  } finally {
+    await client.end();
+  }
+}
+
 function printRows(rows: Row[]): void {
   const base = rows[0]!.rps;
   console.log('endpoint'.padEnd(46) + 'req/s'.padStart(9) + 'mean'.padStart(8) + 'p50 ms'.padStart(9) + 'p99 ms'.padStart(9) + 'ratio'.padStart(8) + 'errors'.padStart(8) + 'non-2xx'.padStart(9));
@@ -118,8 +145,8 @@ function printRows(rows: Row[]): void {
 
 async function main(): Promise<void> {
   await buildClientIfNeeded();
-  const { cluster, url, config, sequelize } = await benchDatabase();
-  await sequelize.query('ANALYZE');
+  // `sequelize` is the app's role; queries outside a request run under the demo workshop (the signed-in user's).
+  const { cluster, url, config, sequelize, workshopId } = await benchDatabase();
   const serverEnv = { DATABASE_URL: url, SHELLWRIGHT_DATA_DIR: BENCH_DATA_DIR, NODE_ENV: 'development', SHELLWRIGHT_LOGIN_ATTEMPTS: '1000' };
   try {
     const [{ id }] = (await sequelize.query("SELECT id FROM estimates WHERE number LIKE 'EST-%' ORDER BY id LIMIT 1"))[0] as [{ id: number }];
@@ -130,7 +157,8 @@ async function main(): Promise<void> {
     )) as [[{ matches: number }], unknown];
 
     console.log(`Node ${process.version}; ${CONNECTIONS} connections, ${SECONDS} s each, loopback; autocannon in this process, the servers in their own.`);
-    console.log(`The search "grand" matches ${matches} of the 10 000 estimates.`);
+    const [[{ mine }]] = (await sequelize.query('SELECT count(*)::int AS mine FROM estimates')) as [[{ mine: number }], unknown];
+    console.log(`Signed in to workshop ${workshopId}, which sees ${mine} estimates under row-level security; the search "grand" matches ${matches} of them.`);
     const summary: { processes: number; rows: Row[] }[] = [];
     for (const processes of PROCESSES) {
       console.log(`\n${processes} process${processes === 1 ? '' : 'es'} (node:cluster, as npm run serve):`);
@@ -145,6 +173,7 @@ async function main(): Promise<void> {
       try {
         const { cookie, csrf } = await signInHttp(app.url, 'estimator@example.com');
         const headers = { cookie, 'content-type': 'application/json', 'x-csrf-token': csrf };
+        if (processes === PROCESSES[0]) console.log(await appRoles(url));
         rows.push(await run('POST /api/calc/preview (default grand)', { url: `${app.url}/api/calc/preview`, method: 'POST', headers, body: preview }));
         rows.push(await run('GET /api/estimates (10 000, page 1)', { url: `${app.url}/api/estimates?sort=updatedAt&dir=desc&page=1&pageSize=25`, headers }));
         rows.push(await run('GET /api/estimates?q=grand&sort=total p.3', { url: `${app.url}/api/estimates?q=grand&sort=total&dir=desc&page=3`, headers }));
@@ -165,7 +194,8 @@ async function main(): Promise<void> {
       }
     }
 
-    // The query plans of the list's first page and of the search boxes, as the services send them.
+    // The query plans of the list's first page and of the search boxes, as the services send them, through the app's
+    // role under the signed-in workshop (the policies' conditions show in the plans).
     const captured: string[] = [];
     const options = (sequelize as unknown as { options: { logging: unknown } }).options;
     const logging = options.logging;

@@ -48,7 +48,7 @@ async function main(): Promise<void> {
   const sharp = (await import('sharp')).default;
   const db = await benchDatabase({ estimates: 0 });
   const services = await startLocalServices(db.config);
-  const built = createApp({ config: db.config, sequelize: db.sequelize, databaseUrl: db.url, serveClient: false });
+  const built = createApp({ config: db.config, sequelize: db.sequelize, databaseUrl: db.appUrl, serveClient: false });
   const server = await listen(built.app);
   const base = server.url;
   try {

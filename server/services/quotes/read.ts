@@ -141,14 +141,11 @@ export async function listQuotes(q: ListQuery): Promise<Page<QuoteSummary>> {
   if (q.estimateId) Object.assign(where, { estimateId: q.estimateId });
   if (q.q) {
     const like = containsPattern(q.q);
-    // Each table's trigram index: the quote's number and recipient, and the quotes of matching estimates.
+    // Each table's trigram index, through the search functions (an ILIKE under row-level security cannot use an
+    // index, migration 2026.12.08T50.00): the quote's number and recipient, and the quotes of matching estimates.
     const escaped = Quote.sequelize!.escape(like);
     Object.assign(where, {
-      [Op.or]: [
-        { number: { [Op.iLike]: like } },
-        { recipient: { [Op.iLike]: like } },
-        anyOf('"Quote"."estimate_id"', `SELECT id FROM estimates WHERE number ILIKE ${escaped} OR title ILIKE ${escaped}`),
-      ],
+      [Op.or]: [anyOf('"Quote"."id"', `SELECT shellwright_search_quotes(${escaped})`), anyOf('"Quote"."estimate_id"', `SELECT shellwright_search_estimates(${escaped})`)],
     });
   }
   const rows = await Quote.findAll({

@@ -6,8 +6,8 @@
  */
 import { readFileSync } from 'node:fs';
 import { describe, expect, it } from 'vitest';
-import { estimate, EstimateError } from '../../../shared/calc';
-import type { EstimateInput } from '../../../shared/schemas/calc';
+import { estimate, EstimateError, estimateParsed } from '../../../shared/calc';
+import { EstimateInputSchema, type EstimateInput } from '../../../shared/schemas/calc';
 import { DEMO_CATALOG, demoCatalog } from '../../fixtures/catalog';
 import { goldenCases } from '../../fixtures/golden/cases';
 import { GOLDEN_FILE, goldenJson } from '../../fixtures/golden/golden';
@@ -31,6 +31,10 @@ describe('engine golden file', () => {
       expect(is[i]?.result, `first case that differs: ${is[i]?.name}`).toEqual(was[i]?.result);
     }
     expect(now).toBe(golden);
+  });
+
+  it("the server's path (the input checked once, then estimateParsed) gives the golden results byte for byte", () => {
+    expect(goldenJson((input, catalog, options) => estimateParsed(EstimateInputSchema.parse(input), catalog, options), DEMO_CATALOG)).toBe(golden);
   });
 
   it('gives the same results again with the same catalog and with a fresh copy of it (no state kept between calls)', () => {

@@ -1,5 +1,5 @@
 import { Hammer, LayoutList, ListRestart, Save, Thermometer, TriangleAlert, Wand2 } from 'lucide-react';
-import { useDeferredValue, useMemo, useState, type FormEvent, type ReactNode } from 'react';
+import { memo, useDeferredValue, useMemo, useState, type FormEvent, type ReactNode } from 'react';
 import { estimate } from '@shared/calc';
 import { TEMPLATE_KEYS, TEMPLATE_DIMENSIONS, type EstimateInput, type EstimateResult, type TemplateKey } from '@shared/schemas/calc';
 import type { PieceKind } from '@shared/schemas/customers';
@@ -50,6 +50,13 @@ export interface EstimateEditorProps {
 }
 
 type Outcome = { ok: true; result: EstimateResult } | { ok: false; errors: Record<string, string> };
+
+/**
+ * The live figures and cautions beside the form redraw only when the figures (or the units) change: a keystroke is
+ * drawn first with the figures it had, and the engine's new figures follow on the deferred draft.
+ */
+const LiveSummary = memo(ResultsSummary);
+const LiveCautions = memo(CautionsPanel);
 
 function Panel({ title, icon, children, actions }: { title: string; icon: ReactNode; children: ReactNode; actions?: ReactNode }) {
   return (
@@ -347,8 +354,8 @@ export function EstimateEditor({ calc, pieceKind, initial, saveLabel, saving = f
           )}
           {result ? (
             <>
-              <ResultsSummary result={result} units={units} stale={stale} heading="This estimate" />
-              <CautionsPanel result={result} units={units} compact />
+              <LiveSummary result={result} units={units} stale={stale} heading="This estimate" />
+              <LiveCautions result={result} units={units} compact />
             </>
           ) : (
             <Alert tone="warning" title="Nothing to price yet">
