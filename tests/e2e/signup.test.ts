@@ -3,11 +3,13 @@
  * link from the local mail catcher, confirms, signs in and finds the setting-up checklist on the overview.
  */
 import { randomBytes } from 'node:crypto';
+import { createRequire } from 'node:module';
 import { afterAll, describe, expect, it } from 'vitest';
 import { getTestApp } from '../helpers/app';
 import { browserSuite, screenshot, settle, watchConsole } from '../helpers/browser';
 
 const suite = browserSuite({ services: true });
+const axePath = createRequire(import.meta.url).resolve('axe-core/axe.min.js');
 
 afterAll(async () => {
   await getTestApp().sequelize.query(`DELETE FROM login_attempts WHERE key LIKE 'signup:%'`);
@@ -80,4 +82,29 @@ describe('signing up a workshop, in a real browser', () => {
     expect(errors).toEqual([]);
     await context.close();
   });
+});
+
+describe('the sign-up pages on a phone', () => {
+  for (const path of ['/signup', `/confirm/${'x'.repeat(43)}`]) {
+    it(`${path.slice(0, 9)} fits 390 px and has no serious accessibility problem`, async () => {
+      // axe is injected as a script: the page's content security policy would refuse it, so this context bypasses it.
+      const context = await suite.browser.newContext({ viewport: { width: 390, height: 844 }, bypassCSP: true });
+      const page = await context.newPage();
+      const errors = watchConsole(page);
+      await page.goto(`${suite.server.baseUrl}${path}`);
+      await page.getByRole('heading', { level: 1 }).waitFor();
+      await settle(page);
+      expect(await page.evaluate(() => document.documentElement.scrollWidth - document.documentElement.clientWidth)).toBeLessThanOrEqual(0);
+      await screenshot(page, `signup-phone-${path.split('/')[1]}`);
+      await page.addScriptTag({ path: axePath });
+      const violations = await page.evaluate(async () => {
+        const w = window as unknown as { axe: { run: (ctx: Document, opts: object) => Promise<{ violations: { id: string; impact: string | null }[] }> } };
+        const result = await w.axe.run(document, { runOnly: { type: 'tag', values: ['wcag2a', 'wcag2aa', 'wcag21a', 'wcag21aa'] } });
+        return result.violations.filter((v) => v.impact === 'serious' || v.impact === 'critical').map((v) => v.id);
+      });
+      expect(violations).toEqual([]);
+      expect(errors).toEqual([]);
+      await context.close();
+    });
+  }
 });
