@@ -18,6 +18,8 @@ interface Team {
   ownerEmail: string;
   estimatorEmail: string;
   customer: string;
+  country: string;
+  taxPct: string;
   customerPath?: string;
   contexts: BrowserContext[];
   owner?: Page;
@@ -25,7 +27,9 @@ interface Team {
   errors: string[][];
 }
 
-const team = (name: string, domain: string): Team => ({
+const team = (name: string, domain: string, country: string, taxPct: string): Team => ({
+  country,
+  taxPct,
   name: `${name} ${tag}`,
   ownerEmail: `owner-${tag}@${domain}`,
   estimatorEmail: `estimator-${tag}@${domain}`,
@@ -34,8 +38,8 @@ const team = (name: string, domain: string): Team => ({
   errors: [],
 });
 
-const A = team('Hollowmere Polishing', 'hollowmere.example');
-const B = team('Ravensgill Pianos', 'ravensgill.example');
+const A = team('Hollowmere Polishing', 'hollowmere.example', 'GB', '20');
+const B = team('Ravensgill Pianos', 'ravensgill.example', 'US', '0');
 const PASSWORD = 'a long password for the journey';
 
 async function clearSignupLimits(): Promise<void> {
@@ -77,6 +81,8 @@ describe('two workshops signed up through the browser', () => {
       const page = await newPage(suite.browser, t);
       await page.goto(`${suite.server.baseUrl}/signup`);
       await page.getByLabel('Workshop name').fill(t.name);
+      await page.getByLabel('Country').selectOption(t.country);
+      await page.getByLabel('Tax rate (%)').fill(t.taxPct);
       await page.getByLabel('Your name').fill(`Owner of ${t.name}`);
       await page.getByLabel('E-mail').fill(t.ownerEmail);
       await page.getByLabel('Password', { exact: true }).fill(PASSWORD);
