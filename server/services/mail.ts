@@ -6,7 +6,7 @@
 import nodemailer, { type Transporter } from 'nodemailer';
 import type { Config } from '../config';
 import { problems } from '../http/problem';
-import { OutboxMessage, Quote } from '../models';
+import { OutboxMessage, Quote, Workshop } from '../models';
 import type { OutboxDetail, OutboxSummary } from '@shared/schemas/quotes';
 
 const transports = new Map<string, Transporter>();
@@ -92,10 +92,27 @@ export async function retryMessage(config: Config, id: number): Promise<OutboxMe
   return send(config, m);
 }
 
+/** The service's sending address out of MAIL_FROM ("Shellwright quotes <quotes@…>" → quotes@…). */
+export function sendingAddress(from: string): string {
+  const m = /<([^<>\s]+@[^<>\s]+)>\s*$/.exec(from);
+  return (m ? m[1]! : from).trim();
+}
+
+/**
+ * Who a message is from: the workshop the work runs under, by name, at the service's own sending address (so the
+ * mail passes the service's sender checks), with replies going to the workshop's own e-mail when it has one. Under
+ * no workshop (nothing to read) it is MAIL_FROM as configured.
+ */
+export async function senderOf(config: Config): Promise<{ from: string | { name: string; address: string }; replyTo?: string }> {
+  const workshop = await Workshop.findOne({ attributes: ['id', 'name', 'email'], order: [['id', 'ASC']] });
+  if (!workshop) return { from: config.mail.from };
+  return { from: { name: workshop.name, address: sendingAddress(config.mail.from) }, ...(workshop.email ? { replyTo: workshop.email } : {}) };
+}
+
 async function send(config: Config, m: OutboxMessage): Promise<OutboxMessage> {
   try {
     const info = await transport(config).sendMail({
-      from: config.mail.from,
+      ...(await senderOf(config)),
       to: m.toAddress,
       subject: m.subject,
       text: m.textBody,

@@ -20,7 +20,7 @@ import { estimateFromBody } from '../estimator';
 import { recordJobEvent } from '../job-events';
 import { isOverbooked, loadBoardJobs, loadPlanning, localNow, lockBoard, overbookingDto, toBooked, writePlan } from '../planning-context';
 import { cannotPlan } from '../planning/booking';
-import { EXTRA_SESSION_MAX_HOURS } from '../planning/jobs';
+import { EXTRA_SESSION_MAX_HOURS, unbookedSession } from '../planning/jobs';
 import { sessionsOf } from '../planning/mapping';
 import { hashToken, makeToken, tokenSigned } from '../quotes/links';
 import { variationDto } from './variation-dto';
@@ -174,31 +174,20 @@ async function addSessions(job: Job, v: JobVariation, transaction: Transaction):
   await sequelize.query('UPDATE job_sessions SET idx = -idx - 1 + :n WHERE job_id = :job AND idx < 0', { replacements: { job: job.id, n }, transaction });
   const name = `Variation: ${v.title}`.slice(0, 80);
   await JobSession.bulkCreate(
-    Array.from({ length: n }, (_, i) => ({
-      jobId: job.id,
-      idx: at + i,
-      stage: `variation-${v.id}`,
-      stageKind: 'extra' as const,
-      stageName: name,
-      session: i + 1,
-      ofSessions: n,
-      handsOnMin: Math.max(1, Math.round(each * 60)),
-      restMin: 0,
-      estimatedHours: each.toFixed(3),
-      plannedStart: null,
-      plannedEnd: null,
-      restUntil: null,
-      baselineStart: null,
-      baselineEnd: null,
-      polisherId: null,
-      actualEnd: null,
-      actualHours: null,
-      temperatureC: null,
-      humidityPct: null,
-      notes: null,
-      doneBy: null,
-      doneAt: null,
-    })),
+    Array.from({ length: n }, (_, i) =>
+      unbookedSession({
+        jobId: job.id,
+        idx: at + i,
+        stage: `variation-${v.id}`,
+        stageKind: 'extra',
+        stageName: name,
+        session: i + 1,
+        ofSessions: n,
+        handsOnMin: Math.max(1, Math.round(each * 60)),
+        restMin: 0,
+        estimatedHours: each.toFixed(3),
+      }),
+    ),
     { transaction },
   );
   await relay(job, transaction);

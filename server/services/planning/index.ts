@@ -6,7 +6,7 @@
  * One job a file: mapping (the API's shapes), read, jobs (make, change, cancel), booking, progress, board.
  */
 export { getJob, listJobs } from './read';
-export { cancelJob, createJob, EXTRA_SESSION_MAX_HOURS, extraStages, footprintM2, jobStages, updateJob } from './jobs';
+export { cancelJob, createJob, EXTRA_SESSION_MAX_HOURS, extraStages, footprintM2, jobStages, unbookedSession, updateJob, type SessionPlan } from './jobs';
 export { bookJob, previewBooking } from './booking';
 export { markSessionDone } from './progress';
 export { getBoard, readyToBook } from './board';

@@ -1,5 +1,5 @@
 /** Making a job from an accepted quote, changing its notes or dates, and taking it off the board. */
-import { Op, type Sequelize } from 'sequelize';
+import { Op, type CreationAttributes, type Sequelize } from 'sequelize';
 import type { EstimateResult } from '@shared/schemas/calc';
 import type { Catalog } from '@shared/schemas/catalog';
 import { type CreateJobData, type JobDetail, type UpdateJobInput } from '@shared/schemas/planning';
@@ -29,6 +29,35 @@ export function jobStages(result: EstimateResult, catalog: Pick<Catalog, 'shella
         ...s.materials,
       ],
     }));
+}
+
+/** What a new session names: its job, place, stage and planned work. */
+export type SessionPlan = Pick<
+  CreationAttributes<JobSession>,
+  'jobId' | 'idx' | 'stage' | 'stageKind' | 'stageName' | 'session' | 'ofSessions' | 'handsOnMin' | 'restMin' | 'estimatedHours'
+>;
+
+/**
+ * A new session not yet booked: the plan given, and every field of booking, progress and record still empty (no
+ * planned or baseline times, no polisher, no actuals, not done). Jobs and approved variations make sessions with it.
+ */
+export function unbookedSession(plan: SessionPlan): CreationAttributes<JobSession> {
+  return {
+    ...plan,
+    plannedStart: null,
+    plannedEnd: null,
+    restUntil: null,
+    baselineStart: null,
+    baselineEnd: null,
+    polisherId: null,
+    actualEnd: null,
+    actualHours: null,
+    temperatureC: null,
+    humidityPct: null,
+    notes: null,
+    doneBy: null,
+    doneAt: null,
+  };
 }
 
 /** Longest session of extra work: longer extras are split into sessions of equal length up to this. */
@@ -118,31 +147,20 @@ export async function createJob(sequelize: Sequelize, actorId: number, input: Cr
       ...result.calendar.sessions.map((c) => ({ stage: c.stage, stageKind: c.stageKind as JobStage['kind'], session: c.session, handsOnHours: c.handsOnHours, restHours: c.restHours })),
     ];
     await JobSession.bulkCreate(
-      planned.map((c, i) => ({
-        jobId: job.id,
-        idx: i,
-        stage: c.stage,
-        stageKind: c.stageKind,
-        stageName: names.get(c.stage)?.name ?? c.stage,
-        session: c.session,
-        ofSessions: names.get(c.stage)?.sessions ?? 1,
-        handsOnMin: Math.max(1, Math.round(c.handsOnHours * 60)),
-        restMin: Math.max(0, Math.round(c.restHours * 60)),
-        estimatedHours: c.handsOnHours.toFixed(3),
-        plannedStart: null,
-        plannedEnd: null,
-        restUntil: null,
-        baselineStart: null,
-        baselineEnd: null,
-        polisherId: null,
-        actualEnd: null,
-        actualHours: null,
-        temperatureC: null,
-        humidityPct: null,
-        notes: null,
-        doneBy: null,
-        doneAt: null,
-      })),
+      planned.map((c, i) =>
+        unbookedSession({
+          jobId: job.id,
+          idx: i,
+          stage: c.stage,
+          stageKind: c.stageKind,
+          stageName: names.get(c.stage)?.name ?? c.stage,
+          session: c.session,
+          ofSessions: names.get(c.stage)?.sessions ?? 1,
+          handsOnMin: Math.max(1, Math.round(c.handsOnHours * 60)),
+          restMin: Math.max(0, Math.round(c.restHours * 60)),
+          estimatedHours: c.handsOnHours.toFixed(3),
+        }),
+      ),
       { transaction },
     );
     await audit({ userId: actorId, action: 'job.create', entityType: 'job', entityId: job.id, after: { number: job.number, quote: quote.number, sessions: planned.length, extras: extras.map((x) => x.stage.name), bays: job.bays, areaM2: job.areaM2 } }, transaction);
