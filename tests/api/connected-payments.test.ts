@@ -3,12 +3,16 @@
  * SDK, against the local stand-in), its deposits are taken on that account, and a webhook counts only for the
  * workshop whose account sent it and owns the checkout.
  */
+import fs from 'node:fs';
 import http from 'node:http';
 import type { AddressInfo } from 'node:net';
+import os from 'node:os';
+import path from 'node:path';
 import request from 'supertest';
 import Stripe from 'stripe';
 import { afterAll, beforeAll, describe, expect, it } from 'vitest';
 import { runAsWorkshop } from '../../server/db/workshop-context';
+import { startPaymentProvider } from '../../server/fakes/payment-provider';
 import { AccountEntry, Payment, Workshop } from '../../server/models';
 import { closeTestApp, getTestApp, signIn, startServices, type Session } from '../helpers/app';
 import { createOtherWorkshop, OTHER_PASSWORD, type OtherWorkshop } from '../helpers/workshops';
@@ -222,5 +226,32 @@ describe('deposits on the workshop’s own account', () => {
     const quoteId = payments[0]!.quoteId;
     const entries = await runAsWorkshop(a.w.id, () => AccountEntry.findAll({ where: { quoteId } }));
     expect(entries).toHaveLength(1);
+  });
+});
+
+describe('the stand-in across a restart', () => {
+  it('keeps its accounts and checkouts in its state file, on the same port when it is free', async () => {
+    const dir = fs.mkdtempSync(path.join(os.tmpdir(), 'shellwright-payments-'));
+    const opts = { apiKey: 'sk_test_restart', webhookSecret: 'whsec_restart', webhookUrl: `${config.publicUrl}/api/webhooks/payments`, stateFile: path.join(dir, 'state.json') };
+    const sdk = (port: number) => new Stripe('sk_test_restart', { host: '127.0.0.1', port, protocol: 'http', maxNetworkRetries: 0, telemetry: false });
+    const first = await startPaymentProvider(opts);
+    let second: Awaited<ReturnType<typeof startPaymentProvider>> | undefined;
+    try {
+      const account = await sdk(first.port).accounts.create({ type: 'standard', business_profile: { name: 'Restart Rooms' } });
+      await first.completeOnboarding(account.id, { notify: false });
+      const session = await sdk(first.port).checkout.sessions.create(
+        { mode: 'payment', line_items: [{ quantity: 1, price_data: { currency: 'gbp', unit_amount: 4200, product_data: { name: 'Deposit' } } }], success_url: 'http://127.0.0.1/ok', cancel_url: 'http://127.0.0.1/back' },
+        { stripeAccount: account.id },
+      );
+      await first.stop();
+      second = await startPaymentProvider(opts);
+      expect(second.port).toBe(first.port);
+      expect((await sdk(second.port).accounts.retrieve(account.id)).charges_enabled).toBe(true);
+      const again = await sdk(second.port).checkout.sessions.retrieve(session.id, {}, { stripeAccount: account.id });
+      expect(again).toMatchObject({ status: 'open', amount_total: 4200, url: session.url });
+    } finally {
+      await second?.stop();
+      fs.rmSync(dir, { recursive: true, force: true });
+    }
   });
 });
