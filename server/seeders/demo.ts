@@ -98,6 +98,8 @@ export async function loadDemo(sequelize: Sequelize, demo: Pick<DemoWorkshop, 'u
       });
       if (created) log(`user ${user.email} (${user.role}) created`);
     }
+    // The demo's drying room was set up with the workshop (its settings above): the checklist counts it as reviewed.
+    await sequelize.query('INSERT INTO workshop_setup (drying_room_saved_at, updated_at) VALUES (now(), now()) ON CONFLICT (workshop_id) DO NOTHING', { transaction });
   });
   await demoPriceList(sequelize, demo.priceFactor);
 }

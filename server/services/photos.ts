@@ -14,6 +14,7 @@ import path from 'node:path';
 import sharp from 'sharp';
 import type { Sequelize } from 'sequelize';
 import { PHOTO_LIMITS, type Photo as PhotoDto } from '@shared/schemas/customers';
+import { currentWorkshopId } from '../db/workshop-context';
 import { HttpProblem, problems } from '../http/problem';
 import { Piece, PiecePhoto } from '../models';
 import { audit } from './audit';
@@ -61,9 +62,24 @@ function photosDir(uploadsDir: string): string {
   return path.join(uploadsDir, 'photos');
 }
 
-/** The path of a stored file; names come from the database and are checked, never taken from a request. */
+/**
+ * Each workshop's files live in a folder of its own, `photos/w<id>/`, and a stored name carries that folder
+ * (`w12/<hex>.jpg`). Names stored before workshops had folders have none and stay where they were.
+ */
+function workshopFolder(): string {
+  const id = currentWorkshopId();
+  if (id === null || id === undefined) throw new Error('photos are stored under a workshop');
+  return `w${id}`;
+}
+
+/**
+ * The path of a stored file; names come from the database and are checked, never taken from a request. A name in
+ * another workshop's folder is refused even if a row pointed at it.
+ */
 export function storedPath(uploadsDir: string, name: string): string {
-  if (!/^[0-9a-f]{32}(-thumb|-work)?\.(jpg|png|webp)$/.test(name)) throw new Error(`bad stored file name ${name}`);
+  const m = /^(?:(w[0-9]+)\/)?[0-9a-f]{32}(-thumb|-work)?\.(jpg|png|webp)$/.exec(name);
+  if (!m) throw new Error(`bad stored file name ${name}`);
+  if (m[1] && m[1] !== workshopFolder()) throw problems.notFound('Photo');
   return path.join(photosDir(uploadsDir), name);
 }
 
@@ -152,12 +168,13 @@ export async function addPhotos(
   // One at a time: a request's images never take more than one image-job slot.
   const checked: Checked[] = [];
   for (const h of headers) checked.push(await decode(h));
-  await fs.mkdir(photosDir(uploadsDir), { recursive: true });
+  const folder = workshopFolder();
+  await fs.mkdir(path.join(photosDir(uploadsDir), folder), { recursive: true });
   const written: string[] = [];
   try {
     const stored: { c: Checked; fileName: string; thumbName: string; workName: string }[] = [];
     for (const c of checked) {
-      const base = randomBytes(16).toString('hex');
+      const base = `${folder}/${randomBytes(16).toString('hex')}`;
       const fileName = `${base}.${c.ext}`;
       const thumbName = `${base}-thumb.webp`;
       const workName = `${base}-work.jpg`;
