@@ -196,7 +196,7 @@ describe('oversize and malformed bodies', () => {
     const png = await sharp({ create: { width: 8, height: 8, channels: 3, background: '#000' } }).png().toBuffer();
     const res = await owner.agent.post(`/api/pieces/${piece.body.id}/photos`).set('x-csrf-token', owner.csrf).attach('photos', png, '../../../../tmp/escape.png').expect(201);
     const [row] = await sequelize.query<{ file_name: string }>('SELECT file_name FROM piece_photos WHERE id = :id', { replacements: { id: res.body[0].id }, type: QueryTypes.SELECT });
-    expect(row!.file_name).toMatch(/^[0-9a-f]{32}\.png$/);
+    expect(row!.file_name).toMatch(/^w[0-9]+\/[0-9a-f]{32}\.png$/);
     const randomBytes = Buffer.from(Array.from({ length: 4096 }, (_, i) => (i * 7919) % 256));
     const junk = await owner.agent.post(`/api/pieces/${piece.body.id}/photos`).set('x-csrf-token', owner.csrf).attach('photos', randomBytes, 'noise.webp');
     expect(junk.status).toBe(400);

@@ -8,15 +8,15 @@ import { randomBytes } from 'node:crypto';
 import pg from 'pg';
 import { QueryTypes } from 'sequelize';
 import { afterAll, beforeAll, describe, expect, it } from 'vitest';
-import { allWorkshopIds, runAsWorkshop } from '../../server/db/workshop-context';
-import { closeTestApp, getTestApp, signIn, signInAs, testDatabaseUrl, type Session } from '../helpers/app';
+import { runAsWorkshop } from '../../server/db/workshop-context';
+import { closeTestApp, getTestApp, signIn, testDatabaseUrl, type Session } from '../helpers/app';
 import { createOtherWorkshop, OTHER_PASSWORD, type OtherWorkshop } from '../helpers/workshops';
 
 const { app, sequelize } = getTestApp();
 const owner = new pg.Client({ connectionString: testDatabaseUrl() });
 /** A word only this file's rows carry (other files share the demo workshop). */
 const tag = `Qz${randomBytes(4).toString('hex')}`;
-let demoId: number;
+let broadId: number;
 let other: OtherWorkshop;
 let a: Session;
 let b: Session;
@@ -51,14 +51,16 @@ async function expectedIds(workshopId: number, table: 'estimates' | 'customers' 
 
 beforeAll(async () => {
   await owner.connect();
-  demoId = (await allWorkshopIds(sequelize))[0]!;
+  // Both workshops are this file's own: 620 bare estimate rows (no revision) must not land in the shared demo workshop.
+  const broad = await createOtherWorkshop(sequelize, 'Broad Search Restorers');
+  broadId = broad.id;
   other = await createOtherWorkshop(sequelize);
-  const [demoOwner] = await runAsWorkshop(demoId, () => sequelize.query<{ id: number }>(`SELECT id FROM users WHERE role = 'owner' ORDER BY id LIMIT 1`, { type: QueryTypes.SELECT }));
+  const [broadOwner] = await runAsWorkshop(broadId, () => sequelize.query<{ id: number }>(`SELECT id FROM users WHERE role = 'owner' ORDER BY id LIMIT 1`, { type: QueryTypes.SELECT }));
   const [otherOwner] = await runAsWorkshop(other.id, () => sequelize.query<{ id: number }>(`SELECT id FROM users WHERE role = 'owner' ORDER BY id LIMIT 1`, { type: QueryTypes.SELECT }));
-  // A broad term in the demo workshop (more than 500 matches), a selective one in the other.
-  await runAsWorkshop(demoId, () => addTagged(620, demoOwner!.id));
+  // A broad term in one workshop (more than 500 matches), a selective one in the other.
+  await runAsWorkshop(broadId, () => addTagged(620, broadOwner!.id));
   await runAsWorkshop(other.id, () => addTagged(30, otherOwner!.id));
-  a = await signInAs(app, 'sales');
+  a = await signIn(app, broad.emails.sales, OTHER_PASSWORD);
   b = await signIn(app, other.emails.sales, OTHER_PASSWORD);
 });
 afterAll(async () => {
@@ -79,7 +81,7 @@ describe('the search functions', () => {
     for (const [fn, table, columns] of FUNCTIONS) {
       for (const term of terms) {
         const like = `%${term.replace(/[\\%_]/g, (c) => `\\${c}`)}%`;
-        for (const workshopId of [demoId, other.id]) {
+        for (const workshopId of [broadId, other.id]) {
           const rows = await runAsWorkshop(workshopId, () => sequelize.query<{ id: number }>(`SELECT ${fn}(:like) AS id`, { replacements: { like }, type: QueryTypes.SELECT }));
           expect(rows.map((r) => Number(r.id)).sort((x, y) => x - y), `${fn} ${term} in ${workshopId}`).toEqual(await expectedIds(workshopId, table, columns, like));
         }
@@ -112,8 +114,8 @@ describe('the lists', () => {
 
   it('find the same estimates as an ILIKE over the workshop, for a broad term and a selective one, in order and counted', async () => {
     for (const [session, workshopId, term] of [
-      [a, demoId, tag],
-      [a, demoId, `${tag} no. 61`],
+      [a, broadId, tag],
+      [a, broadId, `${tag} no. 61`],
       [b, other.id, tag],
       [b, other.id, `${tag} no. 3`],
     ] as const) {
