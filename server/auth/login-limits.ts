@@ -47,13 +47,10 @@ export function loginLimits(config: Pick<Config, 'loginAttempts' | 'loginAddress
   };
 }
 
-/**
- * Password-reset requests and completions per address, in the same shared table: a few in the sign-in window, like
- * sign-in itself, so that no instance can be used to flood an inbox or guess a token.
- */
-export function resetLimits(config: Pick<Config, 'loginAttempts' | 'loginWindowMs'>, pool: pg.Pool): { attempt(address: string): Promise<number> } {
-  const duration = Math.max(1, Math.ceil(config.loginWindowMs / 1000));
-  const limiter = new RateLimiterPostgres({ storeClient: pool, storeType: 'pool', tableName: 'login_attempts', tableCreated: true, clearExpiredByTimeout: true, duration, keyPrefix: 'reset', points: config.loginAttempts });
+/** A limit per address in the shared table: `attempt` answers 0 when allowed, else the seconds to wait. */
+function addressLimit(keyPrefix: string, points: number, windowMs: number, pool: pg.Pool): { attempt(address: string): Promise<number> } {
+  const duration = Math.max(1, Math.ceil(windowMs / 1000));
+  const limiter = new RateLimiterPostgres({ storeClient: pool, storeType: 'pool', tableName: 'login_attempts', tableCreated: true, clearExpiredByTimeout: true, duration, keyPrefix, points });
   return {
     async attempt(address) {
       try {
@@ -68,22 +65,18 @@ export function resetLimits(config: Pick<Config, 'loginAttempts' | 'loginWindowM
 }
 
 /**
+ * Password-reset requests and completions per address, in the same shared table: a few in the sign-in window, like
+ * sign-in itself, so that no instance can be used to flood an inbox or guess a token.
+ */
+export function resetLimits(config: Pick<Config, 'loginAttempts' | 'loginWindowMs'>, pool: pg.Pool): { attempt(address: string): Promise<number> } {
+  return addressLimit('reset', config.loginAttempts, config.loginWindowMs, pool);
+}
+
+/**
  * Sign-ups, confirmations and resent links per address, in the same shared table: as many in the sign-in window as
  * the sign-in limit per address (a whole office may sign up and confirm from one address), so that no instance can
  * be used to create workshops in bulk, flood an inbox or guess a link.
  */
 export function signupLimits(config: Pick<Config, 'loginAddressAttempts' | 'loginWindowMs'>, pool: pg.Pool): { attempt(address: string): Promise<number> } {
-  const duration = Math.max(1, Math.ceil(config.loginWindowMs / 1000));
-  const limiter = new RateLimiterPostgres({ storeClient: pool, storeType: 'pool', tableName: 'login_attempts', tableCreated: true, clearExpiredByTimeout: true, duration, keyPrefix: 'signup', points: config.loginAddressAttempts });
-  return {
-    async attempt(address) {
-      try {
-        await limiter.consume(address);
-        return 0;
-      } catch (e) {
-        if (e instanceof RateLimiterRes) return Math.max(1, Math.ceil(e.msBeforeNext / 1000));
-        throw e;
-      }
-    },
-  };
+  return addressLimit('signup', config.loginAddressAttempts, config.loginWindowMs, pool);
 }

@@ -2,39 +2,16 @@
  * "Forgot your password?": ask for a link by e-mail, then choose a new password from the link. The first page says
  * the same whether or not the address has an account.
  */
-import { useState, type FormEvent, type ReactNode } from 'react';
+import { useState, type FormEvent } from 'react';
 import { Link, useParams } from 'react-router-dom';
 import { PasswordResetCompleteSchema, PasswordResetRequestSchema } from '@shared/schemas/auth';
 import { Alert } from '@/components/alert';
 import { Button } from '@/components/button';
 import { TextField } from '@/components/field';
-import { Logo } from '@/components/logo';
+import { Frame } from '@/components/signed-out-frame';
 import { paths } from '@/config/paths';
 import { api, ApiError } from '@/lib/api';
 import { serverFieldErrors, zodFieldErrors } from '@/lib/form-errors';
-
-function Frame({ title, intro, children }: { title: string; intro: ReactNode; children: ReactNode }) {
-  return (
-    <div className="flex min-h-screen items-center justify-center bg-parchment-50 px-6 py-12">
-      <div className="w-full max-w-sm space-y-5">
-        <div className="flex items-center gap-2">
-          <Logo />
-          <span className="font-serif text-xl font-semibold">Shellwright</span>
-        </div>
-        <div>
-          <h1 className="text-3xl font-semibold text-walnut-900">{title}</h1>
-          <p className="mt-1 text-sm text-walnut-600">{intro}</p>
-        </div>
-        {children}
-        <p className="text-sm">
-          <Link to={paths.signIn} className="text-walnut-700 underline decoration-walnut-300 underline-offset-2 hover:text-walnut-900">
-            Back to sign-in
-          </Link>
-        </p>
-      </div>
-    </div>
-  );
-}
 
 export function ForgotPasswordPage() {
   const [email, setEmail] = useState('');

@@ -8,7 +8,7 @@ import { Button } from '@/components/button';
 import { paths } from '@/config/paths';
 import { ApiError } from '@/lib/api';
 import { useConfirmEmail } from '../api/signup';
-import { Frame } from '../components/frame';
+import { Frame } from '@/components/signed-out-frame';
 import { ResendLink } from '../components/resend-link';
 
 export function ConfirmEmailPage() {

@@ -2,7 +2,7 @@
 import { useState } from 'react';
 import type { SignupResult } from '@shared/schemas/signup';
 import { Alert } from '@/components/alert';
-import { Frame } from '../components/frame';
+import { Frame } from '@/components/signed-out-frame';
 import { ResendLink } from '../components/resend-link';
 import { SignupForm } from '../components/signup-form';
 
