@@ -11,11 +11,10 @@ import os from 'node:os';
 import { pathToFileURL } from 'node:url';
 import { paymentStateFile, startLocalServices } from './fakes';
 import { createAppSequelize } from './db/sequelize';
-import { initModels } from './models';
 import { connectDemoWorkshops } from './seeders';
 import { loadConfig } from './config';
 import { resolveDatabaseUrl } from './db/connect';
-import { prepareDatabase, runServer } from './index';
+import { appUrlOrExplicit, prepareDatabase, runServer } from './index';
 
 export function workerCount(raw = process.env.WEB_CONCURRENCY): number {
   if (raw === undefined || raw === '') return os.availableParallelism();
@@ -28,18 +27,19 @@ async function primary(): Promise<void> {
   const count = workerCount();
   const config = loadConfig();
   const databaseUrl = await resolveDatabaseUrl(config);
-  const appUrl = await prepareDatabase(config, databaseUrl);
-  // One set of stand-ins for all workers, so that a payment webhook is verified whichever worker it reaches.
-  const local = await startLocalServices(config, { paymentsState: paymentStateFile(config) });
-  if (config.demo && local.payments) {
+  // The models bind to one connection a process: the primary prepares the database and readies the demo accounts on
+  // one connection of the app's role, closed before the workers start.
+  const sequelize = createAppSequelize(appUrlOrExplicit(databaseUrl));
+  let appUrl: string;
+  let local: Awaited<ReturnType<typeof startLocalServices>>;
+  try {
+    appUrl = await prepareDatabase(config, databaseUrl, sequelize);
+    // One set of stand-ins for all workers, so that a payment webhook is verified whichever worker it reaches.
+    local = await startLocalServices(config, { paymentsState: paymentStateFile(config) });
     // The demo workshops' card-payment accounts at the stand-in, made ready once here for every worker.
-    const sequelize = createAppSequelize(appUrl);
-    try {
-      initModels(sequelize);
-      await connectDemoWorkshops(sequelize, config, local.payments);
-    } finally {
-      await sequelize.close();
-    }
+    if (config.demo && local.payments) await connectDemoWorkshops(sequelize, config, local.payments);
+  } finally {
+    await sequelize.close();
   }
   // Workers connect as the app's role the primary set up (and do not set it up again side by side).
   const env: Record<string, string> = { DATABASE_URL: databaseUrl, APP_DATABASE_URL: appUrl };

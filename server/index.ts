@@ -23,7 +23,7 @@ export interface RunningServer {
 }
 
 /** The app's URL before the role exists (prepareDatabase creates it before the first connection is made). */
-function appUrlOrExplicit(ownerUrl: string): string {
+export function appUrlOrExplicit(ownerUrl: string): string {
   return process.env.APP_DATABASE_URL || appUrlOf(ownerUrl);
 }
 
