@@ -66,14 +66,32 @@ function calendarDay(date: string): Date {
   return d;
 }
 
+/**
+ * The wall clock in a zone to the minute, 'YYYY-MM-DDTHH:MM', remembered per zone and minute: every zone's offset is
+ * whole minutes, so the text cannot change within a minute of UTC, and a request that asks for "today" several
+ * times (the engine, the expiry of quotes, the lists) works it out once a minute instead of each time.
+ */
+const wallClocks = new Map<string, string>();
+function wallClock(zone: string, now: Date): string {
+  const key = `${zone}|${Math.floor(now.getTime() / 60_000)}`;
+  let text = wallClocks.get(key);
+  if (text === undefined) {
+    text = format(new TZDate(now, zone), "yyyy-MM-dd'T'HH:mm");
+    if (wallClocks.size >= 256) wallClocks.clear();
+    wallClocks.set(key, text);
+  }
+  return text;
+}
+
 /** Today in the workshop's zone (or the zone given), 'YYYY-MM-DD'. */
 export function today(zone: string = workshopTimeZone(), now: Date = new Date()): string {
-  return format(new TZDate(now, zone), 'yyyy-MM-dd');
+  const clock = wallClock(zone, now);
+  return clock.slice(0, clock.indexOf('T'));
 }
 
 /** The workshop's wall clock now, 'YYYY-MM-DDTHH:MM' (board times carry no zone). */
 export function nowLocal(zone: string = workshopTimeZone(), now: Date = new Date()): string {
-  return format(new TZDate(now, zone), "yyyy-MM-dd'T'HH:mm");
+  return wallClock(zone, now);
 }
 
 /** The year it is in the workshop's zone (record numbers: Q-2026-0001). */

@@ -1,4 +1,6 @@
 import fc from 'fast-check';
+import { TZDate } from '@date-fns/tz';
+import { format } from 'date-fns';
 import { describe, expect, it } from 'vitest';
 import { formatDay, formatDayTime, formatDuration, formatLongDay, formatMoney, formatMoneyDelta, formatRest, formatWorkTime } from '../../shared/format';
 import { addDays, daysBetween, isTimeZone, mondayOf, nowLocal, today, weekdayIndex } from '../../shared/time';
@@ -34,6 +36,24 @@ describe('the one clock (shared/time.ts)', () => {
         expect(weekdayIndex(date)).toBeGreaterThanOrEqual(0);
         expect(weekdayIndex(date)).toBeLessThanOrEqual(6);
       }),
+    );
+  });
+
+  it('today and the wall clock, remembered per zone and minute, are what the zone gives for any instant, asked in any order', () => {
+    const zones = ['Pacific/Auckland', 'America/New_York', 'Europe/London', 'Asia/Kolkata', 'Australia/Adelaide', 'Pacific/Chatham', 'UTC'];
+    const instant = fc.date({ min: new Date('1990-01-01T00:00:00Z'), max: new Date('2090-12-31T00:00:00Z'), noInvalidDate: true });
+    fc.assert(
+      fc.property(fc.array(fc.tuple(fc.constantFrom(...zones), instant), { minLength: 1, maxLength: 20 }), (asks) => {
+        // Each instant is asked twice, the second time from memory, and beside its neighbours a second either side of
+        // a minute (the key is the minute of UTC).
+        for (const [zone, at] of asks) {
+          for (const d of [at, at, new Date(Math.floor(at.getTime() / 60_000) * 60_000 - 1), new Date(Math.floor(at.getTime() / 60_000) * 60_000)]) {
+            expect(today(zone, d)).toBe(format(new TZDate(d, zone), 'yyyy-MM-dd'));
+            expect(nowLocal(zone, d)).toBe(format(new TZDate(d, zone), "yyyy-MM-dd'T'HH:mm"));
+          }
+        }
+      }),
+      { numRuns: 200 },
     );
   });
 
