@@ -118,8 +118,9 @@ export function createApp({ config, sequelize, databaseUrl, serveClient = true, 
   app.use(
     session({
       name: 'sw.sid',
-      // The session's expiry in the database moves at most every 5 minutes, not on every request.
-      store: new ThrottledPgStore({ pool: sessionPool, touchAfterMs: 5 * 60 * 1000, pruneSessionInterval: 15 * 60 }),
+      // The session's expiry in the database moves at most every 5 minutes, not on every request,
+      // and a read is answered from this instance's memory until the database says the session changed.
+      store: new ThrottledPgStore({ pool: sessionPool, touchAfterMs: 5 * 60 * 1000, pruneSessionInterval: 15 * 60, caches }),
       secret: config.sessionSecret,
       resave: false,
       saveUninitialized: false,

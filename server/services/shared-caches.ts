@@ -14,7 +14,7 @@ import { EventEmitter, once } from 'node:events';
 import type { RequestHandler } from 'express';
 import createPostgresSubscriber, { type Subscriber } from 'pg-listen';
 
-/** The channel the migration's triggers notify; payloads are `user:<id>` and `catalog`. */
+/** The channel the migrations' triggers notify; payloads are `user:<id>`, `catalog` and `session:<key>`. */
 export const CACHE_CHANNEL = 'shellwright_cache';
 
 export interface CachedUser {
@@ -29,13 +29,24 @@ export interface CachedUser {
 export type UserEntry = CachedUser | false;
 
 /** What changed, as received from the database (or dropped locally). */
-export type Invalidation = { kind: 'user'; id: number } | { kind: 'catalog' } | { kind: 'all' };
+export type Invalidation = { kind: 'user'; id: number } | { kind: 'catalog' } | { kind: 'session'; key: string } | { kind: 'all' };
+
+/**
+ * A stored session as an instance keeps it: the stored text (parsed afresh for each request, which changes its copy)
+ * and the expiry the database holds for it, in ms.
+ */
+export interface CachedSession {
+  json: string;
+  expires: number;
+}
 
 const MAX_USERS = 5_000;
+const MAX_SESSIONS = 20_000;
 
 export class SharedCaches {
   private readonly users = new Map<number, UserEntry>();
   private readonly catalogs = new Map<string, unknown>();
+  private readonly sessions = new Map<string, CachedSession>();
   private generation = 0;
   private connected = false;
   private closed = false;
@@ -93,6 +104,8 @@ export class SharedCaches {
     if (payload === 'catalog') return this.apply({ kind: 'catalog' });
     const m = /^user:(\d+)$/.exec(payload);
     if (m) return this.apply({ kind: 'user', id: Number(m[1]) });
+    const sm = /^session:([0-9a-f]{64})$/.exec(payload);
+    if (sm) return this.apply({ kind: 'session', key: sm[1]! });
     this.apply({ kind: 'all' });
   }
 
@@ -101,7 +114,11 @@ export class SharedCaches {
     this.generation++;
     if (change.kind === 'user') this.users.delete(change.id);
     if (change.kind === 'catalog' || change.kind === 'all') this.catalogs.clear();
-    if (change.kind === 'all') this.users.clear();
+    if (change.kind === 'session') this.sessions.delete(change.key);
+    if (change.kind === 'all') {
+      this.users.clear();
+      this.sessions.clear();
+    }
     this.events.emit('invalidated', change);
   }
 
@@ -120,6 +137,32 @@ export class SharedCaches {
       this.users.set(id, entry);
     }
     return entry;
+  }
+
+  /**
+   * A stored session by its key (see sessionKey), from memory when the listener is live and the expiry it was
+   * stored with has not passed, else from `load` (null for none, or one expired).
+   */
+  async session(key: string, load: () => Promise<CachedSession | null>): Promise<CachedSession | null> {
+    if (!this.live) return load();
+    const hit = this.sessions.get(key);
+    if (hit !== undefined) {
+      if (hit.expires > Date.now()) return hit;
+      this.sessions.delete(key);
+    }
+    const generation = this.generation;
+    const entry = await load();
+    if (entry && generation === this.generation && this.live) {
+      if (this.sessions.size >= MAX_SESSIONS) this.sessions.delete(this.sessions.keys().next().value!);
+      this.sessions.set(key, entry);
+    }
+    return entry;
+  }
+
+  /** This instance wrote a later expiry for a session it holds (the database sends nothing for a later expiry). */
+  sessionExpiryMoved(key: string, expires: number): void {
+    const hit = this.sessions.get(key);
+    if (hit && expires > hit.expires) hit.expires = expires;
   }
 
   /** A value built from the price list (one per key, e.g. per date), from memory when the listener is live. */

@@ -12,7 +12,7 @@ import { createApp, type BuiltApp } from '../../server/app';
 import { loadConfig } from '../../server/config';
 import { createAppSequelize } from '../../server/db/sequelize';
 import type { Invalidation, SharedCaches } from '../../server/services/shared-caches';
-import { demoWorkshopFallback, signIn, signInAs, testAppDatabaseUrl, type Session } from '../helpers/app';
+import { demoWorkshopFallback, signIn, signInAs, testAppDatabaseUrl, testDatabaseUrl, type Session } from '../helpers/app';
 
 // As the app connects: the app role, bound by row-level security, in the demo workshop outside a request.
 const url = testAppDatabaseUrl();
@@ -110,6 +110,79 @@ describe('users cached per instance, dropped on every instance', () => {
       { replacements: { id: String(user.id) }, type: QueryTypes.SELECT },
     );
     expect(row!.ahead).toBeGreaterThan(11 * 3600);
+  });
+});
+
+describe('sessions read from memory per instance, dropped on every instance', () => {
+  async function sessionUser(): Promise<{ id: number; email: string; cookie: string; sid: string }> {
+    const owner = await signInAs(a.app, 'owner');
+    const user = await newUser(owner, 'estimator');
+    const cookie = await signInCookie(a.app, user.email);
+    const [row] = await sequelize.query<{ sid: string }>(`SELECT sid FROM session WHERE (sess->'passport'->>'user') = :id`, {
+      replacements: { id: String(user.id) },
+      type: QueryTypes.SELECT,
+    });
+    return { ...user, cookie, sid: row!.sid };
+  }
+  const whoAmI = async (app: BuiltApp['app'], cookie: string): Promise<number> => {
+    const res = await get(app, cookie, '/api/auth/me');
+    return res.status === 200 ? (res.body.user.id as number) : res.status;
+  };
+  /** Runs SQL on the session table as the owner with the triggers off (replica), so that no instance hears of it. */
+  async function unannounced(sql: string, replacements: Record<string, unknown>): Promise<void> {
+    const owner = createAppSequelize(testDatabaseUrl(), { poolMax: 1 });
+    try {
+      await owner.transaction(async (transaction) => {
+        await owner.query('SET LOCAL session_replication_role = replica', { transaction });
+        await owner.query(sql, { replacements, transaction });
+      });
+    } finally {
+      await owner.close();
+    }
+  }
+
+  it('an instance answers a session from memory: a change the database does not announce is not seen there', async () => {
+    const u = await sessionUser();
+    expect(await whoAmI(b.app, u.cookie)).toBe(u.id); // B reads it from the database and keeps it
+    await unannounced('DELETE FROM session WHERE sid = :sid', { sid: u.sid });
+    expect(await whoAmI(b.app, u.cookie)).toBe(u.id); // from B's memory
+    expect(await whoAmI(a.app, u.cookie)).toBe(401); // A's copy was dropped when A wrote it at sign-in: it reads the database
+  });
+
+  it('signing out on A ends the session on B at once', async () => {
+    const u = await sessionUser();
+    for (const app of [a.app, b.app, b.app]) expect(await whoAmI(app, u.cookie)).toBe(u.id);
+    const heard = invalidated(b.caches, (c) => c.kind === 'session');
+    const csrf = (await get(a.app, u.cookie, '/api/auth/csrf').expect(200)).body.csrfToken as string;
+    await supertest(a.app).post('/api/auth/logout').set('cookie', u.cookie).set('x-csrf-token', csrf).expect((r) => expect(r.status).toBeLessThan(300));
+    await heard;
+    expect(await whoAmI(b.app, u.cookie)).toBe(401);
+  });
+
+  it('a session deleted, rewritten or cut short by plain SQL reaches both instances', async () => {
+    // Deleted (as "sign out everywhere" and a password reset do).
+    const gone = await sessionUser();
+    for (const app of [a.app, b.app, a.app, b.app]) expect(await whoAmI(app, gone.cookie)).toBe(gone.id);
+    await sequelize.query('DELETE FROM session WHERE sid = :sid', { replacements: { sid: gone.sid } });
+    await Promise.all([a.caches.settle(), b.caches.settle()]);
+    for (const app of [a.app, b.app]) expect(await whoAmI(app, gone.cookie)).toBe(401);
+
+    // Its data rewritten: now another user's session.
+    const first = await sessionUser();
+    const second = await sessionUser();
+    for (const app of [a.app, b.app, a.app, b.app]) expect(await whoAmI(app, first.cookie)).toBe(first.id);
+    await sequelize.query(`UPDATE session SET sess = jsonb_set(sess::jsonb, '{passport,user}', to_jsonb(:other::int))::json WHERE sid = :sid`, {
+      replacements: { sid: first.sid, other: second.id },
+    });
+    await Promise.all([a.caches.settle(), b.caches.settle()]);
+    for (const app of [a.app, b.app]) expect(await whoAmI(app, first.cookie)).toBe(second.id);
+
+    // Its expiry brought forward to the past.
+    const cut = await sessionUser();
+    for (const app of [a.app, b.app, a.app, b.app]) expect(await whoAmI(app, cut.cookie)).toBe(cut.id);
+    await sequelize.query("UPDATE session SET expire = now() - interval '1 second' WHERE sid = :sid", { replacements: { sid: cut.sid } });
+    await Promise.all([a.caches.settle(), b.caches.settle()]);
+    for (const app of [a.app, b.app]) expect(await whoAmI(app, cut.cookie)).toBe(401);
   });
 });
 
