@@ -2,28 +2,45 @@
  * The agreed figures of estimates, for the screens that list them (the estimate, the customer's record): the
  * accepted quote's total with the extras the customer took, the deposit and the balance.
  */
-import { Op } from 'sequelize';
 import { agreedFigures } from '@shared/schemas/quotes';
+import type { QuoteExtra } from '@shared/schemas/quotes';
 import type { EstimateAgreement } from '@shared/schemas/estimates';
-import { Quote, QuoteLine } from '../models';
+import { plannedSelect } from '../db/planned';
+import { Quote } from '../models';
+
+interface AgreedRow {
+  estimate_id: number;
+  id: number;
+  number: string;
+  state: string;
+  total: string;
+  deposit_pct: string;
+  extras: QuoteExtra[];
+  accepted_extras: string[] | null;
+  accepted_total: string | null;
+  accepted_deposit: string | null;
+}
 
 export async function agreementsOf(estimateIds: readonly number[]): Promise<Map<number, EstimateAgreement>> {
   const out = new Map<number, EstimateAgreement>();
   if (estimateIds.length === 0) return out;
   // The estimates a customer chose in an accepted quote: the quote's agreed figures (for a quote of several pieces,
   // the figures of the whole agreement, which the estimate is part of).
-  const lines = await QuoteLine.findAll({ where: { estimateId: { [Op.in]: [...estimateIds] }, agreed: true } });
-  // Most estimates listed were never agreed: no second round trip for them.
-  if (lines.length === 0) return out;
-  const quotes = await Quote.findAll({ where: { id: { [Op.in]: lines.map((l) => l.quoteId) }, state: { [Op.in]: ['accepted', 'deposit-paid'] } } });
-  for (const line of lines) {
-    const q = quotes.find((x) => x.id === line.quoteId);
-    if (!q) continue;
-    if (q.acceptedTotal === null || q.acceptedDeposit === null) continue;
-    const extras = agreedFigures({ total: Number(q.total).toFixed(2), depositPct: Number(q.depositPct), extras: q.extras }, q.acceptedExtras ?? []).extras;
-    const total = Number(q.acceptedTotal).toFixed(2);
-    const deposit = Number(q.acceptedDeposit).toFixed(2);
-    out.set(line.estimateId, {
+  // One read: the agreed lines of these estimates with their accepted quote's figures, its plan kept per connection.
+  const rows = await plannedSelect<AgreedRow>(
+    Quote.sequelize!,
+    `SELECT l.estimate_id, q.id, q.number, q.state, q.total, q.deposit_pct, q.extras, q.accepted_extras, q.accepted_total, q.accepted_deposit
+       FROM quote_lines l JOIN quotes q ON q.id = l.quote_id
+      WHERE l.estimate_id = ANY($1::int[]) AND l.agreed AND q.state IN ('accepted', 'deposit-paid')
+      ORDER BY l.id`,
+    { bind: [[...estimateIds]] },
+  );
+  for (const q of rows) {
+    if (q.accepted_total === null || q.accepted_deposit === null) continue;
+    const extras = agreedFigures({ total: Number(q.total).toFixed(2), depositPct: Number(q.deposit_pct), extras: q.extras }, q.accepted_extras ?? []).extras;
+    const total = Number(q.accepted_total).toFixed(2);
+    const deposit = Number(q.accepted_deposit).toFixed(2);
+    out.set(q.estimate_id, {
       quoteId: q.id,
       quoteNumber: q.number,
       total,

@@ -26,6 +26,7 @@ import { isDeepStrictEqual } from 'node:util';
 import { HttpProblem, problems } from '../http/problem';
 import { Customer, Estimate, EstimateRevision, Piece, User } from '../models';
 import { allOf } from '../db/queries';
+import { plannedSelect } from '../db/planned';
 import { withAgreements } from './agreements';
 import { audit } from './audit';
 import { loadCatalog, type LoadedCatalog } from './catalog';
@@ -127,22 +128,23 @@ interface RevisionRow {
  */
 export async function getEstimate(id: number, transaction?: Transaction): Promise<EstimateDetail> {
   const sequelize = Estimate.sequelize!;
-  const [e] = await sequelize.query<SummaryRow & { current_revision_id: number | null }>(`${SUMMARY_SELECT()}, e.current_revision_id ${SUMMARY_FROM} WHERE e.id = :id`, {
-    replacements: { id },
-    type: QueryTypes.SELECT,
+  // Plans kept per connection (server/db/planned.ts), the estimate's id sent as a parameter.
+  const [e] = await plannedSelect<SummaryRow & { current_revision_id: number | null }>(sequelize, `${SUMMARY_SELECT()}, e.current_revision_id ${SUMMARY_FROM} WHERE e.id = $1`, {
+    bind: [id],
     transaction,
   });
   if (!e) throw problems.notFound('Estimate');
   // The revisions and the agreed figures side by side (one after another inside a transaction).
   const [rows, [summary]] = await allOf(transaction, [
     () =>
-      sequelize.query<RevisionRow>(
+      plannedSelect<RevisionRow>(
+        sequelize,
         `SELECT r.id, r.number, r.total, r.labour_hours, r.catalog_version, r.note, r.created_at, u.id AS author_id, u.name AS author_name,
-                CASE WHEN r.id = :current THEN r.input END AS input, CASE WHEN r.id = :current THEN r.result END AS result
+                CASE WHEN r.id = $2 THEN r.input END AS input, CASE WHEN r.id = $2 THEN r.result END AS result
            FROM estimate_revisions r LEFT JOIN users u ON u.id = r.created_by
-          WHERE r.estimate_id = :id
+          WHERE r.estimate_id = $1
           ORDER BY r.number DESC`,
-        { replacements: { id, current: e.current_revision_id ?? 0 }, type: QueryTypes.SELECT, transaction },
+        { bind: [id, e.current_revision_id ?? 0], transaction },
       ),
     () => withAgreements([summaryFromRow(e)]),
   ] as const);
@@ -259,10 +261,11 @@ export async function priceListLabels(versions: string[], current?: string, tran
   const labels = new Map<string, string>();
   const unique = [...new Set(versions.filter(Boolean))];
   if (unique.length) {
-    const rows = (await EstimateRevision.sequelize!.query(
-      'SELECT catalog_version AS version, min(created_at) AS first FROM estimate_revisions WHERE catalog_version IN (:versions) GROUP BY catalog_version',
-      { replacements: { versions: unique }, type: QueryTypes.SELECT, transaction },
-    )) as { version: string; first: Date }[];
+    const rows = await plannedSelect<{ version: string; first: Date }>(
+      EstimateRevision.sequelize!,
+      'SELECT catalog_version AS version, min(created_at) AS first FROM estimate_revisions WHERE catalog_version = ANY($1::text[]) GROUP BY catalog_version',
+      { bind: [unique], transaction },
+    );
     for (const r of rows) {
       const day = formatDate(dayOf(new Date(r.first)));
       labels.set(r.version, r.version === current ? `today's prices (in use since ${day})` : `prices of ${day}`);
@@ -473,13 +476,16 @@ export async function listEstimates(q: ListQuery): Promise<Page<EstimateSummary>
   const where = conditions.join(' AND ');
   // The capped count rides along in the same round trip (an uncorrelated sub-select PostgreSQL runs once).
   const countUpTo = `(SELECT count(*)::int FROM (SELECT 1 FROM estimates e WHERE ${where} LIMIT :countLimit) t)`;
-  const rows = await sequelize.query<SummaryRow & { counted: number }>(
-    `${SUMMARY_SELECT()}, ${countUpTo} AS counted ${SUMMARY_FROM}
+  const pageSql = `${SUMMARY_SELECT()}, ${countUpTo} AS counted ${SUMMARY_FROM}
       WHERE ${where}
       ORDER BY ${SORTS[q.sort]} ${direction(q.dir)}, e.id DESC
-      LIMIT :limit OFFSET :offset`,
-    { replacements: { ...replacements, countLimit: countLimit(q.page, q.pageSize) + 1 }, type: QueryTypes.SELECT },
-  );
+      LIMIT :limit OFFSET :offset`;
+  const pageReplacements = { ...replacements, countLimit: countLimit(q.page, q.pageSize) + 1 };
+  // Without a search the text depends only on the sort, page, filters and day: its plan is kept per connection
+  // (server/db/planned.ts). A search's text carries the ids it matched, so it is planned each time.
+  const rows = q.q
+    ? await sequelize.query<SummaryRow & { counted: number }>(pageSql, { replacements: pageReplacements, type: QueryTypes.SELECT })
+    : await plannedSelect<SummaryRow & { counted: number }>(sequelize, pageSql, { replacements: pageReplacements });
   const total = await pageTotal(rows.length, q, async (limit) => {
     if (rows[0]) return rows[0].counted;
     const [row] = await sequelize.query<{ n: number }>(`SELECT ${countUpTo} AS n`, { replacements: { ...replacements, countLimit: limit }, type: QueryTypes.SELECT });
