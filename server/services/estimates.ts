@@ -381,6 +381,9 @@ const SORTS: Record<ListQuery['sort'], string> = {
   updatedAt: 'e.updated_at',
 };
 
+/** The sorts on the estimate's own columns (the others need its customer's name or its state worked out). */
+const ESTIMATE_SORTS: ReadonlySet<ListQuery['sort']> = new Set(['number', 'labourHours', 'total', 'updatedAt']);
+
 /** An estimate's list row: its columns and the names it shows, as SQL (see summaryFromRow). */
 const SUMMARY_SELECT = () => `SELECT e.id, e.number, e.title, ${estimateStateSql('e')} AS state, e.labour_hours, e.total, e.currency, e.revision_count,
        e.valid_until::text AS valid_until, e.archived, e.created_at, e.updated_at, c.id AS customer_id, c.name AS customer_name,
@@ -476,9 +479,20 @@ export async function listEstimates(q: ListQuery): Promise<Page<EstimateSummary>
   const where = conditions.join(' AND ');
   // The capped count rides along in the same round trip (an uncorrelated sub-select PostgreSQL runs once).
   const countUpTo = `(SELECT count(*)::int FROM (SELECT 1 FROM estimates e WHERE ${where} LIMIT :countLimit) t)`;
-  const pageSql = `${SUMMARY_SELECT()}, ${countUpTo} AS counted ${SUMMARY_FROM}
+  const order = `ORDER BY ${SORTS[q.sort]} ${direction(q.dir)}, e.id DESC`;
+  // A search sorted on the estimate's own columns picks its page from the estimates alone, then joins the names to
+  // those rows only (not to every match: a selective term's hundred matches were joined to every customer and piece).
+  const pageFirst = Boolean(q.q) && ESTIMATE_SORTS.has(q.sort);
+  const pageSql = pageFirst
+    ? `${SUMMARY_SELECT()}, ${countUpTo} AS counted
+      FROM (SELECT * FROM estimates e WHERE ${where} ${order} LIMIT :limit OFFSET :offset) e
+      JOIN customers c ON c.id = e.customer_id
+      JOIN pieces p ON p.id = e.piece_id
+      JOIN users u ON u.id = e.owner_id
+      ${order}`
+    : `${SUMMARY_SELECT()}, ${countUpTo} AS counted ${SUMMARY_FROM}
       WHERE ${where}
-      ORDER BY ${SORTS[q.sort]} ${direction(q.dir)}, e.id DESC
+      ${order}
       LIMIT :limit OFFSET :offset`;
   const pageReplacements = { ...replacements, countLimit: countLimit(q.page, q.pageSize) + 1 };
   // Without a search the text depends only on the sort, page, filters and day: its plan is kept per connection
