@@ -18,15 +18,24 @@
 import { createHash } from 'node:crypto';
 import type { Sequelize, Transaction } from 'sequelize';
 import sqlUtils from 'sequelize/lib/utils/sql';
+import type * as SqlUtils from 'sequelize/lib/utils/sql';
 
 // Sequelize's own writer of replacements (a CommonJS module whose names Node cannot see from ESM).
-const { injectReplacements } = sqlUtils as unknown as typeof import('sequelize/lib/utils/sql');
+const { injectReplacements } = sqlUtils as unknown as typeof SqlUtils;
 
 const MAX_STATEMENTS = 100;
 
 interface PgClient {
   query(query: { name: string; text: string; values: unknown[] } | string): Promise<{ rows: unknown[] }>;
   connection?: { parsedStatements?: Record<string, string> };
+  _queryQueue?: unknown[];
+  _sentQueryQueue?: unknown[];
+  _getActiveQuery?: () => unknown;
+}
+
+/** Nothing running or waiting on the connection (node-postgres's own queues; unknown counts as busy). */
+function idle(client: PgClient): boolean {
+  return typeof client._getActiveQuery === 'function' && !client._getActiveQuery() && client._queryQueue?.length === 0 && (client._sentQueryQueue?.length ?? 0) === 0;
 }
 
 interface ConnectionManager {
@@ -53,10 +62,13 @@ export async function plannedSelect<T>(sequelize: Sequelize, sql: string, { repl
   try {
     let names = statements.get(client);
     if (!names) statements.set(client, (names = new Set()));
-    if (!names.has(name) && names.size >= MAX_STATEMENTS) {
-      await client.query('DEALLOCATE ALL');
+    // Forgotten only while nothing else is queued on the connection (a transaction's reads may be): the client's
+    // record of what is prepared is cleared as DEALLOCATE becomes the active query, so what follows prepares again.
+    if (!names.has(name) && names.size >= MAX_STATEMENTS && idle(client)) {
+      const forgetting = client.query('DEALLOCATE ALL');
       if (client.connection?.parsedStatements) client.connection.parsedStatements = {};
       names.clear();
+      await forgetting;
     }
     const result = await client.query({ name, text, values: bind });
     names.add(name);
