@@ -88,8 +88,14 @@ export async function runServer(config: Config = loadConfig(), opts: { prepared?
   let stopping: Promise<void> | undefined;
   const stop = () => {
     stopping ??= (async () => {
-      server.closeAllConnections();
-      await new Promise<void>((resolve) => server.close(() => resolve()));
+      // Stop taking connections and let the requests in progress finish (their handlers still need the database,
+      // closed below); idle keep-alive connections close now, and any still open after 10 s are cut.
+      const closed = new Promise<void>((resolve) => server.close(() => resolve()));
+      server.closeIdleConnections();
+      const cut = setTimeout(() => server.closeAllConnections(), 10_000);
+      cut.unref();
+      await closed;
+      clearTimeout(cut);
       await built.close();
       await local.stop();
       await sequelize.close();
