@@ -4,7 +4,6 @@
  */
 import { CatalogSchema } from '../schemas/catalog';
 import type { Catalog, Material, Species, Stage } from '../schemas/catalog';
-import { EstimateInputSchema } from '../schemas/calc';
 import type {
   EstimateInput, EstimateResult, EstimateWarning, MaterialResult, ParsedEstimateInput, Part, PartResult, StageResult, TemplateKey,
 } from '../schemas/calc';
@@ -28,6 +27,7 @@ import { labourCentsOf, priceEstimate, priceFromCents, usedCost } from './price'
 import { cautions, ventilation } from './safety';
 import { centsOf, centsText, formatCents, hundredthsOfHours, parseCents, usedCents, usedCentsNumber } from './cents';
 import { compiledCalendar, materialMap, rateMap, speciesMap } from './lookups';
+import { parseEstimateInput } from './parse-input';
 
 /** A problem with the input that only the catalog can reveal (an unknown system or species). */
 export class EstimateError extends Error {
@@ -295,13 +295,13 @@ function sumCharged(charges: ReadonlyArray<Money | number>): { cents: number | n
 
 /**
  * Estimates a French-polishing job. Validates the input (throws a ZodError whose issues name the field),
- * fills defaults, and returns plain JSON. Throws {@link EstimateError} for a system or species the catalog does
+ * fills defaults, and returns plain JSON. Parts unchanged since an earlier call are not checked again (./parse-input). Throws {@link EstimateError} for a system or species the catalog does
  * not hold. Never mutates its arguments.
  *
  * @example estimate({ piece: { template: 'grand', dimensions: { length: '6 ft 3 in' } }, system: 'full-repolish' }, catalog).totals
  */
 export function estimate(rawInput: EstimateInput, catalog: Catalog, options: EstimateOptions = {}): EstimateResult {
-  return estimateParsed(EstimateInputSchema.parse(rawInput), catalog, options);
+  return estimateParsed(parseEstimateInput(rawInput), catalog, options);
 }
 
 /**
