@@ -65,7 +65,8 @@ const round = (x: number, dp: number): number => {
 };
 
 interface PartsSource {
-  parts: Part[];
+  /** The parts (a template's are generated on first call). */
+  parts: () => Part[];
   path: Array<string | number>;
   defaultSpecies: string | undefined;
   /** The unit the parts' bare numbers are in: mm for a template's generated parts, the input's default otherwise. */
@@ -81,16 +82,20 @@ interface PartsSource {
 function inputParts(input: ParsedEstimateInput, dims: Record<string, number> | null): PartsSource {
   const piece = input.piece;
   if (piece?.template && dims) {
+    const template = piece.template;
+    let generated: Part[] | undefined;
     return {
-      parts: templatePartsMm(piece.template, dims, { species: piece.species, veneered: piece.veneered }),
+      parts: () => (generated ??= templatePartsMm(template, dims, { species: piece.species, veneered: piece.veneered })),
       path: ['piece'],
       defaultSpecies: piece.species ?? TEMPLATE_WOOD[piece.template].species,
       unit: 'mm',
       generated: true,
     };
   }
-  if (piece?.parts) return { parts: piece.parts, path: ['piece', 'parts'], defaultSpecies: piece.species, unit: input.defaultLengthUnit, generated: false };
-  return { parts: input.parts ?? [], path: ['parts'], defaultSpecies: undefined, unit: input.defaultLengthUnit, generated: false };
+  const given = piece?.parts;
+  if (given) return { parts: () => given, path: ['piece', 'parts'], defaultSpecies: piece.species, unit: input.defaultLengthUnit, generated: false };
+  const top = input.parts ?? [];
+  return { parts: () => top, path: ['parts'], defaultSpecies: undefined, unit: input.defaultLengthUnit, generated: false };
 }
 
 /**
@@ -120,6 +125,48 @@ function resolveOrRefuse(p: Part, i: number, input: ParsedEstimateInput, source:
     }
     throw new EstimateError('part-too-large', [...path, i], error.message);
   }
+}
+
+interface ResolvedWithArea {
+  part: ResolvedPart;
+  area: PartArea;
+}
+
+/**
+ * What was resolved before, for the editor's next call: a given part by its (parsed) object, which stays the same
+ * while the part does not change (./parse-input), under the unit, default species and place it was resolved with;
+ * a template's parts by the template, its dimensions in mm and the piece's species and veneer. Only parts that
+ * resolved are remembered (a problem is worked out again, so its error is the same); what is remembered is only
+ * read, never changed.
+ */
+const resolvedByPart = new WeakMap<Part, { unit: LengthUnit; defaultSpecies: string; index: number; value: ResolvedWithArea }>();
+const resolvedTemplates = new Map<string, readonly ResolvedWithArea[]>();
+const TEMPLATES_REMEMBERED = 64;
+
+function resolvedParts(input: ParsedEstimateInput, dims: Record<string, number> | null, source: PartsSource, defaultSpecies: string): readonly ResolvedWithArea[] {
+  const piece = input.piece;
+  if (source.generated && piece?.template && dims) {
+    const key = JSON.stringify([piece.template, piece.species ?? null, piece.veneered ?? null, defaultSpecies, dims]);
+    let list = resolvedTemplates.get(key);
+    if (!list) {
+      list = source.parts().map((p, i) => {
+        const part = resolveOrRefuse(p, i, input, source, defaultSpecies);
+        return { part, area: partArea(part) };
+      });
+      if (resolvedTemplates.size >= TEMPLATES_REMEMBERED) resolvedTemplates.clear();
+      resolvedTemplates.set(key, list);
+    }
+    return list;
+  }
+  const unit = source.unit;
+  return source.parts().map((p, i) => {
+    const known = resolvedByPart.get(p);
+    if (known && known.unit === unit && known.defaultSpecies === defaultSpecies && (known.index === i || p.id !== undefined)) return known.value;
+    const part = resolveOrRefuse(p, i, input, source, defaultSpecies);
+    const value = { part, area: partArea(part) };
+    resolvedByPart.set(p, { unit, defaultSpecies, index: i, value });
+    return value;
+  });
 }
 
 /** The smallest plausible main dimension of a template, mm (common practice: no piano case is under 60 cm). */
@@ -167,24 +214,45 @@ function workStage(stage: Stage, parts: readonly PartContext[], catalog: Catalog
   let polishL = 0;
   let extraSpiritL = 0;
   let partMinutes = 0;
-  const used = new Map<string, number>();
+  // The stage's materials in slots (a key given twice shares its slot), summed part by part in the parts' order,
+  // as a Map keyed by material would sum them: the same additions in the same order.
+  const stageMaterials = stage.materials;
+  const keys: string[] = [];
+  const slotOf: number[] = [];
+  for (const m of stageMaterials) {
+    let slot = keys.indexOf(m.material);
+    if (slot < 0) slot = keys.push(m.material) - 1;
+    slotOf.push(slot);
+  }
+  const sums: number[] = keys.map(() => 0);
+  const nMaterials = stageMaterials.length;
+  const sessions = stage.sessions;
+  const firstCoats = stage.firstCoats;
+  const veneerCare = stage.veneerCare;
   for (const ctx of parts) {
     if (!applies(stage, ctx)) continue;
     const a = ctx.area.areaM2;
     const factor = f.complexity[ctx.part.complexity];
+    const fm = factor.material;
     areaM2 += a;
     polishL += polishLitres({
       areaM2: a, mlPerM2PerCoat: stage.polishMlPerM2PerCoat, coats,
-      absorbency: stage.firstCoats ? ctx.species.absorbency : 1, materialFactor: factor.material,
+      absorbency: firstCoats ? ctx.species.absorbency : 1, materialFactor: fm,
     });
-    extraSpiritL += (a * stage.spiritMlPerM2PerSession * stage.sessions * factor.material) / 1000;
-    for (const m of stage.materials) used.set(m.material, (used.get(m.material) ?? 0) + a * m.perM2 * stage.sessions * factor.material);
+    extraSpiritL += (a * stage.spiritMlPerM2PerSession * sessions * fm) / 1000;
+    for (let j = 0; j < nMaterials; j++) {
+      const slot = slotOf[j] as number;
+      sums[slot] = (sums[slot] as number) + a * (stageMaterials[j] as Stage['materials'][number]).perM2 * sessions * fm;
+    }
     partMinutes += labourMinutes({
       areaM2: a, minPerM2PerCoat: stage.labourMinPerM2PerCoat, coats,
-      complexityFactor: factor.labour, veneerFactor: stage.veneerCare && ctx.part.veneered ? f.veneerLabour : 1,
+      complexityFactor: factor.labour, veneerFactor: veneerCare && ctx.part.veneered ? f.veneerLabour : 1,
     });
   }
   if (areaM2 === 0) return null;
+  // Every part the stage applies to went through every slot, so each key is there, in the stage's order.
+  const used = new Map<string, number>();
+  for (let k = 0; k < keys.length; k++) used.set(keys[k] as string, sums[k] as number);
   const gallon = catalog.shellac.gallon;
   const made = stage.cutLb > 0 ? makeUpPolish(withWaste(polishL, catalog.pricing.wastePct), stage.cutLb, catalog.shellac.apparentDensity, gallon) : null;
   const spiritL = (made?.solventL ?? 0) + extraSpiritL;
@@ -322,14 +390,14 @@ export function estimateParsed(input: ParsedEstimateInput, catalog: Catalog, opt
   const defaultSpecies = source.defaultSpecies ?? (speciesByKey.has('mahogany') ? 'mahogany' : (catalog.species[0] as Species).key);
 
   // Parts and areas.
-  const contexts: PartContext[] = source.parts.map((p, i) => {
-    const part = resolveOrRefuse(p, i, input, source, defaultSpecies);
+  const resolved = resolvedParts(input, dims, source, defaultSpecies);
+  const contexts: PartContext[] = resolved.map(({ part, area }, i) => {
     const species = speciesByKey.get(part.species);
     if (!species) {
       const path = source.path[0] === 'piece' && source.path.length === 1 ? ['piece', 'species'] : [...source.path, i, 'species'];
       throw new EstimateError('unknown-species', path, `Unknown species "${part.species}"; expected one of ${[...speciesByKey.keys()].join(', ')}`);
     }
-    return { part, area: partArea(part), species };
+    return { part, area, species };
   });
   const warnings: EstimateWarning[] = [];
   for (const c of contexts) {
