@@ -139,9 +139,15 @@ interface ResolvedWithArea {
  * resolved are remembered (a problem is worked out again, so its error is the same); what is remembered is only
  * read, never changed.
  */
-const resolvedByPart = new WeakMap<Part, { unit: LengthUnit; defaultSpecies: string; index: number; value: ResolvedWithArea }>();
+let resolvedByPart = new WeakMap<Part, { unit: LengthUnit; defaultSpecies: string; index: number; value: ResolvedWithArea }>();
 const resolvedTemplates = new Map<string, readonly ResolvedWithArea[]>();
 const TEMPLATES_REMEMBERED = 64;
+
+/** Forgets the resolved parts remembered (tests compare the engine with and without them). */
+export function forgetResolvedParts(): void {
+  resolvedByPart = new WeakMap();
+  resolvedTemplates.clear();
+}
 
 function resolvedParts(input: ParsedEstimateInput, dims: Record<string, number> | null, source: PartsSource, defaultSpecies: string): readonly ResolvedWithArea[] {
   const piece = input.piece;
