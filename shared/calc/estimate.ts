@@ -348,6 +348,35 @@ function priceMaterial(material: Material, need: number, wholePacks: boolean): {
   };
 }
 
+interface PricedMaterial {
+  result: MaterialResult;
+  charged: Money | number;
+  packsFree: boolean;
+}
+
+/**
+ * Materials priced before, by material, its pack list, the charge basis and the need: the editor's next call
+ * (another discount, climate, start or units) prices the same needs again. Each call gets result objects of its own.
+ */
+const pricedBefore = new WeakMap<Material, { packs: Material['packs']; wholePacks: boolean; byNeed: Map<number, PricedMaterial> }>();
+const NEEDS_REMEMBERED = 16;
+
+function priceMaterialRemembered(material: Material, need: number, wholePacks: boolean): PricedMaterial {
+  let memo = pricedBefore.get(material);
+  if (!memo || memo.packs !== material.packs || memo.wholePacks !== wholePacks) {
+    memo = { packs: material.packs, wholePacks, byNeed: new Map() };
+    pricedBefore.set(material, memo);
+  }
+  let priced = memo.byNeed.get(need);
+  if (!priced) {
+    priced = priceMaterial(material, need, wholePacks);
+    if (memo.byNeed.size >= NEEDS_REMEMBERED) memo.byNeed.clear();
+    memo.byNeed.set(need, priced);
+  }
+  const r = priced.result;
+  return { charged: priced.charged, packsFree: priced.packsFree, result: { ...r, packs: r.packs.map((line) => ({ ...line })) } };
+}
+
 /**
  * The sum of the materials' charges: in whole cents (a safe integer) when every charge is in cents, in decimal
  * money otherwise.
@@ -446,7 +475,7 @@ export function estimateParsed(input: ParsedEstimateInput, catalog: Catalog, opt
   const priced = [...needs].map(([key, need]) => {
     const material = materialsByKey.get(key);
     if (!material) throw new EstimateError('unknown-material', ['stages'], `Unknown material "${key}" in a stage`);
-    return priceMaterial(material, need, wholePacks);
+    return priceMaterialRemembered(material, need, wholePacks);
   });
   const materialsCost = sumCharged(priced.map((p) => p.charged));
 
