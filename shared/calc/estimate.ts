@@ -59,8 +59,11 @@ function checkCatalog(catalog: Catalog): void {
   checkedCatalogs.add(catalog);
 }
 
+/** Powers of ten as `10 ** dp` gives them (exact doubles), looked up. */
+const POW10: readonly number[] = [1, 10, 100, 1e3, 1e4, 1e5, 1e6, 1e7];
+
 const round = (x: number, dp: number): number => {
-  const f = 10 ** dp;
+  const f = POW10[dp] ?? 10 ** dp;
   return Math.round(x * f) / f;
 };
 
@@ -257,16 +260,18 @@ function workStage(stage: Stage, parts: readonly PartContext[], catalog: Catalog
   }
   if (areaM2 === 0) return null;
   // Every part the stage applies to went through every slot, so each key is there, in the stage's order.
-  const used = new Map<string, number>();
-  for (let k = 0; k < keys.length; k++) used.set(keys[k] as string, sums[k] as number);
   const gallon = catalog.shellac.gallon;
   const made = stage.cutLb > 0 ? makeUpPolish(withWaste(polishL, catalog.pricing.wastePct), stage.cutLb, catalog.shellac.apparentDensity, gallon) : null;
   const spiritL = (made?.solventL ?? 0) + extraSpiritL;
   const hours = stageHours(partMinutes, stage.setupMinPerSession, stage.sessions);
   const byKey = materialMap(catalog.materials);
-  const unitOf = (key: string): string => byKey.get(key)?.unit ?? '';
   // Sheets, cloths and pads are opened whole: a stage's count is rounded up to whole pieces.
-  for (const [key, q] of used) used.set(key, wholeForUnit(q, unitOf(key)));
+  const materials: StageResult['materials'] = [];
+  for (let k = 0; k < keys.length; k++) {
+    const material = keys[k] as string;
+    const unit = byKey.get(material)?.unit ?? '';
+    materials.push({ material, quantity: round(wholeForUnit(sums[k] as number, unit), 3), unit });
+  }
   return {
     stage,
     spiritL,
@@ -285,7 +290,7 @@ function workStage(stage: Stage, parts: readonly PartContext[], catalog: Catalog
       polishL: round(made?.polishL ?? 0, 4),
       flakesG: round(made?.flakesG ?? 0, 2),
       spiritL: round(spiritL, 4),
-      materials: [...used].map(([material, quantity]) => ({ material, quantity: round(quantity, 3), unit: unitOf(material) })),
+      materials,
       labourHours: round(hours, 3),
       handsOnHoursPerSession: round(hours / stage.sessions, 3),
       restHours: stage.restHours,
