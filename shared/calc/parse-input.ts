@@ -64,25 +64,41 @@ function sameData(value: unknown, snapshot: unknown): boolean {
   return count === Object.keys(s).length;
 }
 
-/** Is this plain data throughout (plain objects, dense plain arrays, strings, numbers, booleans, null, undefined)? */
-function isPlainData(x: unknown, depth = 0): boolean {
-  if (depth > 8) return false;
-  if (x === null || x === undefined) return true;
+const NOT_PLAIN: unique symbol = Symbol('not plain data');
+
+/**
+ * A deep copy of plain data (plain objects of own enumerable data properties, dense plain arrays, strings, numbers,
+ * booleans, null, undefined), or NOT_PLAIN for anything else (the part is then not remembered).
+ */
+function snapshotOf(x: unknown, depth = 0): unknown {
+  if (x === null || x === undefined) return x;
   const t = typeof x;
-  if (t === 'string' || t === 'number' || t === 'boolean') return true;
+  if (t === 'string' || t === 'number' || t === 'boolean') return x;
+  if (depth > 8) return NOT_PLAIN;
   if (isPlainArray(x)) {
-    for (let i = 0; i < x.length; i++) if (!(i in x) || !isPlainData(x[i], depth + 1)) return false;
-    return true;
+    const out: unknown[] = [];
+    for (let i = 0; i < x.length; i++) {
+      if (!(i in x)) return NOT_PLAIN;
+      const v = snapshotOf(x[i], depth + 1);
+      if (v === NOT_PLAIN) return NOT_PLAIN;
+      out.push(v);
+    }
+    return out;
   }
   if (isPlainObject(x)) {
-    if (Object.getOwnPropertySymbols(x).length > 0) return false;
-    for (const key of Object.getOwnPropertyNames(x)) {
+    const out: Record<string, unknown> = {};
+    const names = Object.getOwnPropertyNames(x);
+    if (Object.getOwnPropertySymbols(x).length > 0) return NOT_PLAIN;
+    for (const key of names) {
       const d = Object.getOwnPropertyDescriptor(x, key);
-      if (!d || !d.enumerable || !('value' in d) || !isPlainData(d.value, depth + 1)) return false;
+      if (!d || !d.enumerable || !('value' in d)) return NOT_PLAIN;
+      const v = snapshotOf(d.value, depth + 1);
+      if (v === NOT_PLAIN) return NOT_PLAIN;
+      out[key] = v;
     }
-    return true;
+    return out;
   }
-  return false;
+  return NOT_PLAIN;
 }
 
 /** Where the input's parts list is, when it has exactly one, as a plain array of plain data. */
@@ -107,56 +123,70 @@ function remember(rawList: unknown[], parsedList: readonly Part[], unit: string)
       known.units.add(unit);
       continue;
     }
-    if (!isPlainData(raw)) continue;
-    remembered.set(raw, { snapshot: structuredClone(raw), parsed: parsedList[i] as Part, units: new Set([unit]) });
+    const snapshot = snapshotOf(raw);
+    if (snapshot === NOT_PLAIN) continue;
+    remembered.set(raw, { snapshot, parsed: parsedList[i] as Part, units: new Set([unit]) });
   }
 }
 
-/** What is remembered of every part of the list, or null when any part must be checked again. */
-function recall(list: unknown[]): Remembered[] | null {
+interface Recalled {
+  /** What is remembered of each part (null for a part zod must check). */
+  known: Array<Remembered | null>;
+  /** The parts zod must check, in order. */
+  fresh: unknown[];
+}
+
+/**
+ * What is remembered of each part of the list, for the unit given; null when the list must go to zod whole (out of
+ * its length limits, a hole, or not one part remembered).
+ */
+function recall(list: unknown[], unit: string): Recalled | null {
   if (list.length < 1 || list.length > MAX_PARTS) return null;
-  const out: Remembered[] = new Array<Remembered>(list.length);
+  const known: Array<Remembered | null> = [];
+  const fresh: unknown[] = [];
   for (let i = 0; i < list.length; i++) {
     if (!(i in list)) return null;
     const raw = list[i];
-    if (typeof raw !== 'object' || raw === null) return null;
-    const known = remembered.get(raw);
-    if (!known || !sameData(raw, known.snapshot)) return null;
-    out[i] = known;
+    const k = typeof raw === 'object' && raw !== null ? remembered.get(raw) : undefined;
+    if (k && k.units.has(unit) && sameData(raw, k.snapshot)) {
+      known.push(k);
+    } else {
+      known.push(null);
+      fresh.push(raw);
+    }
   }
-  return out;
+  return fresh.length < list.length ? { known, fresh } : null;
 }
 
 /**
  * `EstimateInputSchema.parse(raw)`: the same output, the same ZodError for bad input; parts unchanged since an
- * earlier call are not checked by zod again.
+ * earlier call are not checked by zod again. The input goes to zod with its parts list cut down to the parts that
+ * are not remembered (or one plain stand-in part when all are); when that passes, the remembered parts' outputs are
+ * put back in their places. When it does not, the whole input goes to zod, for the problems as zod reports them.
  */
 export function parseEstimateInput(raw: EstimateInput): ParsedEstimateInput {
   const where = partsListOf(raw);
-  if (where) {
-    const known = recall(where.list);
-    if (known) {
-      const rest = raw as Record<string, unknown>;
-      const standIn = where.inPiece
-        ? { ...rest, piece: { ...(rest.piece as Record<string, unknown>), parts: [STAND_IN] } }
-        : { ...rest, parts: [STAND_IN] };
-      const checked = EstimateInputSchema.safeParse(standIn);
-      if (checked.success) {
-        const out = checked.data;
-        const unit = out.defaultLengthUnit;
-        const parts: Part[] = [];
-        for (const k of known) {
-          if (!k.units.has(unit)) return parseWhole(raw, where);
-          parts.push(k.parsed);
-        }
-        if (where.inPiece && out.piece) out.piece.parts = parts;
-        else if (!where.inPiece) out.parts = parts;
-        else return parseWhole(raw, where);
-        return out;
-      }
-    }
-  }
-  return parseWhole(raw, where);
+  if (!where) return parseWhole(raw, null);
+  const given = (raw as Record<string, unknown>).defaultLengthUnit;
+  // The unit the input will have (checked below against zod's output).
+  const unit = typeof given === 'string' ? given : 'mm';
+  const r = recall(where.list, unit);
+  if (!r) return parseWhole(raw, where);
+  const rest = raw as Record<string, unknown>;
+  const list = r.fresh.length > 0 ? r.fresh : [STAND_IN];
+  const cut = where.inPiece ? { ...rest, piece: { ...(rest.piece as Record<string, unknown>), parts: list } } : { ...rest, parts: list };
+  const checked = EstimateInputSchema.safeParse(cut);
+  if (!checked.success || checked.data.defaultLengthUnit !== unit) return parseWhole(raw, where);
+  const out = checked.data;
+  const checkedParts = where.inPiece ? out.piece?.parts : out.parts;
+  if (!checkedParts || checkedParts.length !== list.length) return parseWhole(raw, where);
+  const parts: Part[] = [];
+  let j = 0;
+  for (const k of r.known) parts.push(k ? k.parsed : (checkedParts[j++] as Part));
+  if (r.fresh.length > 0) remember(r.fresh, checkedParts, unit);
+  if (where.inPiece) (out.piece as NonNullable<ParsedEstimateInput['piece']>).parts = parts;
+  else out.parts = parts;
+  return out;
 }
 
 function parseWhole(raw: EstimateInput, where: { list: unknown[]; inPiece: boolean } | null): ParsedEstimateInput {
