@@ -27,7 +27,7 @@ import { labourCentsOf, priceEstimate, priceFromCents, usedCost } from './price'
 import { cautions, ventilation } from './safety';
 import { centsOf, centsText, formatCents, hundredthsOfHours, parseCents, usedCents, usedCentsNumber } from './cents';
 import { compiledCalendar, materialMap, rateMap, speciesMap } from './lookups';
-import { parseEstimateInput } from './parse-input';
+import { isRememberedPart, parseEstimateInput } from './parse-input';
 
 /** A problem with the input that only the catalog can reveal (an unknown system or species). */
 export class EstimateError extends Error {
@@ -173,7 +173,8 @@ function resolvedParts(input: ParsedEstimateInput, dims: Record<string, number> 
     if (known && known.unit === unit && known.defaultSpecies === defaultSpecies && (known.index === i || p.id !== undefined)) return known.value;
     const part = resolveOrRefuse(p, i, input, source, defaultSpecies);
     const value = { part, area: partArea(part) };
-    resolvedByPart.set(p, { unit, defaultSpecies, index: i, value });
+    // Only a part parseEstimateInput remembers comes back as the same object: only those are worth remembering.
+    if (isRememberedPart(p)) resolvedByPart.set(p, { unit, defaultSpecies, index: i, value });
     return value;
   });
 }

@@ -21,10 +21,17 @@ import type { EstimateInput, ParsedEstimateInput, Part } from '../schemas/calc';
 interface Remembered {
   snapshot: unknown;
   parsed: Part;
-  units: Set<string>;
+  units: string[];
 }
 
 const remembered = new WeakMap<object, Remembered>();
+/** zod's outputs that are remembered (and so come back, the same objects, while their parts do not change). */
+const rememberedOutputs = new WeakSet<Part>();
+
+/** Is this parsed part one that parseEstimateInput remembers (and so may give again for an unchanged part)? */
+export function isRememberedPart(part: Part): boolean {
+  return rememberedOutputs.has(part);
+}
 
 /** Stands for the parts list while the rest of the input is checked; valid under every default length unit. */
 const STAND_IN: Readonly<Record<string, unknown>> = Object.freeze({ name: 'part', shape: Object.freeze({ kind: 'rectangle', length: 1, width: 1 }) });
@@ -67,8 +74,8 @@ function sameData(value: unknown, snapshot: unknown): boolean {
 const NOT_PLAIN: unique symbol = Symbol('not plain data');
 
 /**
- * A deep copy of plain data (plain objects of own enumerable data properties, dense plain arrays, strings, numbers,
- * booleans, null, undefined), or NOT_PLAIN for anything else (the part is then not remembered).
+ * A deep copy of plain data (plain objects whose own properties are all enumerable, dense plain arrays, strings,
+ * numbers, booleans, null, undefined), or NOT_PLAIN for anything else (the part is then not remembered).
  */
 function snapshotOf(x: unknown, depth = 0): unknown {
   if (x === null || x === undefined) return x;
@@ -87,12 +94,11 @@ function snapshotOf(x: unknown, depth = 0): unknown {
   }
   if (isPlainObject(x)) {
     const out: Record<string, unknown> = {};
-    const names = Object.getOwnPropertyNames(x);
-    if (Object.getOwnPropertySymbols(x).length > 0) return NOT_PLAIN;
-    for (const key of names) {
-      const d = Object.getOwnPropertyDescriptor(x, key);
-      if (!d || !d.enumerable || !('value' in d)) return NOT_PLAIN;
-      const v = snapshotOf(d.value, depth + 1);
+    const keys = Object.keys(x);
+    // A property zod could read but a copy would miss (not enumerable) keeps the part from being remembered.
+    if (Object.getOwnPropertyNames(x).length !== keys.length) return NOT_PLAIN;
+    for (const key of keys) {
+      const v = snapshotOf(x[key], depth + 1);
       if (v === NOT_PLAIN) return NOT_PLAIN;
       out[key] = v;
     }
@@ -120,12 +126,14 @@ function remember(rawList: unknown[], parsedList: readonly Part[], unit: string)
     if (typeof raw !== 'object' || raw === null) continue;
     const known = remembered.get(raw);
     if (known && sameData(raw, known.snapshot)) {
-      known.units.add(unit);
+      if (!known.units.includes(unit)) known.units.push(unit);
       continue;
     }
     const snapshot = snapshotOf(raw);
     if (snapshot === NOT_PLAIN) continue;
-    remembered.set(raw, { snapshot, parsed: parsedList[i] as Part, units: new Set([unit]) });
+    const parsed = parsedList[i] as Part;
+    remembered.set(raw, { snapshot, parsed, units: [unit] });
+    rememberedOutputs.add(parsed);
   }
 }
 
@@ -148,7 +156,7 @@ function recall(list: unknown[], unit: string): Recalled | null {
     if (!(i in list)) return null;
     const raw = list[i];
     const k = typeof raw === 'object' && raw !== null ? remembered.get(raw) : undefined;
-    if (k && k.units.has(unit) && sameData(raw, k.snapshot)) {
+    if (k && k.units.includes(unit) && sameData(raw, k.snapshot)) {
       known.push(k);
     } else {
       known.push(null);
@@ -189,11 +197,20 @@ export function parseEstimateInput(raw: EstimateInput): ParsedEstimateInput {
   return out;
 }
 
+/**
+ * The parts of the last list zod checked whole. A list none of whose parts was seen before (a piece opened, or every
+ * part new, as on a server) is not remembered: remembering costs more than zod's check, and only pays when the parts
+ * come again. The editor's second call meets the same parts and remembers them.
+ */
+let lastWhole: ReadonlySet<unknown> = new Set();
+
 function parseWhole(raw: EstimateInput, where: { list: unknown[]; inPiece: boolean } | null): ParsedEstimateInput {
   const out = EstimateInputSchema.parse(raw);
   if (where) {
     const parsed = where.inPiece ? out.piece?.parts : out.parts;
-    if (parsed && parsed.length === where.list.length) remember(where.list, parsed, out.defaultLengthUnit);
+    const seen = where.list.some((p) => lastWhole.has(p));
+    lastWhole = new Set(where.list);
+    if (seen && parsed && parsed.length === where.list.length) remember(where.list, parsed, out.defaultLengthUnit);
   }
   return out;
 }
