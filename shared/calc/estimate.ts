@@ -4,7 +4,6 @@
  */
 import { CatalogSchema } from '../schemas/catalog';
 import type { Catalog, Material, Species, Stage } from '../schemas/catalog';
-import { EstimateInputSchema } from '../schemas/calc';
 import type {
   EstimateInput, EstimateResult, EstimateWarning, MaterialResult, ParsedEstimateInput, Part, PartResult, StageResult, TemplateKey,
 } from '../schemas/calc';
@@ -28,6 +27,7 @@ import { labourCentsOf, priceEstimate, priceFromCents, usedCost } from './price'
 import { cautions, ventilation } from './safety';
 import { centsOf, centsText, formatCents, hundredthsOfHours, parseCents, usedCents, usedCentsNumber } from './cents';
 import { compiledCalendar, materialMap, rateMap, speciesMap } from './lookups';
+import { isRememberedPart, parseEstimateInput } from './parse-input';
 
 /** A problem with the input that only the catalog can reveal (an unknown system or species). */
 export class EstimateError extends Error {
@@ -59,13 +59,17 @@ function checkCatalog(catalog: Catalog): void {
   checkedCatalogs.add(catalog);
 }
 
+/** Powers of ten as `10 ** dp` gives them (exact doubles), looked up. */
+const POW10: readonly number[] = [1, 10, 100, 1e3, 1e4, 1e5, 1e6, 1e7];
+
 const round = (x: number, dp: number): number => {
-  const f = 10 ** dp;
+  const f = POW10[dp] ?? 10 ** dp;
   return Math.round(x * f) / f;
 };
 
 interface PartsSource {
-  parts: Part[];
+  /** The parts (a template's are generated on first call). */
+  parts: () => Part[];
   path: Array<string | number>;
   defaultSpecies: string | undefined;
   /** The unit the parts' bare numbers are in: mm for a template's generated parts, the input's default otherwise. */
@@ -81,16 +85,20 @@ interface PartsSource {
 function inputParts(input: ParsedEstimateInput, dims: Record<string, number> | null): PartsSource {
   const piece = input.piece;
   if (piece?.template && dims) {
+    const template = piece.template;
+    let generated: Part[] | undefined;
     return {
-      parts: templatePartsMm(piece.template, dims, { species: piece.species, veneered: piece.veneered }),
+      parts: () => (generated ??= templatePartsMm(template, dims, { species: piece.species, veneered: piece.veneered })),
       path: ['piece'],
       defaultSpecies: piece.species ?? TEMPLATE_WOOD[piece.template].species,
       unit: 'mm',
       generated: true,
     };
   }
-  if (piece?.parts) return { parts: piece.parts, path: ['piece', 'parts'], defaultSpecies: piece.species, unit: input.defaultLengthUnit, generated: false };
-  return { parts: input.parts ?? [], path: ['parts'], defaultSpecies: undefined, unit: input.defaultLengthUnit, generated: false };
+  const given = piece?.parts;
+  if (given) return { parts: () => given, path: ['piece', 'parts'], defaultSpecies: piece.species, unit: input.defaultLengthUnit, generated: false };
+  const top = input.parts ?? [];
+  return { parts: () => top, path: ['parts'], defaultSpecies: undefined, unit: input.defaultLengthUnit, generated: false };
 }
 
 /**
@@ -120,6 +128,55 @@ function resolveOrRefuse(p: Part, i: number, input: ParsedEstimateInput, source:
     }
     throw new EstimateError('part-too-large', [...path, i], error.message);
   }
+}
+
+interface ResolvedWithArea {
+  part: ResolvedPart;
+  area: PartArea;
+}
+
+/**
+ * What was resolved before, for the editor's next call: a given part by its (parsed) object, which stays the same
+ * while the part does not change (./parse-input), under the unit, default species and place it was resolved with;
+ * a template's parts by the template, its dimensions in mm and the piece's species and veneer. Only parts that
+ * resolved are remembered (a problem is worked out again, so its error is the same); what is remembered is only
+ * read, never changed.
+ */
+let resolvedByPart = new WeakMap<Part, { unit: LengthUnit; defaultSpecies: string; index: number; value: ResolvedWithArea }>();
+const resolvedTemplates = new Map<string, readonly ResolvedWithArea[]>();
+const TEMPLATES_REMEMBERED = 64;
+
+/** Forgets the resolved parts remembered (tests compare the engine with and without them). */
+export function forgetResolvedParts(): void {
+  resolvedByPart = new WeakMap();
+  resolvedTemplates.clear();
+}
+
+function resolvedParts(input: ParsedEstimateInput, dims: Record<string, number> | null, source: PartsSource, defaultSpecies: string): readonly ResolvedWithArea[] {
+  const piece = input.piece;
+  if (source.generated && piece?.template && dims) {
+    const key = JSON.stringify([piece.template, piece.species ?? null, piece.veneered ?? null, defaultSpecies, dims]);
+    let list = resolvedTemplates.get(key);
+    if (!list) {
+      list = source.parts().map((p, i) => {
+        const part = resolveOrRefuse(p, i, input, source, defaultSpecies);
+        return { part, area: partArea(part) };
+      });
+      if (resolvedTemplates.size >= TEMPLATES_REMEMBERED) resolvedTemplates.clear();
+      resolvedTemplates.set(key, list);
+    }
+    return list;
+  }
+  const unit = source.unit;
+  return source.parts().map((p, i) => {
+    const known = resolvedByPart.get(p);
+    if (known && known.unit === unit && known.defaultSpecies === defaultSpecies && (known.index === i || p.id !== undefined)) return known.value;
+    const part = resolveOrRefuse(p, i, input, source, defaultSpecies);
+    const value = { part, area: partArea(part) };
+    // Only a part parseEstimateInput remembers comes back as the same object: only those are worth remembering.
+    if (isRememberedPart(p)) resolvedByPart.set(p, { unit, defaultSpecies, index: i, value });
+    return value;
+  });
 }
 
 /** The smallest plausible main dimension of a template, mm (common practice: no piano case is under 60 cm). */
@@ -167,32 +224,55 @@ function workStage(stage: Stage, parts: readonly PartContext[], catalog: Catalog
   let polishL = 0;
   let extraSpiritL = 0;
   let partMinutes = 0;
-  const used = new Map<string, number>();
+  // The stage's materials in slots (a key given twice shares its slot), summed part by part in the parts' order,
+  // as a Map keyed by material would sum them: the same additions in the same order.
+  const stageMaterials = stage.materials;
+  const keys: string[] = [];
+  const slotOf: number[] = [];
+  for (const m of stageMaterials) {
+    let slot = keys.indexOf(m.material);
+    if (slot < 0) slot = keys.push(m.material) - 1;
+    slotOf.push(slot);
+  }
+  const sums: number[] = keys.map(() => 0);
+  const nMaterials = stageMaterials.length;
+  const sessions = stage.sessions;
+  const firstCoats = stage.firstCoats;
+  const veneerCare = stage.veneerCare;
   for (const ctx of parts) {
     if (!applies(stage, ctx)) continue;
     const a = ctx.area.areaM2;
     const factor = f.complexity[ctx.part.complexity];
+    const fm = factor.material;
     areaM2 += a;
     polishL += polishLitres({
       areaM2: a, mlPerM2PerCoat: stage.polishMlPerM2PerCoat, coats,
-      absorbency: stage.firstCoats ? ctx.species.absorbency : 1, materialFactor: factor.material,
+      absorbency: firstCoats ? ctx.species.absorbency : 1, materialFactor: fm,
     });
-    extraSpiritL += (a * stage.spiritMlPerM2PerSession * stage.sessions * factor.material) / 1000;
-    for (const m of stage.materials) used.set(m.material, (used.get(m.material) ?? 0) + a * m.perM2 * stage.sessions * factor.material);
+    extraSpiritL += (a * stage.spiritMlPerM2PerSession * sessions * fm) / 1000;
+    for (let j = 0; j < nMaterials; j++) {
+      const slot = slotOf[j] as number;
+      sums[slot] = (sums[slot] as number) + a * (stageMaterials[j] as Stage['materials'][number]).perM2 * sessions * fm;
+    }
     partMinutes += labourMinutes({
       areaM2: a, minPerM2PerCoat: stage.labourMinPerM2PerCoat, coats,
-      complexityFactor: factor.labour, veneerFactor: stage.veneerCare && ctx.part.veneered ? f.veneerLabour : 1,
+      complexityFactor: factor.labour, veneerFactor: veneerCare && ctx.part.veneered ? f.veneerLabour : 1,
     });
   }
   if (areaM2 === 0) return null;
+  // Every part the stage applies to went through every slot, so each key is there, in the stage's order.
   const gallon = catalog.shellac.gallon;
   const made = stage.cutLb > 0 ? makeUpPolish(withWaste(polishL, catalog.pricing.wastePct), stage.cutLb, catalog.shellac.apparentDensity, gallon) : null;
   const spiritL = (made?.solventL ?? 0) + extraSpiritL;
   const hours = stageHours(partMinutes, stage.setupMinPerSession, stage.sessions);
   const byKey = materialMap(catalog.materials);
-  const unitOf = (key: string): string => byKey.get(key)?.unit ?? '';
   // Sheets, cloths and pads are opened whole: a stage's count is rounded up to whole pieces.
-  for (const [key, q] of used) used.set(key, wholeForUnit(q, unitOf(key)));
+  const materials: StageResult['materials'] = [];
+  for (let k = 0; k < keys.length; k++) {
+    const material = keys[k] as string;
+    const unit = byKey.get(material)?.unit ?? '';
+    materials.push({ material, quantity: round(wholeForUnit(sums[k] as number, unit), 3), unit });
+  }
   return {
     stage,
     spiritL,
@@ -211,7 +291,7 @@ function workStage(stage: Stage, parts: readonly PartContext[], catalog: Catalog
       polishL: round(made?.polishL ?? 0, 4),
       flakesG: round(made?.flakesG ?? 0, 2),
       spiritL: round(spiritL, 4),
-      materials: [...used].map(([material, quantity]) => ({ material, quantity: round(quantity, 3), unit: unitOf(material) })),
+      materials,
       labourHours: round(hours, 3),
       handsOnHoursPerSession: round(hours / stage.sessions, 3),
       restHours: stage.restHours,
@@ -274,6 +354,35 @@ function priceMaterial(material: Material, need: number, wholePacks: boolean): {
   };
 }
 
+interface PricedMaterial {
+  result: MaterialResult;
+  charged: Money | number;
+  packsFree: boolean;
+}
+
+/**
+ * Materials priced before, by material, its pack list, the charge basis and the need: the editor's next call
+ * (another discount, climate, start or units) prices the same needs again. Each call gets result objects of its own.
+ */
+const pricedBefore = new WeakMap<Material, { packs: Material['packs']; wholePacks: boolean; byNeed: Map<number, PricedMaterial> }>();
+const NEEDS_REMEMBERED = 16;
+
+function priceMaterialRemembered(material: Material, need: number, wholePacks: boolean): PricedMaterial {
+  let memo = pricedBefore.get(material);
+  if (!memo || memo.packs !== material.packs || memo.wholePacks !== wholePacks) {
+    memo = { packs: material.packs, wholePacks, byNeed: new Map() };
+    pricedBefore.set(material, memo);
+  }
+  let priced = memo.byNeed.get(need);
+  if (!priced) {
+    priced = priceMaterial(material, need, wholePacks);
+    if (memo.byNeed.size >= NEEDS_REMEMBERED) memo.byNeed.clear();
+    memo.byNeed.set(need, priced);
+  }
+  const r = priced.result;
+  return { charged: priced.charged, packsFree: priced.packsFree, result: { ...r, packs: r.packs.map((line) => ({ ...line })) } };
+}
+
 /**
  * The sum of the materials' charges: in whole cents (a safe integer) when every charge is in cents, in decimal
  * money otherwise.
@@ -295,13 +404,13 @@ function sumCharged(charges: ReadonlyArray<Money | number>): { cents: number | n
 
 /**
  * Estimates a French-polishing job. Validates the input (throws a ZodError whose issues name the field),
- * fills defaults, and returns plain JSON. Throws {@link EstimateError} for a system or species the catalog does
+ * fills defaults, and returns plain JSON. Parts unchanged since an earlier call are not checked again (./parse-input). Throws {@link EstimateError} for a system or species the catalog does
  * not hold. Never mutates its arguments.
  *
  * @example estimate({ piece: { template: 'grand', dimensions: { length: '6 ft 3 in' } }, system: 'full-repolish' }, catalog).totals
  */
 export function estimate(rawInput: EstimateInput, catalog: Catalog, options: EstimateOptions = {}): EstimateResult {
-  return estimateParsed(EstimateInputSchema.parse(rawInput), catalog, options);
+  return estimateParsed(parseEstimateInput(rawInput), catalog, options);
 }
 
 /**
@@ -322,14 +431,14 @@ export function estimateParsed(input: ParsedEstimateInput, catalog: Catalog, opt
   const defaultSpecies = source.defaultSpecies ?? (speciesByKey.has('mahogany') ? 'mahogany' : (catalog.species[0] as Species).key);
 
   // Parts and areas.
-  const contexts: PartContext[] = source.parts.map((p, i) => {
-    const part = resolveOrRefuse(p, i, input, source, defaultSpecies);
+  const resolved = resolvedParts(input, dims, source, defaultSpecies);
+  const contexts: PartContext[] = resolved.map(({ part, area }, i) => {
     const species = speciesByKey.get(part.species);
     if (!species) {
       const path = source.path[0] === 'piece' && source.path.length === 1 ? ['piece', 'species'] : [...source.path, i, 'species'];
       throw new EstimateError('unknown-species', path, `Unknown species "${part.species}"; expected one of ${[...speciesByKey.keys()].join(', ')}`);
     }
-    return { part, area: partArea(part), species };
+    return { part, area, species };
   });
   const warnings: EstimateWarning[] = [];
   for (const c of contexts) {
@@ -372,7 +481,7 @@ export function estimateParsed(input: ParsedEstimateInput, catalog: Catalog, opt
   const priced = [...needs].map(([key, need]) => {
     const material = materialsByKey.get(key);
     if (!material) throw new EstimateError('unknown-material', ['stages'], `Unknown material "${key}" in a stage`);
-    return priceMaterial(material, need, wholePacks);
+    return priceMaterialRemembered(material, need, wholePacks);
   });
   const materialsCost = sumCharged(priced.map((p) => p.charged));
 

@@ -267,6 +267,23 @@ export function buildPart(p: PartDraft): PartInput {
   };
 }
 
+/**
+ * Engine parts built from draft parts, by the draft part's object. The parts table replaces a part it changes and
+ * keeps the others, so an unchanged part gives the same input object on every keystroke and the engine takes what it
+ * checked and measured of it before (shared/calc/parse-input.ts). A part changed in place would still be checked
+ * again there: the engine compares each remembered part with a copy of it.
+ */
+const builtParts = new WeakMap<PartDraft, PartInput>();
+
+function builtPart(p: PartDraft): PartInput {
+  let built = builtParts.get(p);
+  if (!built) {
+    built = buildPart(p);
+    builtParts.set(p, built);
+  }
+  return built;
+}
+
 // ------------------------------------------------------------------------------------------------ stages
 
 export function stageDraft(stage: Stage): StageDraft {
@@ -302,7 +319,7 @@ export function buildInput(d: EstimateDraft): EstimateInput {
     piece:
       d.mode === 'template'
         ? { template: d.template, dimensions, ...(d.species ? { species: d.species } : {}), veneered: d.veneered }
-        : { parts: d.parts.map(buildPart) },
+        : { parts: d.parts.map(builtPart) },
     system: d.system,
     stages: d.stages.map(buildStage),
     climate: { temperatureC: toNumber(d.temperatureC), humidityPct: toNumber(d.humidityPct) },
