@@ -25,6 +25,19 @@ export function appUrlOf(ownerUrl: string): string {
   return url.toString();
 }
 
+/** False only when the URL's password is refused (anything else, such as a database it may not reach yet, is not ours to fix). */
+async function signsIn(url: string): Promise<boolean> {
+  const probe = new pg.Client({ connectionString: url });
+  try {
+    await probe.connect();
+    return true;
+  } catch (e) {
+    return (e as { code?: string }).code !== '28P01';
+  } finally {
+    await probe.end().catch(() => undefined);
+  }
+}
+
 /** Creates or updates the app role and its grants on the owner's database; answers the URL the app connects with. */
 export async function ensureAppRole(ownerUrl: string): Promise<string> {
   const explicit = process.env.APP_DATABASE_URL;
@@ -42,6 +55,10 @@ export async function ensureAppRole(ownerUrl: string): Promise<string> {
         // Another process on the same cluster created it first (roles belong to the cluster, not the database).
         if ((e as { code?: string }).code !== '23505' && (e as { code?: string }).code !== '42710') throw e;
       }
+    } else if (!(await signsIn(appUrlOf(ownerUrl)))) {
+      // The role was made when the owner's URL was another (the private cluster moved to a free port): the password
+      // derived from this URL is the one to hold now. Nothing is changed while the derived password still signs in.
+      await client.query(`ALTER ROLE ${APP_ROLE} PASSWORD ${literal}`);
     }
     const attrs = (await client.query<{ rolsuper: boolean; rolbypassrls: boolean }>('SELECT rolsuper, rolbypassrls FROM pg_roles WHERE rolname = $1', [APP_ROLE])).rows[0];
     if (attrs?.rolsuper || attrs?.rolbypassrls) throw new Error(`the role ${APP_ROLE} must not be a superuser nor bypass row-level security`);
