@@ -44,6 +44,7 @@ export function TextField({ label, hint, error, id, className = '', ...rest }: T
     <FieldShell id={fieldId} label={label} hint={hint} error={error}>
       <input
         id={fieldId}
+        type="text"
         aria-invalid={error ? true : undefined}
         aria-describedby={error ? `${fieldId}-error` : hint ? `${fieldId}-hint` : undefined}
         className={`${control} ${error ? 'border-brick-600' : 'border-walnut-200'} ${className}`}

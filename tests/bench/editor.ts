@@ -117,6 +117,21 @@ async function typeAndTime(page: Page, field: string, start: string, profileAs?:
     await cdp.send('Profiler.setSamplingInterval', { interval: 100 });
     await cdp.send('Profiler.start');
   }
+  if (cdp) {
+    // What the typing changes in the page's attributes, by element and attribute (a profile's DOM costs, named).
+    await page.evaluate(() => {
+      const counts: Record<string, number> = {};
+      (window as unknown as { __attributeChanges: Record<string, number> }).__attributeChanges = counts;
+      new MutationObserver((records) => {
+        for (const r of records) {
+          const el = r.target as HTMLInputElement;
+          const where = el.closest('section[aria-labelledby], fieldset, li, tr')?.querySelector('h2, h3, legend')?.textContent?.slice(0, 24) ?? el.labels?.[0]?.textContent?.slice(0, 24) ?? '';
+          const key = `${el.tagName.toLowerCase()} ${r.attributeName} in "${where.trim()}"`;
+          counts[key] = (counts[key] ?? 0) + 1;
+        }
+      }).observe(document.body, { subtree: true, attributes: true });
+    });
+  }
   const times: number[] = [];
   for (let i = 0; i < KEYS; i++) {
     const key = i % 2 === 0 ? 'Backspace' : String((i * 7) % 10);
@@ -131,6 +146,9 @@ async function typeAndTime(page: Page, field: string, start: string, profileAs?:
     const file = path.join(rootDir, 'tests', 'artifacts', `editor-${profileAs}.cpuprofile`);
     fs.writeFileSync(file, JSON.stringify(profile));
     console.log(`CPU profile of the typing: ${path.relative(rootDir, file)}`);
+    const changes = await page.evaluate(() => (window as unknown as { __attributeChanges: Record<string, number> }).__attributeChanges);
+    const top = Object.entries(changes).sort((a, b) => b[1] - a[1]).slice(0, 6);
+    console.log(`attribute changes per keystroke: ${top.map(([k, n]) => `${k} ${(n / KEYS).toFixed(1)}`).join(', ') || 'none'}`);
   }
   const marks = await page.evaluate(() => window.__editorBench!.marks);
   for (const m of marks) times.push(m.frame - m.key);

@@ -57,6 +57,9 @@ export function CellInput({ label, showLabel = false, value, onValue, error, hin
       <div className="flex items-center gap-1">
         <input
           id={id}
+          // An explicit type: without one React removes the attribute on every update of the input, and the browser
+          // then restyles the whole form (a keystroke in a 200-part table updated hundreds of inputs).
+          type="text"
           value={value}
           onChange={(e) => onValue(e.target.value)}
           aria-invalid={error ? true : undefined}

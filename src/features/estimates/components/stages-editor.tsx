@@ -1,5 +1,5 @@
 import { ChevronDown, ChevronRight } from 'lucide-react';
-import { Fragment, useState } from 'react';
+import { Fragment, memo, useCallback, useEffect, useRef, useState } from 'react';
 import { APPLIES_TO, cutUnit, type Catalog } from '@shared/schemas/catalog';
 import type { StageResult } from '@shared/schemas/calc';
 import { APPLIES_TO_LABELS, messageAt, STAGE_NUMBER_LABELS, type StageDraft, type StageNumber } from '../lib/draft';
@@ -17,12 +17,46 @@ interface StagesEditorProps {
   catalog: Catalog;
 }
 
+/**
+ * A stage's "use" box and main numbers, drawn again only when that stage, its messages or its place change: a
+ * keystroke elsewhere in the estimate (a dimension, a part) leaves the stages' inputs alone (their callbacks are
+ * stable and read the latest list).
+ */
+const StageUseCell = memo(function StageUseCell({ index, name, enabled, onToggle }: { index: number; name: string; enabled: boolean; onToggle: (i: number, enabled: boolean) => void }) {
+  return (
+    <td className="px-2 py-1.5 align-top">
+      <input type="checkbox" className="mt-2 h-4 w-4 accent-amber-600" checked={enabled} onChange={(e) => onToggle(index, e.target.checked)} aria-label={`Use ${name}`} />
+    </td>
+  );
+});
+
+const StageNumberCell = memo(function StageNumberCell({ index, k, name, value, disabled, error, onValue }: { index: number; k: StageNumber; name: string; value: string; disabled: boolean; error: string | undefined; onValue: (i: number, k: StageNumber, v: string) => void }) {
+  return (
+    <td className="w-20 px-2 py-1.5 align-top">
+      <CellInput label={`${STAGE_NUMBER_LABELS[k].label} of ${name}`} value={value} onValue={(v) => onValue(index, k, v)} inputMode="decimal" disabled={disabled} error={error} />
+    </td>
+  );
+});
+
 /** The stages this estimate uses, copied from the finishing system and edited here only. */
 export function StagesEditor({ stages, onChange, errors, results, catalog }: StagesEditorProps) {
   // The cut's gallon is a workshop setting, named beside every cut.
   const unitOf = (k: StageNumber): string => (k === 'cutLb' ? cutUnit(catalog.shellac.gallon) : STAGE_NUMBER_LABELS[k].unit);
   const [open, setOpen] = useState<string | null>(null);
   const set = (i: number, patch: Partial<StageDraft>) => onChange(stages.map((s, k) => (k === i ? { ...s, ...patch } : s)));
+  // The cells' callbacks stay the same between renders and read the latest stages.
+  const latest = useRef({ stages, onChange });
+  useEffect(() => {
+    latest.current = { stages, onChange };
+  });
+  const onToggle = useCallback((i: number, enabled: boolean) => {
+    const { stages: list, onChange: change } = latest.current;
+    change(list.map((s, k) => (k === i ? { ...s, enabled } : s)));
+  }, []);
+  const onValue = useCallback((i: number, key: StageNumber, v: string) => {
+    const { stages: list, onChange: change } = latest.current;
+    change(list.map((s, k) => (k === i ? { ...s, values: { ...s.values, [key]: v } } : s)));
+  }, []);
   const byKey = new Map(results.map((r) => [r.key, r]));
   return (
     <div className="overflow-x-auto rounded-lg border border-parchment-200">
@@ -47,9 +81,7 @@ export function StagesEditor({ stages, onChange, errors, results, catalog }: Sta
             return (
               <Fragment key={s.key}>
                 <tr className={s.enabled ? '' : 'bg-parchment-50 text-walnut-400'} data-testid={`stage-row-${s.key}`}>
-                  <td className="px-2 py-1.5 align-top">
-                    <input type="checkbox" className="mt-2 h-4 w-4 accent-amber-600" checked={s.enabled} onChange={(e) => set(i, { enabled: e.target.checked })} aria-label={`Use ${s.base.name}`} />
-                  </td>
+                  <StageUseCell index={i} name={s.base.name} enabled={s.enabled} onToggle={onToggle} />
                   <td className="min-w-44 px-2 py-1.5 align-top">
                     <button type="button" className="mt-1 inline-flex items-center gap-1 text-left font-medium text-walnut-900 hover:text-amber-700" onClick={() => setOpen(expanded ? null : s.key)} aria-expanded={expanded}>
                       {expanded ? <ChevronDown className="h-3.5 w-3.5" aria-hidden /> : <ChevronRight className="h-3.5 w-3.5" aria-hidden />}
@@ -58,16 +90,7 @@ export function StagesEditor({ stages, onChange, errors, results, catalog }: Sta
                     {!s.enabled && <span className="block pl-5 text-xs">not used</span>}
                   </td>
                   {MAIN.map((k) => (
-                    <td key={k} className="w-20 px-2 py-1.5 align-top">
-                      <CellInput
-                        label={`${STAGE_NUMBER_LABELS[k].label} of ${s.base.name}`}
-                        value={s.values[k]}
-                        onValue={(v) => set(i, { values: { ...s.values, [k]: v } })}
-                        inputMode="decimal"
-                        disabled={!s.enabled}
-                        error={messageAt(errors, `stages.${i}.${k}`)}
-                      />
-                    </td>
+                    <StageNumberCell key={k} index={i} k={k} name={s.base.name} value={s.values[k]} disabled={!s.enabled} error={messageAt(errors, `stages.${i}.${k}`)} onValue={onValue} />
                   ))}
                   <td className="num whitespace-nowrap px-2 py-1.5 pt-3 text-right align-top font-medium">{r && s.enabled ? formatHours(r.labourHours) : '—'}</td>
                 </tr>
