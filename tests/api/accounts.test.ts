@@ -362,10 +362,17 @@ describe('what customers owe, by age', () => {
       const q = await agreement('120.00', 0);
       const a = (await post(sales, `/api/accounts/quotes/${q.id}/invoice`, {}).expect(201)).body as AccountDto;
       const inv = a.documents.find((d) => d.kind === 'invoice')!;
-      // Issued "age" days ago: the date is moved past the trigger, as a back-dated import would be.
+      // Issued "age" days ago, at noon on the workshop's clock (so that a daylight-saving change between then and
+      // now, late in the evening, does not move it to the next day): the date is moved past the trigger, as a
+      // back-dated import would be.
       await ownerDb.transaction(async (transaction) => {
         await ownerDb.query('ALTER TABLE account_documents DISABLE TRIGGER account_documents_issued', { transaction });
-        await ownerDb.query(`UPDATE account_documents SET issued_at = now() - (:age || ' days')::interval WHERE id = :id`, { replacements: { age, id: inv.id }, transaction });
+        await ownerDb.query(
+          `UPDATE account_documents d SET issued_at = ((now() AT TIME ZONE z.zone)::date - :age + time '12:00') AT TIME ZONE z.zone
+             FROM (SELECT w.id, COALESCE(w.settings->>'timeZone', 'Europe/London') AS zone FROM workshops w) z
+            WHERE z.id = d.workshop_id AND d.id = :id`,
+          { replacements: { age, id: inv.id }, transaction },
+        );
         await ownerDb.query('ALTER TABLE account_documents ENABLE TRIGGER account_documents_issued', { transaction });
       });
       made.push({ id: q.id, age });
