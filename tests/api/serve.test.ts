@@ -6,7 +6,6 @@
  */
 import { spawn, type ChildProcess } from 'node:child_process';
 import fs from 'node:fs';
-import net from 'node:net';
 import os from 'node:os';
 import path from 'node:path';
 import pg from 'pg';
@@ -14,6 +13,7 @@ import supertest from 'supertest';
 import { afterAll, describe, expect, it } from 'vitest';
 import { rootDir } from '../../server/config';
 import { testDatabaseUrl } from '../helpers/app';
+import { freePort } from '../helpers/ports';
 
 const database = `shellwright_serve_${process.pid}`;
 const dataDir = fs.mkdtempSync(path.join(os.tmpdir(), 'shellwright-serve-'));
@@ -35,13 +35,6 @@ async function onOwner(sql: string): Promise<void> {
   }
 }
 
-async function freePort(): Promise<number> {
-  const server = net.createServer();
-  await new Promise<void>((resolve) => server.listen(0, '127.0.0.1', resolve));
-  const { port } = server.address() as net.AddressInfo;
-  await new Promise<void>((resolve) => server.close(() => resolve()));
-  return port;
-}
 
 afterAll(async () => {
   if (child && child.exitCode === null) child.kill('SIGKILL');

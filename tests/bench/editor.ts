@@ -12,7 +12,6 @@
  */
 import { spawn } from 'node:child_process';
 import fs from 'node:fs';
-import net from 'node:net';
 import path from 'node:path';
 import type { Page } from 'playwright-core';
 import { buildClientIfNeeded } from '../../server/cli/build-client';
@@ -21,6 +20,7 @@ import { stopCluster } from '../../server/db/cluster';
 import { BIG_PARTS } from '../fixtures/golden/cases';
 import { launchBrowser } from '../helpers/browser';
 import { BENCH_DATA_DIR, benchDatabase, signInHttp } from './bench-env';
+import { freePort } from '../helpers/ports';
 
 const KEYS = Number(process.env.BENCH_KEYS ?? 40);
 const THROTTLE = Number(process.env.BENCH_CPU_THROTTLE ?? 1);
@@ -28,13 +28,6 @@ const TARGET_MS = 16;
 /** BENCH_PROFILE=1 keeps a CPU profile of each piece's typing in tests/artifacts (open it in Chromium's DevTools). */
 const PROFILE = process.env.BENCH_PROFILE === '1';
 
-async function freePort(): Promise<number> {
-  const server = net.createServer();
-  await new Promise<void>((resolve) => server.listen(0, '127.0.0.1', resolve));
-  const { port } = server.address() as net.AddressInfo;
-  await new Promise<void>((resolve) => server.close(() => resolve()));
-  return port;
-}
 
 /** The app in one worker process, as `npm run serve` runs it; resolves once it says it is up. */
 async function serveApp(env: Record<string, string>): Promise<{ url: string; stop: () => Promise<void> }> {

@@ -13,7 +13,6 @@
  * use to prove it. The plans and the PDF are taken through the same role, under the same workshop. */
 import { spawn, type ChildProcess } from 'node:child_process';
 import fs from 'node:fs';
-import net from 'node:net';
 import path from 'node:path';
 import { gzipSync } from 'node:zlib';
 import autocannon from 'autocannon';
@@ -27,6 +26,7 @@ import { listEstimates } from '../../server/services/estimates';
 import { listQuotes } from '../../server/services/quotes';
 import { estimateDocument } from '../../server/services/quotes';
 import { BENCH_DATA_DIR, benchDatabase, signInHttp } from './bench-env';
+import { freePort } from '../helpers/ports';
 
 const SECONDS = Number(process.env.BENCH_SECONDS ?? 8);
 const CONNECTIONS = Number(process.env.BENCH_CONNECTIONS ?? 10);
@@ -55,13 +55,6 @@ function initialJsKb(): { files: string[]; gzipKb: number } {
   return { files, gzipKb: bytes / 1024 };
 }
 
-async function freePort(): Promise<number> {
-  const server = net.createServer();
-  await new Promise<void>((resolve) => server.listen(0, '127.0.0.1', resolve));
-  const { port } = server.address() as net.AddressInfo;
-  await new Promise<void>((resolve) => server.close(() => resolve()));
-  return port;
-}
 
 interface Served {
   url: string;
