@@ -388,10 +388,12 @@ const ESTIMATE_SORTS: ReadonlySet<ListQuery['sort']> = new Set(['number', 'labou
 const SUMMARY_SELECT = () => `SELECT e.id, e.number, e.title, ${estimateStateSql('e')} AS state, e.labour_hours, e.total, e.currency, e.revision_count,
        e.valid_until::text AS valid_until, e.archived, e.created_at, e.updated_at, c.id AS customer_id, c.name AS customer_name,
        p.id AS piece_id, p.description AS piece_description, p.kind AS piece_kind, u.id AS owner_id, u.name AS owner_name`;
-const SUMMARY_FROM = `FROM estimates e
-  JOIN customers c ON c.id = e.customer_id
+/** The names a list row shows, joined to the estimates `e`. */
+const SUMMARY_JOINS = `JOIN customers c ON c.id = e.customer_id
   JOIN pieces p ON p.id = e.piece_id
   JOIN users u ON u.id = e.owner_id`;
+const SUMMARY_FROM = `FROM estimates e
+  ${SUMMARY_JOINS}`;
 
 interface SummaryRow {
   id: number;
@@ -486,9 +488,7 @@ export async function listEstimates(q: ListQuery): Promise<Page<EstimateSummary>
   const pageSql = pageFirst
     ? `${SUMMARY_SELECT()}, ${countUpTo} AS counted
       FROM (SELECT * FROM estimates e WHERE ${where} ${order} LIMIT :limit OFFSET :offset) e
-      JOIN customers c ON c.id = e.customer_id
-      JOIN pieces p ON p.id = e.piece_id
-      JOIN users u ON u.id = e.owner_id
+      ${SUMMARY_JOINS}
       ${order}`
     : `${SUMMARY_SELECT()}, ${countUpTo} AS counted ${SUMMARY_FROM}
       WHERE ${where}
