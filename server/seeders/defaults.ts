@@ -7,7 +7,7 @@ import type { Sequelize, Transaction } from 'sequelize';
 import { DEFAULT_FACTORS, DEFAULT_SHELLAC, DEFAULT_SPECIES, DEFAULT_SYSTEMS } from '@shared/calc';
 import { DEMO_MATERIALS } from '@shared/calc/presets/demo-materials';
 import type { WorkshopSettings } from '@shared/schemas/workshop';
-import { DEFAULT_TIME_ZONE, today } from '@shared/time';
+import { addDays, DEFAULT_TIME_ZONE, today } from '@shared/time';
 import { FinishingSystem, LabourRate, Material, MaterialPack, PackPrice, Species } from '../models';
 
 /** Settings of a new workshop (the owner reviews them on the settings page). */
@@ -65,10 +65,20 @@ async function presets(transaction: Transaction): Promise<number> {
   return added;
 }
 
+/**
+ * The day the zero placeholder prices count from: the day before today in UTC, which is today or earlier on every
+ * clock (zones run from UTC−12 to UTC+14). Dated "today" in the zone the defaults were written under, they would not
+ * yet count for a workshop whose zone is a day behind it (a new workshop that then sets a zone west of its first one),
+ * and its price list would read as incomplete until that zone's tomorrow.
+ */
+export function placeholderPriceDay(now: Date = new Date()): string {
+  return addDays(today('UTC', now), -1);
+}
+
 /** Materials the presets use, with their pack sizes; prices stay at zero until the owner enters them. */
 async function materials(transaction: Transaction): Promise<void> {
   if ((await Material.count({ transaction })) > 0) return;
-  const effectiveFrom = today();
+  const effectiveFrom = placeholderPriceDay();
   for (const m of DEMO_MATERIALS) {
     const material = await Material.create({ key: m.key, name: m.name, kind: m.kind, unit: m.unit }, { transaction });
     for (const p of m.packs) {

@@ -4,10 +4,12 @@
  * Los Angeles, each invoice at the same instant near midnight UTC on 31 October 2026: Auckland's invoice is dated
  * 1 November (UTC+13 in its summer), Los Angeles's 31 October (UTC−7 until 1 November), and the two are asked at once.
  */
+import fc from 'fast-check';
 import pg from 'pg';
 import request from 'supertest';
 import { afterAll, beforeAll, describe, expect, it } from 'vitest';
 import { daysBetween, today } from '../../shared/time';
+import { placeholderPriceDay } from '../../server/seeders/defaults';
 import { noteWorkshopTimeZone, runAsWorkshop } from '../../server/db/workshop-context';
 import { closeTestApp, getTestApp, signIn, startServices, testDatabaseUrl, type Session } from '../helpers/app';
 import { createOtherWorkshop, OTHER_PASSWORD } from '../helpers/workshops';
@@ -96,5 +98,26 @@ describe('time zones per workshop', () => {
       expect(invoiced[s.month === '2026-11' ? '2026-10' : '2026-11']).toBe('0.00');
       expect(reports[i]!.body.owed.rows[0].invoicedOn).toBe(s.day);
     });
+  });
+
+  it('counts the placeholder prices of a new workshop from a day that is past or today on every clock (property)', () => {
+    // The zones furthest behind and ahead of UTC (UTC−12 and UTC+14), and the default one.
+    const zones = ['Etc/GMT+12', 'Pacific/Pago_Pago', 'America/Los_Angeles', 'Europe/London', 'Pacific/Auckland', 'Pacific/Kiritimati'];
+    fc.assert(
+      fc.property(fc.date({ min: new Date('2020-01-01T00:00:00Z'), max: new Date('2040-12-31T23:59:59Z'), noInvalidDate: true }), (now) => {
+        for (const zone of zones) expect(placeholderPriceDay(now) <= today(zone, now)).toBe(true);
+      }),
+      { numRuns: 300 },
+    );
+  });
+
+  it('makes the first estimate of a new workshop whose owner sets the zone furthest behind UTC', async () => {
+    const w = await createOtherWorkshop(sequelize, 'Tern Quay Polishers');
+    await owner.query(`UPDATE workshops SET settings = jsonb_set(settings, '{timeZone}', to_jsonb('Etc/GMT+12'::text)) WHERE id = $1`, [w.id]);
+    const s = await signIn(app, w.emails.owner, OTHER_PASSWORD);
+    const c = await post(s, '/api/customers', { name: 'Tern customer', email: `tern.${process.pid}@example.com` }).expect(201);
+    const p = await post(s, '/api/pieces', { customerId: c.body.id, kind: 'upright', description: 'Walnut upright' }).expect(201);
+    const e = await post(s, '/api/estimates', { customerId: c.body.id, pieceId: p.body.id, input });
+    expect(e.status, JSON.stringify(e.body)).toBe(201);
   });
 });
