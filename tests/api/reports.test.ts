@@ -7,6 +7,7 @@ import request from 'supertest';
 import { afterAll, beforeAll, describe, expect, it } from 'vitest';
 import type { JobDetail } from '../../shared/schemas/planning';
 import type { CapacityReport, QuotesReport } from '../../shared/schemas/reports';
+import { today } from '../../shared/time';
 import { Quote } from '../../server/models';
 import { closeTestApp, getTestApp, signInAs, startServices, type Session } from '../helpers/app';
 
@@ -37,6 +38,19 @@ async function draftQuote(): Promise<number> {
   return q.body.id as number;
 }
 
+/** Sends the quote and accepts it by its link, as the customer does: an agreement with its accepted total and deposit. */
+async function agreeQuote(id: number): Promise<void> {
+  const sent = await post(sales, `/api/quotes/${id}/send`, {}).expect(200);
+  await request(app).post(`/api/public/quotes/${String(sent.body.link).split('/q/')[1]}/accept`).send({ name: 'Report customer', acceptTerms: true }).expect(200);
+}
+
+/** Pays the accepted quote's deposit by a bank transfer recorded by hand, which moves it to "deposit paid". */
+async function payDeposit(id: number): Promise<void> {
+  const q = await Quote.findByPk(id);
+  await post(sales, `/api/accounts/quotes/${id}/payments`, { method: 'bank-transfer', amount: Number(q!.acceptedDeposit).toFixed(2), receivedOn: today(), reference: 'Report deposit' }).expect(201);
+  expect((await Quote.findByPk(id))!.state).toBe('deposit-paid');
+}
+
 beforeAll(async () => {
   services = await startServices();
   [owner, planner, estimator, sales] = await Promise.all([signInAs(app, 'owner'), signInAs(app, 'workshop'), signInAs(app, 'estimator'), signInAs(app, 'sales')]);
@@ -48,14 +62,18 @@ describe('the quotes report', () => {
     const year = 2001 + (process.pid % 8);
     const at = (md: string, time = '10:00') => new Date(`${year}-${md}T${time}:00Z`);
     const ids = [await draftQuote(), await draftQuote(), await draftQuote(), await draftQuote()];
+    // The agreements are made by the real path (accepted by link, the deposit recorded), then moved back in time.
+    await agreeQuote(ids[0]!);
+    await agreeQuote(ids[3]!);
+    await payDeposit(ids[3]!);
     // 1: sent 10 Jan, opened 11 Jan, accepted 14 Jan (4 days).
-    await Quote.update({ state: 'accepted', sentAt: at('01-10'), viewedAt: at('01-11'), acceptedAt: at('01-14'), validUntil: `${year}-02-10` }, { where: { id: ids[0] } });
+    await Quote.update({ sentAt: at('01-10'), viewedAt: at('01-11'), acceptedAt: at('01-14'), validUntil: `${year}-02-10` }, { where: { id: ids[0] } });
     // 2: sent 20 Jan, opened 2 Feb, declined 3 Feb (14 days).
     await Quote.update({ state: 'declined', sentAt: at('01-20'), viewedAt: at('02-02'), declinedAt: at('02-03'), validUntil: `${year}-02-20` }, { where: { id: ids[1] } });
     // 3: sent 5 Feb, never answered, valid until 7 Mar: expired in March.
     await Quote.update({ state: 'expired', sentAt: at('02-05'), validUntil: `${year}-03-07` }, { where: { id: ids[2] } });
     // 4: sent 10 Feb 10:00, accepted 11 Feb 22:00 (1.5 days), deposit paid since.
-    await Quote.update({ state: 'deposit-paid', sentAt: at('02-10'), acceptedAt: at('02-11', '22:00'), validUntil: `${year}-03-10` }, { where: { id: ids[3] } });
+    await Quote.update({ sentAt: at('02-10'), viewedAt: null, acceptedAt: at('02-11', '22:00'), validUntil: `${year}-03-10` }, { where: { id: ids[3] } });
 
     const res = await owner.agent.get(`/api/reports/quotes?from=${year}-01-01&to=${year}-03-31`).expect(200);
     const r = res.body as QuotesReport;
