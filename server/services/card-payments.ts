@@ -7,9 +7,9 @@ import type { Sequelize } from 'sequelize';
 import { CARD_PAYMENTS_RETURN, type CardPayments } from '@shared/schemas/card-payments';
 import type { Config } from '../config';
 import { problems } from '../http/problem';
-import { Workshop } from '../models';
+import { Payment, Quote, Workshop } from '../models';
 import { audit } from './audit';
-import { client, unreachable } from './payment-provider';
+import { client, onAccount, unreachable } from './payment-provider';
 
 function dtoOf(config: Config, w: Workshop): CardPayments {
   return { state: w.paymentAccountState, accountId: w.paymentAccountId, configured: Boolean(config.payments.secretKey) };
@@ -91,5 +91,53 @@ export async function refreshCardPayments(sequelize: Sequelize, config: Config, 
       await audit({ userId: actorId, action: 'workshop.card_payments', entityType: 'workshop', entityId: locked.id, after: { account: account.id, state } }, transaction);
     }
     return dtoOf(config, locked);
+  });
+}
+
+/**
+ * Disconnects the workshop's account, so that another can be connected (or none). Under the workshop row's lock,
+ * which every new checkout waits for (`workshopPaymentAccount` reads the row FOR SHARE): each checkout still open on
+ * the account is closed at the provider and here, and then the workshop has no account. A checkout the provider says
+ * was paid meanwhile stops it (409): its webhook is on its way and is counted first. Payments taken on the account
+ * keep its name, so a late webhook still counts and a refund still goes to it (the account lookup reads them). The
+ * owner names the account being disconnected; another one connected since is left alone (409).
+ */
+export async function disconnectCardPayments(sequelize: Sequelize, config: Config, actorId: number, accountId: string): Promise<CardPayments> {
+  return sequelize.transaction(async (transaction) => {
+    const w = await Workshop.findOne({ order: [['id', 'ASC']], transaction, lock: transaction.LOCK.UPDATE });
+    if (!w) throw problems.notFound('The workshop');
+    const former = w.paymentAccountId;
+    if (!former) throw problems.conflict('payments_not_connected', 'Card payments are not connected: there is nothing to disconnect.');
+    if (former !== accountId) throw problems.conflict('payments_account_changed', 'The card payment account has changed since this page was opened: reload the page to see the one connected now.');
+    // Checkouts recorded before each named its account were opened on this one.
+    await Payment.update({ providerAccountId: former }, { where: { providerAccountId: null }, transaction });
+    const open = await Payment.findAll({ where: { status: 'pending', providerAccountId: former }, order: [['id', 'ASC']], transaction, lock: transaction.LOCK.UPDATE });
+    if (open.length > 0) {
+      const stripe = client(config);
+      for (const p of open) {
+        let status: string | null;
+        try {
+          const session = await stripe.checkout.sessions.retrieve(p.providerSessionId, {}, onAccount(former));
+          status = session.status;
+          if (status === 'open') status = (await stripe.checkout.sessions.expire(p.providerSessionId, {}, onAccount(former))).status;
+        } catch (err) {
+          throw unreachable(err);
+        }
+        if (status === 'complete') {
+          const quote = await Quote.findByPk(p.quoteId, { attributes: ['id', 'number'], transaction });
+          throw problems.conflict(
+            'payment_in_progress',
+            `A customer has just paid by card${quote ? ` on quote ${quote.number}` : ''} and the payment is still being recorded. Try again in a few minutes.`,
+          );
+        }
+        await p.update({ status: 'cancelled', closedAt: new Date() }, { transaction });
+      }
+    }
+    await w.update({ paymentAccountId: null, paymentAccountState: 'none' }, { transaction });
+    await audit(
+      { userId: actorId, action: 'workshop.card_payments', entityType: 'workshop', entityId: w.id, before: { account: former }, after: { account: null, state: 'none', closedCheckouts: open.length } },
+      transaction,
+    );
+    return dtoOf(config, w);
   });
 }

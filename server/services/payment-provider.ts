@@ -62,9 +62,13 @@ export async function cardPaymentsReady(config: Config, transaction?: Transactio
   return Boolean(w?.paymentAccountId) && w?.paymentAccountState === 'ready';
 }
 
-/** The connected account the current workshop takes card payments on; 409 when it has none ready. */
+/**
+ * The connected account the current workshop takes card payments on; 409 when it has none ready. Inside a
+ * transaction the workshop's row is read FOR SHARE, so a checkout being opened and the owner disconnecting the account
+ * wait for each other: the disconnection closes every checkout opened before it, and none opens on the account after.
+ */
 export async function workshopPaymentAccount(transaction?: Transaction): Promise<string> {
-  const w = await Workshop.findOne({ attributes: ['id', 'paymentAccountId', 'paymentAccountState'], order: [['id', 'ASC']], transaction });
+  const w = await Workshop.findOne({ attributes: ['id', 'paymentAccountId', 'paymentAccountState'], order: [['id', 'ASC']], transaction, ...(transaction ? { lock: transaction.LOCK.SHARE } : {}) });
   if (!w?.paymentAccountId || w.paymentAccountState !== 'ready') throw cardPaymentsNotSetUp();
   return w.paymentAccountId;
 }

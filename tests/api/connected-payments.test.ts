@@ -229,6 +229,90 @@ describe('deposits on the workshop’s own account', () => {
   });
 });
 
+describe('disconnecting an account and connecting another', () => {
+  const payment = (s: Shop, sessionId: string) => runAsWorkshop(s.w.id, () => Payment.findOne({ where: { providerSessionId: sessionId } }));
+  /** The customer pays at the provider; its notice (the event `eventId`, see completedEvent) has not reached the app yet. */
+  const paidSilently = (sessionId: string, eventId: string, amount?: number) => {
+    const session = services.payments!.sessions.get(sessionId)!;
+    Object.assign(session, { status: 'complete', payment_status: 'paid', payment_intent: `pi_test_${eventId}` }, amount === undefined ? {} : { amount_total: amount });
+  };
+
+  it('names the account, is the owner’s only, closes the open checkouts and leaves payments taken on it counted and refundable', async () => {
+    const c = await shop('Elderwick Finishing Rooms');
+    const former = await connect(c);
+    const disconnect = (s: Session, body: object) => post(s, '/api/settings/card-payments/disconnect', body);
+
+    // Three agreements on the account: one paid (its notice not yet in), one paid with the wrong amount, one open.
+    const [paidToken, wrongToken, openToken] = [await acceptedQuote(c), await acceptedQuote(c), await acceptedQuote(c)];
+    const [paidSession, wrongSession, openSession] = [await depositCheckout(paidToken), await depositCheckout(wrongToken), await depositCheckout(openToken)];
+    paidSilently(wrongSession, `evt_wrong_${wrongSession}`, 1);
+    expect((await signed(completedEvent(`evt_wrong_${wrongSession}`, former, wrongSession))).body).toMatchObject({ handled: true, flag: 'amount-mismatch' });
+    paidSilently(paidSession, `evt_paid_${paidSession}`);
+
+    // Refusals change nothing: no account named, another account named, a role that does not keep the settings.
+    const missing = await disconnect(c.owner, {}).expect(400);
+    expect(missing.body.field).toBe('accountId');
+    expect((await disconnect(c.owner, { accountId: 'acct_someone_else' }).expect(409)).body.code).toBe('payments_account_changed');
+    await disconnect(c.sales, { accountId: former }).expect(403);
+    // A customer has paid and the notice is on its way: the owner is told to wait, and nothing is closed.
+    const busy = await disconnect(c.owner, { accountId: former }).expect(409);
+    expect(busy.body.code).toBe('payment_in_progress');
+    expect(busy.body.detail).toMatch(/just paid by card on quote Q-/);
+    expect(services.payments!.sessions.get(openSession)!.status).toBe('open');
+    expect((await c.owner.agent.get('/api/settings/card-payments').expect(200)).body).toMatchObject({ state: 'ready', accountId: former });
+
+    // The notice arrives and counts; now the account can go.
+    expect((await signed(completedEvent(`evt_paid_${paidSession}`, former, paidSession))).body).toEqual({ handled: true });
+    expect(await stateOf(paidToken)).toBe('deposit-paid');
+    const done = await disconnect(c.owner, { accountId: former }).expect(200);
+    expect(done.body).toMatchObject({ state: 'none', accountId: null });
+    expect(services.payments!.sessions.get(openSession)!.status).toBe('expired');
+    expect((await payment(c, openSession))!.status).toBe('cancelled');
+    expect((await disconnect(c.owner, { accountId: former }).expect(409)).body.code).toBe('payments_not_connected');
+
+    // Customers are asked to pay another way.
+    expect((await request(app).get(pub(openToken)).expect(200)).body.checkout.available).toBe(false);
+    expect((await request(app).post(pub(openToken, '/deposit')).send({}).expect(409)).body.code).toBe('payments_not_set_up');
+
+    // A late repeat of the paid checkout's notice from the former account is still this workshop's, and counts once.
+    expect((await signed(completedEvent(`evt_paid_again_${paidSession}`, former, paidSession))).body).toEqual({ handled: true });
+    const paidRow = (await payment(c, paidSession))!;
+    expect(await runAsWorkshop(c.w.id, () => AccountEntry.count({ where: { quoteId: paidRow.quoteId } }))).toBe(1);
+    // The payment of the wrong amount is refunded on the account that took it.
+    const wrong = (await payment(c, wrongSession))!;
+    const refunded = await post(c.owner, `/api/payments/${wrong.id}/refund`).expect(200);
+    expect(refunded.body.status).toBe('refunded');
+    expect([...services.payments!.refunds.values()].some((r) => r.payment_intent === `pi_test_evt_wrong_${wrongSession}`)).toBe(true);
+
+    // Connecting again makes a new account, on which the open agreement's deposit is then taken.
+    const next = await connect(c);
+    expect(next).not.toBe(former);
+    const again = await depositCheckout(openToken);
+    expect(services.payments!.sessions.get(again)!.account).toBe(next);
+    await services.payments!.pay(again);
+    expect(await stateOf(openToken)).toBe('deposit-paid');
+  });
+
+  it('a checkout opened while the account is being disconnected is closed with the rest, or refused after it (parallel)', async () => {
+    const d = await shop('Fellgate Polishers');
+    const former = await connect(d);
+    const tokens = await Promise.all(Array.from({ length: 6 }, () => acceptedQuote(d)));
+    const answers = await Promise.all([
+      ...tokens.map((t) => request(app).post(pub(t, '/deposit')).send({})),
+      post(d.owner, '/api/settings/card-payments/disconnect', { accountId: former }),
+    ]);
+    expect(answers.at(-1)!.status).toBe(200);
+    for (const r of answers.slice(0, -1)) expect([200, 409]).toContain(r.status);
+    // Whatever the order, no checkout is left open on the former account, here or at the provider.
+    const rows = await runAsWorkshop(d.w.id, () => Payment.findAll());
+    expect(rows.filter((p) => p.status === 'pending')).toEqual([]);
+    for (const p of rows) {
+      expect(p.providerAccountId).toBe(former);
+      expect(services.payments!.sessions.get(p.providerSessionId)!.status).toBe('expired');
+    }
+  });
+});
+
 describe('the stand-in across a restart', () => {
   it('keeps its accounts and checkouts in its state file, on the same port when it is free', async () => {
     const dir = fs.mkdtempSync(path.join(os.tmpdir(), 'shellwright-payments-'));

@@ -32,3 +32,14 @@ export function useRefreshCardPayments() {
     onSuccess: (data) => qc.setQueryData(cardPaymentKeys.all, data),
   });
 }
+
+/** Closes the checkouts still open on the account and leaves the workshop without one (to connect another). */
+export function useDisconnectCardPayments() {
+  const qc = useQueryClient();
+  return useMutation({
+    mutationFn: (accountId: string) => api<CardPayments>('/api/settings/card-payments/disconnect', { method: 'POST', body: { accountId } }),
+    onSuccess: (data) => qc.setQueryData(cardPaymentKeys.all, data),
+    // A 409 (another account connected meanwhile, or a payment being recorded): show what is true now.
+    onError: () => qc.invalidateQueries({ queryKey: cardPaymentKeys.all }),
+  });
+}

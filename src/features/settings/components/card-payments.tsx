@@ -1,12 +1,13 @@
-import { CreditCard, ExternalLink, RefreshCw } from 'lucide-react';
-import { useEffect, useRef } from 'react';
+import { CreditCard, ExternalLink, RefreshCw, Unlink } from 'lucide-react';
+import { useEffect, useRef, useState } from 'react';
 import { useSearchParams } from 'react-router-dom';
 import { CARD_PAYMENT_STATE_LABELS, CARD_PAYMENTS_RETURN } from '@shared/schemas/card-payments';
 import { Alert } from '@/components/alert';
 import { Button } from '@/components/button';
 import { Card } from '@/components/card';
+import { Dialog } from '@/components/dialog';
 import { Spinner } from '@/components/spinner';
-import { useCardPayments, useConnectCardPayments, useRefreshCardPayments } from '../api/card-payments';
+import { useCardPayments, useConnectCardPayments, useDisconnectCardPayments, useRefreshCardPayments } from '../api/card-payments';
 
 /**
  * The workshop's own account with the payment provider: deposits and balances paid by card go into it. The owner
@@ -16,6 +17,8 @@ export function CardPaymentsCard() {
   const status = useCardPayments();
   const connect = useConnectCardPayments();
   const refresh = useRefreshCardPayments();
+  const disconnect = useDisconnectCardPayments();
+  const [confirming, setConfirming] = useState(false);
   const [params, setParams] = useSearchParams();
   const returned = params.get(CARD_PAYMENTS_RETURN);
   const asked = useRef(false);
@@ -31,7 +34,7 @@ export function CardPaymentsCard() {
   }, [returned, refresh, params, setParams]);
 
   const s = status.data;
-  const shown = refresh.data ?? s;
+  const shown = disconnect.data ?? refresh.data ?? s;
   const start = () => connect.mutate(undefined, { onSuccess: ({ url }) => window.location.assign(url) });
   return (
     <Card
@@ -58,6 +61,12 @@ export function CardPaymentsCard() {
           {shown.state === 'onboarding' && <Alert tone="info" title="Set-up not finished">Customers cannot pay by card until the provider&rsquo;s set-up is finished.</Alert>}
           {shown.state === 'none' && <Alert tone="info" title="Not connected">Customers cannot pay by card yet: their quote page asks them to pay another way.</Alert>}
           {(connect.error ?? refresh.error) && <Alert tone="error" title="The payment provider did not answer">{(connect.error ?? refresh.error)!.message}</Alert>}
+          {disconnect.error && <Alert tone="error" title="The account was not disconnected">{disconnect.error.message}</Alert>}
+          {disconnect.isSuccess && shown.state === 'none' && (
+            <Alert tone="info" title="Card payments disconnected">
+              Card payments taken before stay recorded, and any refund of them still goes to the account that took them. Connect an account again when you are ready.
+            </Alert>
+          )}
           <div className="flex flex-wrap gap-2">
             {shown.state !== 'ready' && shown.configured && (
               <Button onClick={start} busy={connect.isPending}>
@@ -69,9 +78,35 @@ export function CardPaymentsCard() {
                 <RefreshCw className="h-4 w-4" aria-hidden /> Check the state again
               </Button>
             )}
+            {shown.accountId && (
+              <Button variant="ghost" onClick={() => setConfirming(true)}>
+                <Unlink className="h-4 w-4" aria-hidden /> Disconnect this account
+              </Button>
+            )}
           </div>
         </div>
       )}
+      <Dialog title="Disconnect card payments?" open={confirming && Boolean(shown?.accountId)} onClose={() => setConfirming(false)}>
+        <div className="space-y-3 text-sm text-walnut-800">
+          <p>
+            Customers will not be able to pay by card until an account is connected again: their quote pages will ask them to pay another way. Any card payment page a
+            customer has open now is closed.
+          </p>
+          <p>Payments already taken stay recorded, and refunds of them still go to the account that took them. You can connect this account or another one afterwards.</p>
+          <div className="flex flex-wrap justify-end gap-2 pt-1">
+            <Button variant="secondary" onClick={() => setConfirming(false)}>
+              Keep it connected
+            </Button>
+            <Button
+              variant="danger"
+              busy={disconnect.isPending}
+              onClick={() => shown?.accountId && disconnect.mutate(shown.accountId, { onSettled: () => setConfirming(false) })}
+            >
+              <Unlink className="h-4 w-4" aria-hidden /> Disconnect
+            </Button>
+          </div>
+        </div>
+      </Dialog>
     </Card>
   );
 }
