@@ -14,8 +14,12 @@
  * Whenever anything is not as expected (a part not remembered or changed, the rest of the input has a problem, an
  * object that is not plain data) the whole input goes through zod as before, so every problem is reported exactly
  * as zod reports it.
+ *
+ * An input without a parts list (a template piece) is remembered whole, under the same rule: see parseWithoutParts.
  */
 import { EstimateInputSchema, MAX_PARTS } from '../schemas/calc';
+import { DATE_RULES } from '../schemas/dates';
+import type { DateRule } from '../schemas/dates';
 import type { EstimateInput, ParsedEstimateInput, Part } from '../schemas/calc';
 
 interface Remembered {
@@ -174,7 +178,7 @@ function recall(list: unknown[], unit: string): Recalled | null {
  */
 export function parseEstimateInput(raw: EstimateInput): ParsedEstimateInput {
   const where = partsListOf(raw);
-  if (!where) return parseWhole(raw, null);
+  if (!where) return parseWithoutParts(raw);
   const given = (raw as Record<string, unknown>).defaultLengthUnit;
   // The unit the input will have (checked below against zod's output).
   const unit = typeof given === 'string' ? given : 'mm';
@@ -213,4 +217,33 @@ function parseWhole(raw: EstimateInput, where: { list: unknown[]; inPiece: boole
     if (seen && parsed && parsed.length === where.list.length) remember(where.list, parsed, out.defaultLengthUnit);
   }
   return out;
+}
+
+/**
+ * An input without a parts list (a template piece) remembered whole by its object: a deep copy of it as it was
+ * (its snapshot) and zod's output for it. The editor passes the same input object while nothing in it changes, and
+ * zod's check of it was about a tenth of an estimate of the default grand.
+ *
+ * Why the output is the same: zod's output for an input depends only on its data, and the input is taken from
+ * memory only while it is still equal to its snapshot (a field changed in place sends it to zod again). The one
+ * part of the check that could read the clock is the start date's bounds: while they are fixed dates (as they are),
+ * the check reads nothing but the data; were they ever made relative to today, nothing is remembered.
+ *
+ * What is remembered is zod's output, which the engine only reads (it is never handed to a caller).
+ */
+const rememberedInputs = new WeakMap<object, { snapshot: unknown; parsed: ParsedEstimateInput }>();
+
+const fixedBound = (b: DateRule['min']): boolean => b === undefined || typeof b === 'string';
+const START_RULE: DateRule = DATE_RULES.calcStart;
+const INPUT_CHECK_IS_PURE = fixedBound(START_RULE.min) && fixedBound(START_RULE.max);
+
+function parseWithoutParts(raw: EstimateInput): ParsedEstimateInput {
+  if (!INPUT_CHECK_IS_PURE || !isPlainObject(raw)) return parseWhole(raw, null);
+  const known = rememberedInputs.get(raw);
+  if (known && sameData(raw, known.snapshot)) return known.parsed;
+  const parsed = parseWhole(raw, null);
+  const snapshot = snapshotOf(raw);
+  if (snapshot !== NOT_PLAIN) rememberedInputs.set(raw, { snapshot, parsed });
+  else rememberedInputs.delete(raw);
+  return parsed;
 }

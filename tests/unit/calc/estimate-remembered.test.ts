@@ -1,7 +1,8 @@
 /**
  * What estimate() remembers between calls (parts checked by their object, parts resolved and measured, a template's
  * parts by its dimensions) never changes a result: estimates made call after call over one pool of part objects,
- * in different orders and units, with parts changed in place and templates at dimensions seen before, are the same,
+ * in different orders and units, with parts changed in place, templates at dimensions seen before and one template
+ * input object changed in place between calls, are the same,
  * byte for byte, as the estimate of a fresh copy of the input made with nothing remembered (fast-check).
  */
 import { describe, expect, it, vi } from 'vitest';
@@ -83,6 +84,45 @@ describe('what estimate() remembers between calls', () => {
           const first = outcome(input);
           const again = outcome(input);
           expect(again).toBe(first);
+          expect(fresh(input)).toBe(first);
+        }
+      }),
+      { numRuns: 60 },
+    );
+  });
+
+  it('never changes the result of a template input passed again as the same object, changed in place between calls', () => {
+    // Each round sets some fields in place on one input object (good values and bad), then estimates it twice.
+    const edit = fc.oneof(
+      fc.record({ field: fc.constant('length'), value: grandLength }),
+      fc.record({ field: fc.constant('species'), value: fc.constantFrom<unknown>(undefined, 'walnut', 'unknown-wood') }),
+      fc.record({ field: fc.constant('veneered'), value: fc.constantFrom<unknown>(undefined, true, false) }),
+      fc.record({ field: fc.constant('system'), value: fc.constantFrom<unknown>(...DEMO_CATALOG.systems.map((s) => s.key), 'no-such-system') }),
+      fc.record({ field: fc.constant('startDate'), value: fc.constantFrom<unknown>(undefined, '2025-03-03', '2025-12-24T16:30', '2025-02-30') }),
+      fc.record({ field: fc.constant('humidityPct'), value: fc.constantFrom<unknown>(undefined, 35, 85) }),
+      fc.record({ field: fc.constant('discountPct'), value: fc.constantFrom<unknown>(undefined, 5, 60) }),
+      fc.record({ field: fc.constant('unit'), value: fc.constantFrom<unknown>(undefined, 'mm', 'in', 'cm') }),
+      fc.record({ field: fc.constant('units'), value: fc.constantFrom<unknown>(undefined, 'imperial') }),
+    );
+    fc.assert(
+      fc.property(fc.array(fc.array(edit, { maxLength: 3 }), { minLength: 1, maxLength: 6 }), (rounds) => {
+        const dimensions: Record<string, unknown> = { length: '6 ft 3 in' };
+        const piece: Record<string, unknown> = { template: 'grand', dimensions };
+        const input: Record<string, unknown> = { piece, system: 'full-repolish' };
+        const set = (on: Record<string, unknown>, key: string, value: unknown): void => {
+          if (value === undefined) delete on[key];
+          else on[key] = value;
+        };
+        for (const edits of rounds) {
+          for (const { field, value } of edits) {
+            if (field === 'length') set(dimensions, 'length', value);
+            else if (field === 'species' || field === 'veneered') set(piece, field, value);
+            else if (field === 'humidityPct') set(input, 'climate', value === undefined ? undefined : { temperatureC: 15, humidityPct: value });
+            else if (field === 'unit') set(input, 'defaultLengthUnit', value);
+            else set(input, field, value);
+          }
+          const first = outcome(input);
+          expect(outcome(input)).toBe(first);
           expect(fresh(input)).toBe(first);
         }
       }),

@@ -3,7 +3,8 @@
  * output, key for key and in the same order, and for bad input the same issues (codes, paths, messages). Checked by
  * fast-check over inputs built again and again from one pool of part objects (so parts are remembered), with parts
  * changed in place between calls, bad parts, bad fields beside good parts, both places a parts list may be, and
- * every default length unit.
+ * every default length unit; and for a template input (no parts list, remembered whole) passed again as the same
+ * object with its fields changed in place, good and bad.
  */
 import { describe, expect, it } from 'vitest';
 import fc from 'fast-check';
@@ -126,6 +127,61 @@ describe('parseEstimateInput', () => {
     expectSame({ ...input, defaultLengthUnit: 'm' });
     expectSame({ ...input, defaultLengthUnit: 'mm' });
     lid.shape.length = '600 furlongs';
+    expectSame(input);
+  });
+
+  it('gives what EstimateInputSchema.parse gives for a template input passed again as the same object, changed in place or not', () => {
+    // Fields of an input without a parts list, good and bad, set in place on one input object between calls.
+    const edit = fc.oneof(
+      fc.record({ path: fc.constant(['piece', 'dimensions', 'length']), value: length }),
+      fc.record({ path: fc.constant(['piece', 'dimensions', 'width']), value: fc.constantFrom<unknown>(undefined, 1400, '4 ft 10 in', 'wide') }),
+      fc.record({ path: fc.constant(['piece', 'dimensions', 'height']), value: fc.constantFrom<unknown>(undefined, 300) }),
+      fc.record({ path: fc.constant(['piece', 'template']), value: fc.constantFrom<unknown>('grand', 'upright', 'table', 'harp') }),
+      fc.record({ path: fc.constant(['piece', 'species']), value: fc.constantFrom<unknown>(undefined, 'walnut', 7) }),
+      fc.record({ path: fc.constant(['piece', 'veneered']), value: fc.constantFrom<unknown>(undefined, true, 'yes') }),
+      fc.record({ path: fc.constant(['startDate']), value: fc.constantFrom<unknown>(undefined, '2025-03-03', '2025-03-03T08:30', '2025-02-30', '1999-12-31') }),
+      fc.record({ path: fc.constant(['climate']), value: fc.constantFrom<unknown>(undefined, { temperatureC: 12, humidityPct: 80 }, { temperatureC: 99, humidityPct: 50 }) }),
+      fc.record({ path: fc.constant(['climate', 'humidityPct']), value: fc.constantFrom<unknown>(40, -1) }),
+      fc.record({ path: fc.constant(['discountPct']), value: fc.constantFrom<unknown>(undefined, 0, 15, 101, '5', -0) }),
+      fc.record({ path: fc.constant(['defaultLengthUnit']), value: fc.constantFrom<unknown>(undefined, ...LENGTH_UNITS, 'furlong') }),
+      fc.record({ path: fc.constant(['units']), value: fc.constantFrom<unknown>(undefined, 'imperial', 'cubits') }),
+      fc.record({ path: fc.constant(['system']), value: fc.constantFrom<unknown>(undefined, 're-body', 'No System') }),
+    );
+    fc.assert(
+      fc.property(fc.array(fc.array(edit, { maxLength: 3 }), { minLength: 1, maxLength: 8 }), fc.boolean(), (rounds, nullProto) => {
+        const input: Record<string, unknown> = { piece: { template: 'grand', dimensions: { length: '6 ft 3 in' } }, system: 'full-repolish' };
+        const target = nullProto ? Object.assign(Object.create(null) as Record<string, unknown>, input) : input;
+        for (const edits of rounds) {
+          for (const { path, value } of edits) {
+            let at: Record<string, unknown> = target;
+            for (const key of path.slice(0, -1)) {
+              const next = at[key];
+              if (typeof next !== 'object' || next === null) at[key] = {};
+              at = at[key] as Record<string, unknown>;
+            }
+            const last = path[path.length - 1] as string;
+            if (value === undefined) delete at[last];
+            else at[last] = typeof value === 'object' && value !== null ? { ...value } : value;
+          }
+          expectSame(target);
+          expectSame(target);
+        }
+      }),
+      { numRuns: 300 },
+    );
+  });
+
+  it('checks a remembered template input again once it changed in place', () => {
+    const input = { piece: { template: 'grand', dimensions: { length: '6 ft 3 in' as unknown } }, startDate: '2025-03-03' as unknown };
+    expectSame(input);
+    expectSame(input);
+    input.piece.dimensions.length = 'tall';
+    expectSame(input);
+    input.piece.dimensions.length = 1900;
+    expectSame(input);
+    input.startDate = '2025-02-30';
+    expectSame(input);
+    input.startDate = '2025-03-03';
     expectSame(input);
   });
 
