@@ -1,9 +1,9 @@
 /**
- * Timing of the estimator engine: median and p90 of estimate() for the default grand and for a 200-part piece
- * (the grand also as a new input object each call, as after a keystroke or on the server, where its check runs
- * again; the 200-part piece called again with the same part objects, as the editor does for parts that did not change, and with every part
- * a new object), and of the coat calendar for a 60-session schedule, the engine's beside their targets. Figures only,
- * no pass/fail.
+ * Timing of the estimator engine: median and p90 of estimate() for the default grand (the same input object each
+ * call, as the editor passes an unchanged input, and a new object each call, as after a keystroke or on the server,
+ * where the input is checked again) and for a 200-part piece (called again with the same part objects, as the editor
+ * does for parts that did not change, and with every part a new object), and of the coat calendar for a 60-session
+ * schedule, the engine's beside their targets. Figures only, no pass/fail.
  * Run: node --import tsx tests/bench/calc.bench.ts
  */
 import { estimate } from '../../shared/calc';
