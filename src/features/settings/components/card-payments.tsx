@@ -59,12 +59,13 @@ export function CardPaymentsCard() {
           {!shown.configured && <Alert tone="warning" title="No payment provider is configured">Card payments need the provider&rsquo;s keys in this installation&rsquo;s settings.</Alert>}
           {returned === 'again' && shown.state !== 'ready' && <Alert tone="warning" title="The set-up link ran out">Open the set-up again to carry on where you left off.</Alert>}
           {shown.state === 'onboarding' && <Alert tone="info" title="Set-up not finished">Customers cannot pay by card until the provider&rsquo;s set-up is finished.</Alert>}
-          {shown.state === 'none' && <Alert tone="info" title="Not connected">Customers cannot pay by card yet: their quote page asks them to pay another way.</Alert>}
+          {shown.state === 'none' && !disconnect.isSuccess && <Alert tone="info" title="Not connected">Customers cannot pay by card yet: their quote page asks them to pay another way.</Alert>}
           {(connect.error ?? refresh.error) && <Alert tone="error" title="The payment provider did not answer">{(connect.error ?? refresh.error)!.message}</Alert>}
           {disconnect.error && <Alert tone="error" title="The account was not disconnected">{disconnect.error.message}</Alert>}
           {disconnect.isSuccess && shown.state === 'none' && (
             <Alert tone="info" title="Card payments disconnected">
-              Card payments taken before stay recorded, and any refund of them still goes to the account that took them. Connect an account again when you are ready.
+              Customers cannot pay by card until an account is connected again: their quote pages ask them to pay another way. Card payments taken before stay
+              recorded, and any refund of them still goes to the account that took them.
             </Alert>
           )}
           <div className="flex flex-wrap gap-2">
