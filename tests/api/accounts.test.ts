@@ -22,6 +22,7 @@ import { currentWorkshop } from '../../server/services/workshops';
 import { balanceOf, taxSplit } from '../../server/services/accounts';
 import { createSequelize } from '../../server/db/sequelize';
 import { closeTestApp, getTestApp, signInAs, startServices, testDatabaseUrl, type Session } from '../helpers/app';
+import { today as workshopToday } from '../../shared/time';
 
 const { app, config, sequelize } = getTestApp();
 /** The owning role: only it may switch a table's trigger off (the app's role owns no table). */
@@ -142,13 +143,13 @@ describe('the deposit receipt, payments by hand, the tax invoice, credit notes a
     expect(receiptText).toMatch(/flammable/);
 
     // Cash 400.00 by hand: 525.92 left; its receipt's VAT is 400 / 6 = 66.666… → 66.67.
-    const cash = await post(sales, `/api/accounts/quotes/${q.id}/payments`, { method: 'cash', amount: '400.00', receivedOn: new Date().toISOString().slice(0, 10), reference: 'Till slip 0042' }).expect(201);
+    const cash = await post(sales, `/api/accounts/quotes/${q.id}/payments`, { method: 'cash', amount: '400.00', receivedOn: workshopToday(), reference: 'Till slip 0042' }).expect(201);
     a = cash.body;
     expect(a.figures.balance).toBe('525.92');
     expect(a.documents.filter((d) => d.kind === 'receipt').at(-1)).toMatchObject({ total: '400.00', tax: '66.67', net: '333.33', balanceDue: '525.92' });
 
     // One penny more than is owed is refused, naming the amount; nothing is written.
-    const over = await post(sales, `/api/accounts/quotes/${q.id}/payments`, { method: 'bank-transfer', amount: '525.93', receivedOn: new Date().toISOString().slice(0, 10) });
+    const over = await post(sales, `/api/accounts/quotes/${q.id}/payments`, { method: 'bank-transfer', amount: '525.93', receivedOn: workshopToday() });
     expect(over.status).toBe(400);
     expect(problem(over)).toMatchObject({ code: 'overpayment', field: 'amount' });
     expect(problem(over).detail).toContain('£525.92');
@@ -253,7 +254,7 @@ describe('the deposit receipt, payments by hand, the tax invoice, credit notes a
 
   it('bad input is a 400 naming the field; other roles are refused', async () => {
     const q = await agreement('300.00', 20);
-    const today = new Date().toISOString().slice(0, 10);
+    const today = workshopToday();
     const cases: [object, string][] = [
       [{ method: 'card', amount: '10.00', receivedOn: today }, 'method'],
       [{ method: 'cash', amount: '10.001', receivedOn: today }, 'amount'],
@@ -280,7 +281,7 @@ describe('numbers and webhooks under parallel requests', () => {
     const maxSeq = async (kind: string) => Number((await AccountDocument.max<number, AccountDocument>('seq', { where: { kind } })) ?? 0);
     const invBefore = await maxSeq('invoice');
     const rcBefore = await maxSeq('receipt');
-    const today = new Date().toISOString().slice(0, 10);
+    const today = workshopToday();
     // Two invoice requests for each agreement (one must fail and roll back its number), and on the first agreement
     // eight payments of 150.00 against 500.00 owed (three fit; the rest are refused and roll back).
     const results = await Promise.all([
@@ -343,7 +344,7 @@ describe('numbers and webhooks under parallel requests', () => {
     const checkout = await request(app).post(pub(q.token, '/balance')).send({}).expect(200);
     const sessionId = String(checkout.body.url).split('/checkout/')[1]!;
     // The customer pays while staff record a cheque for the same balance: the provider took the money anyway.
-    await post(sales, `/api/accounts/quotes/${q.id}/payments`, { method: 'cheque', amount: '200.00', receivedOn: new Date().toISOString().slice(0, 10) }).expect(201);
+    await post(sales, `/api/accounts/quotes/${q.id}/payments`, { method: 'cheque', amount: '200.00', receivedOn: workshopToday() }).expect(201);
     await services.payments!.pay(sessionId, { force: true });
     const payment = (await Payment.findOne({ where: { providerSessionId: sessionId } }))!;
     expect(payment.flag).toBe('duplicate');
@@ -398,7 +399,7 @@ describe('what customers owe, by age', () => {
     const bad = await sales.agent.get('/api/accounts/owed').query({ sort: 'margin' });
     expect(problem(bad)).toMatchObject({ status: 400, field: 'sort' });
     // Paid off: it leaves the list.
-    await post(sales, `/api/accounts/quotes/${made[0]!.id}/payments`, { method: 'cash', amount: '120.00', receivedOn: new Date().toISOString().slice(0, 10) }).expect(201);
+    await post(sales, `/api/accounts/quotes/${made[0]!.id}/payments`, { method: 'cash', amount: '120.00', receivedOn: workshopToday() }).expect(201);
     const after = (await sales.agent.get('/api/accounts/owed').query({ bucket: '0-30', pageSize: 100 }).expect(200)).body as OwedPage;
     expect(after.rows.some((r) => r.quoteId === made[0]!.id)).toBe(false);
   });
@@ -420,7 +421,7 @@ describe('the balance rule', () => {
   });
 
   it('after any sequence of payments and credit notes, balance = agreed total − credited − paid + refunded and never below zero', async () => {
-    const today = new Date().toISOString().slice(0, 10);
+    const today = workshopToday();
     const op = fc.oneof(
       fc.record({ kind: fc.constant('pay' as const), cents: fc.integer({ min: 1, max: 60_000 }), method: fc.constantFrom('cash', 'cheque', 'bank-transfer') }),
       fc.record({ kind: fc.constant('credit' as const), cents: fc.integer({ min: 1, max: 40_000 }), refund: fc.boolean() }),

@@ -12,6 +12,7 @@ import { afterAll, beforeAll, describe, expect, it } from 'vitest';
 import type { CustomerMessagesPage } from '../../shared/schemas/messages';
 import { OutboxMessage } from '../../server/models';
 import { closeTestApp, getTestApp, signInAs, startServices, type Session } from '../helpers/app';
+import { today as workshopToday } from '../../shared/time';
 
 const { app, config, queue: appQueue } = getTestApp();
 let services: Awaited<ReturnType<typeof startServices>>;
@@ -26,7 +27,7 @@ const post = (s: Session, url: string, body: object) => s.agent.post(url).set('x
 const put = (s: Session, url: string, body: object) => s.agent.put(url).set('x-csrf-token', s.csrf).send(body);
 /** Waits for a condition, polling; the bound is generous (a busy shared machine), never a fixed sleep. */
 const until = <T>(fn: () => Promise<T> | T) => expect.poll(fn, { timeout: 60_000, interval: 200 });
-const today = () => new Date().toISOString().slice(0, 10);
+const today = () => workshopToday();
 
 beforeAll(async () => {
   server = http.createServer(app);

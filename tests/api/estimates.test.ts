@@ -2,6 +2,7 @@ import sharp from 'sharp';
 import { afterAll, beforeAll, describe, expect, it } from 'vitest';
 import { EstimateRevision } from '../../server/models';
 import { closeTestApp, getTestApp, signInAs, type Session } from '../helpers/app';
+import { today as workshopToday } from '../../shared/time';
 
 const { app, sequelize } = getTestApp();
 afterAll(closeTestApp);
@@ -291,7 +292,7 @@ describe('repricing when nothing changed', () => {
     const unused = (materials.body.rows as { key: string; packs: { id: number; price: string | null }[] }[]).find((m) => !used.includes(`"${m.key}"`) && m.packs[0]?.price);
     expect(unused, 'a demo material the grand does not use').toBeDefined();
     const pack = unused!.packs[0]!;
-    const moved = await post(owner, `/api/price-list/packs/${pack.id}/prices`, { price: (Number(pack.price) + 1.37).toFixed(2), effectiveFrom: new Date().toISOString().slice(0, 10) }).expect(201);
+    const moved = await post(owner, `/api/price-list/packs/${pack.id}/prices`, { price: (Number(pack.price) + 1.37).toFixed(2), effectiveFrom: workshopToday() }).expect(201);
     expect(moved.body.catalogVersion.changed).toBe(true);
     const candidates = await owner.agent.get('/api/estimates/reprice').expect(200);
     expect(candidates.body.rows.map((r: { id: number }) => r.id)).not.toContain(id);

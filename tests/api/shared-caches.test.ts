@@ -13,6 +13,7 @@ import { loadConfig } from '../../server/config';
 import { createAppSequelize } from '../../server/db/sequelize';
 import type { Invalidation, SharedCaches } from '../../server/services/shared-caches';
 import { demoWorkshopFallback, signIn, signInAs, testAppDatabaseUrl, testDatabaseUrl, type Session } from '../helpers/app';
+import { today as workshopToday } from '../../shared/time';
 
 // As the app connects: the app role, bound by row-level security, in the demo workshop outside a request.
 const url = testAppDatabaseUrl();
@@ -198,7 +199,7 @@ describe('the catalog cached per instance, dropped on every instance', () => {
       "SELECT p.id FROM material_packs p JOIN materials m ON m.id = p.material_id WHERE m.key = 'shellac-flakes' AND NOT p.archived ORDER BY p.size LIMIT 1",
       { type: QueryTypes.SELECT },
     );
-    const today = new Date().toISOString().slice(0, 10);
+    const today = workshopToday();
     const heard = invalidated(b.caches, (c) => c.kind === 'catalog');
     const res = await ownerOnA.agent.post(`/api/price-list/packs/${pack!.id}/prices`).set('x-csrf-token', ownerOnA.csrf).send({ price: '987.65', effectiveFrom: today });
     expect(res.status).toBe(201);
