@@ -252,6 +252,7 @@ function VirtualRows({ count, keyAt, row }: { count: number; keyAt: (i: number) 
     if (!el) return;
     const measure = () => setScrollMargin(Math.round(el.getBoundingClientRect().top + window.scrollY));
     measure();
+    if (typeof ResizeObserver === 'undefined') return;
     const observer = new ResizeObserver(measure);
     observer.observe(document.body);
     return () => observer.disconnect();
