@@ -3,7 +3,7 @@
  * a closed tab or a flat battery: written on every change once the user has changed something, offered again on
  * return, and cleared when the work is saved to the server or discarded.
  */
-import { useCallback, useEffect, useMemo, useState, useSyncExternalStore } from 'react';
+import { useCallback, useDeferredValue, useEffect, useMemo, useState, useSyncExternalStore } from 'react';
 
 const PREFIX = 'shellwright:draft:';
 
@@ -33,27 +33,37 @@ export function clearBrowserDraft(key: string): void {
 }
 
 /**
- * Keeps `value` under `key` whenever it differs from `initial`. Returns the draft found on arrival (if it differs
- * from what the page starts with), and `dismiss` to stop offering it.
+ * The draft kept under `key` on arrival (if it differs from what the page starts with), and `dismiss` to stop
+ * offering it. What is typed is kept by a `BrowserDraftKeeper` beside the form.
  */
-export function useBrowserDraft<T>(key: string | undefined, value: T, initial: T) {
+export function useBrowserDraft<T>(key: string | undefined, initial: T) {
   const [found, setFound] = useState<StoredDraft<T> | null>(() => {
     if (!key) return null;
     const stored = read<T>(key);
     return stored && JSON.stringify(stored.value) !== JSON.stringify(initial) ? stored : null;
   });
-  // Worked out once per value, not on every render of the form (a long form re-renders on every keystroke).
-  const changed = useMemo(() => JSON.stringify(value) !== JSON.stringify(initial), [value, initial]);
+  const dismiss = useCallback(() => setFound(null), []);
+  return { found, dismiss };
+}
+
+/**
+ * Keeps `value` under `key` whenever it differs from `initial`. It follows the typing a frame behind, on a deferred
+ * value: writing a long form to storage (and comparing it) is not part of a keystroke's frame. Renders nothing.
+ */
+export function BrowserDraftKeeper<T>({ draftKey, value, initial }: { draftKey: string | undefined; value: T; initial: T }): null {
+  const latest = useDeferredValue(value);
+  const initialText = useMemo(() => JSON.stringify(initial), [initial]);
   useEffect(() => {
-    if (!key || !changed) return;
+    if (!draftKey) return;
+    const text = JSON.stringify(latest);
+    if (text === initialText) return;
     try {
-      window.localStorage.setItem(PREFIX + key, JSON.stringify({ savedAt: new Date().toISOString(), value } satisfies StoredDraft<T>));
+      window.localStorage.setItem(PREFIX + draftKey, `{"savedAt":${JSON.stringify(new Date().toISOString())},"value":${text}}`);
     } catch {
       // A full or disabled storage only loses the safety net, never the form.
     }
-  }, [key, value, changed]);
-  const dismiss = useCallback(() => setFound(null), []);
-  return { found, dismiss };
+  }, [draftKey, latest, initialText]);
+  return null;
 }
 
 function subscribe(onChange: () => void): () => void {

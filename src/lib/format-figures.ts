@@ -18,19 +18,25 @@ function toDate(text: string): Date {
   return /^\d{4}-\d{2}-\d{2}$/.test(text) ? new Date(`${text}T00:00:00`) : new Date(text);
 }
 
+// Made once: each toLocale…String call with options builds a new formatter, about half a millisecond, and the live
+// figures show dates on every keystroke. The same locale and options, so the same words.
+const DATE = new Intl.DateTimeFormat('en-GB', { day: 'numeric', month: 'short', year: 'numeric' });
+const DATE_TIME = new Intl.DateTimeFormat('en-GB', { weekday: 'short', day: 'numeric', month: 'short', hour: '2-digit', minute: '2-digit' });
+const WHEN = new Intl.DateTimeFormat('en-GB', { dateStyle: 'medium', timeStyle: 'short' });
+
 export function formatDate(text: string): string {
   const d = toDate(text);
-  return Number.isNaN(d.getTime()) ? text : d.toLocaleDateString('en-GB', { day: 'numeric', month: 'short', year: 'numeric' });
+  return Number.isNaN(d.getTime()) ? text : DATE.format(d);
 }
 
 export function formatDateTime(text: string): string {
   const d = toDate(text);
-  return Number.isNaN(d.getTime()) ? text : d.toLocaleString('en-GB', { weekday: 'short', day: 'numeric', month: 'short', hour: '2-digit', minute: '2-digit' });
+  return Number.isNaN(d.getTime()) ? text : DATE_TIME.format(d);
 }
 
 export function formatWhen(text: string): string {
   const d = toDate(text);
-  return Number.isNaN(d.getTime()) ? text : d.toLocaleString('en-GB', { dateStyle: 'medium', timeStyle: 'short' });
+  return Number.isNaN(d.getTime()) ? text : WHEN.format(d);
 }
 
 /** Today as YYYY-MM-DD in the workshop's time zone (shared/time.ts). */

@@ -2,6 +2,7 @@ import type { Page } from 'playwright-core';
 import sharp from 'sharp';
 import { describe, expect, it } from 'vitest';
 import { DEMO_PASSWORD } from '../../server/seeders/demo';
+import { BIG_PARTS } from '../fixtures/golden/cases';
 import { demoEmail } from '../helpers/app';
 import { browserSuite, screenshot, watchConsole } from '../helpers/browser';
 
@@ -125,6 +126,56 @@ describe('estimates, in a real browser', () => {
     await page.getByLabel('Search').press('Enter');
     await expect.poll(() => page.getByRole('row').filter({ hasText: name }).count()).toBe(1);
     await screenshot(page, 'estimates-list');
+    expect(errors).toEqual([]);
+    await context.close();
+  });
+
+  it('a 200-part table draws the rows in view; the last part is reached by scrolling, rows by Tab, and edits price as before', async () => {
+    const context = await suite.browser.newContext({ viewport: { width: 1440, height: 900 } });
+    const page = await context.newPage();
+    const errors = watchConsole(page);
+    await signInAsEstimator(page);
+    const csrf = ((await (await page.request.get(`${suite.server.baseUrl}/api/auth/csrf`)).json()) as { csrfToken: string }).csrfToken;
+    const list = (await (await page.request.get(`${suite.server.baseUrl}/api/estimates?pageSize=1`)).json()) as { rows: { customer: { id: number }; piece: { id: number } }[] };
+    const { customer, piece } = list.rows[0]!;
+    const made = await page.request.post(`${suite.server.baseUrl}/api/estimates`, {
+      headers: { 'x-csrf-token': csrf },
+      data: { customerId: customer.id, pieceId: piece.id, title: 'A long parts table', input: { piece: { parts: BIG_PARTS }, system: 'full-repolish', startDate: '2025-03-03' } },
+    });
+    expect(made.ok()).toBe(true);
+    const { id } = (await made.json()) as { id: number };
+    await page.goto(`${suite.server.baseUrl}/estimates/${id}/edit`);
+    await page.getByTestId('row-area-0').waitFor();
+
+    // A screenful of rows is in the page, each giving its place in the list of 200.
+    const rows = page.locator('li[aria-label^="Part "]');
+    expect(await rows.count()).toBeLessThan(40);
+    expect(await rows.first().getAttribute('aria-setsize')).toBe('200');
+
+    // The last part, scrolled to, is there and prices as before: twice the count, twice its area.
+    await page.getByRole('button', { name: 'Add a part' }).scrollIntoViewIfNeeded();
+    const last = page.getByRole('listitem', { name: 'Part 200: Part 200', exact: true });
+    await last.waitFor();
+    expect(await last.getAttribute('aria-posinset')).toBe('200');
+    const area = last.getByTestId('row-area-199');
+    const before = number(await area.textContent());
+    const count = last.getByLabel('Count of Part 200', { exact: true });
+    await count.fill(String(Number(await count.inputValue()) * 2));
+    await expect.poll(async () => number(await area.textContent())).toBeCloseTo(before * 2, 1);
+
+    // Tab walks on from row to row past the rows first drawn, and the row holding the focus stays when scrolled away.
+    await page.evaluate(() => window.scrollTo(0, 0));
+    await page.getByLabel('Name of part 1', { exact: true }).focus();
+    const focusedRow = () => page.evaluate(() => document.activeElement?.closest('li[aria-posinset]')?.getAttribute('aria-posinset') ?? null);
+    let at = await focusedRow();
+    for (let presses = 0; presses < 800 && at !== '12'; presses++) {
+      await page.keyboard.press('Tab');
+      at = await focusedRow();
+    }
+    expect(at).toBe('12');
+    await page.evaluate(() => window.scrollTo(0, 0));
+    await expect.poll(() => page.evaluate(() => window.scrollY)).toBe(0);
+    expect(await focusedRow()).toBe('12');
     expect(errors).toEqual([]);
     await context.close();
   });

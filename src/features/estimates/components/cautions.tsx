@@ -1,17 +1,26 @@
 import { Flame, Info, ShieldAlert, TriangleAlert, Wind } from 'lucide-react';
+import type { ReactNode } from 'react';
 import type { Caution, EstimateResult, VentilationResult } from '@shared/schemas/calc';
 import type { UnitSystem } from '@shared/units';
 
-const SEVERITY: Record<Caution['severity'], { word: string; Icon: typeof Flame; box: string }> = {
-  danger: { word: 'Danger', Icon: Flame, box: 'border-brick-600/40 bg-brick-100/70 text-brick-700' },
-  warning: { word: 'Warning', Icon: TriangleAlert, box: 'border-amber-500/50 bg-amber-50 text-amber-800' },
-  info: { word: 'Note', Icon: Info, box: 'border-walnut-200 bg-parchment-50 text-walnut-700' },
+const ITEM_ICON = 'mt-0.5 h-4 w-4 shrink-0';
+// Icons made once: the same element object is not drawn again when the figures change.
+const SEVERITY: Record<Caution['severity'], { word: string; icon: ReactNode; box: string }> = {
+  danger: { word: 'Danger', icon: <Flame className={ITEM_ICON} aria-hidden />, box: 'border-brick-600/40 bg-brick-100/70 text-brick-700' },
+  warning: { word: 'Warning', icon: <TriangleAlert className={ITEM_ICON} aria-hidden />, box: 'border-amber-500/50 bg-amber-50 text-amber-800' },
+  info: { word: 'Note', icon: <Info className={ITEM_ICON} aria-hidden />, box: 'border-walnut-200 bg-parchment-50 text-walnut-700' },
 };
+const SHIELD = <ShieldAlert className="h-4 w-4 text-brick-700" aria-hidden />;
+const CHECK = <TriangleAlert className={ITEM_ICON} aria-hidden />;
+/** Made once (a toLocaleString call builds a new formatter each time); the same words. */
+const WHOLE = new Intl.NumberFormat('en-GB');
 
 /** The fresh-air figure of the busiest session, in the display units. */
 function airFlow(m3h: number, units: UnitSystem): string {
-  return units === 'metric' ? `${Math.ceil(m3h).toLocaleString('en-GB')} m³/h` : `${Math.ceil(m3h / M3H_PER_CFM).toLocaleString('en-GB')} cfm`;
+  return units === 'metric' ? `${WHOLE.format(Math.ceil(m3h))} m³/h` : `${WHOLE.format(Math.ceil(m3h / M3H_PER_CFM))} cfm`;
 }
+
+const WIND = <Wind className="mt-0.5 h-4 w-4 shrink-0" aria-hidden />;
 
 /** Cubic metres per hour in one cubic foot per minute. */
 const M3H_PER_CFM = 1.6990108;
@@ -31,7 +40,7 @@ function VentilationWorking({ v, units }: { v: VentilationResult; units: UnitSys
   const short = !v.adequate;
   return (
     <div className={`flex gap-2 rounded-md border px-3 py-2 ${short ? 'border-brick-600/40 bg-brick-100 text-brick-700' : 'border-walnut-200 bg-parchment-50 text-walnut-800'}`} data-testid="ventilation">
-      <Wind className="mt-0.5 h-4 w-4 shrink-0" aria-hidden />
+      {WIND}
       <div className="space-y-1">
         <p>
           <strong>{short ? 'More fresh air needed' : 'Fresh air covers the busiest session'}:</strong> it evaporates{' '}
@@ -65,7 +74,7 @@ export function CautionsPanel({ result, units, compact = false }: { result: Pick
   return (
     <section aria-labelledby="cautions-heading" className="rounded-xl border border-brick-600/30 bg-white shadow-card">
       <header className="flex items-center gap-2 border-b border-brick-600/20 bg-brick-100/50 px-4 py-2.5">
-        <ShieldAlert className="h-4 w-4 text-brick-700" aria-hidden />
+        {SHIELD}
         <h2 id="cautions-heading" className="text-base font-semibold text-brick-700">
           Safety cautions
         </h2>
@@ -76,7 +85,7 @@ export function CautionsPanel({ result, units, compact = false }: { result: Pick
           <ul className="space-y-1.5" aria-label="Things to check on this job">
             {warnings.map((w) => (
               <li key={w.code + w.text} className="flex gap-2 rounded-md border border-amber-500/50 bg-amber-50 px-3 py-1.5 text-amber-800">
-                <TriangleAlert className="mt-0.5 h-4 w-4 shrink-0" aria-hidden />
+                {CHECK}
                 <span>
                   <span className="font-semibold">Check: </span>
                   {w.text}
@@ -90,7 +99,7 @@ export function CautionsPanel({ result, units, compact = false }: { result: Pick
             const s = SEVERITY[c.severity];
             return (
               <li key={c.code} className={`flex gap-2 rounded-md border px-3 py-1.5 ${s.box}`}>
-                <s.Icon className="mt-0.5 h-4 w-4 shrink-0" aria-hidden />
+                {s.icon}
                 <span>
                   <span className="font-semibold">{s.word}: </span>
                   {c.text}

@@ -1,5 +1,5 @@
 import { Hammer, LayoutList, ListRestart, Save, Thermometer, TriangleAlert, Wand2 } from 'lucide-react';
-import { memo, useDeferredValue, useMemo, useState, type FormEvent, type ReactNode } from 'react';
+import { memo, useCallback, useMemo, useState, type FormEvent, type ReactNode } from 'react';
 import { estimate } from '@shared/calc';
 import { TEMPLATE_KEYS, TEMPLATE_DIMENSIONS, type EstimateInput, type EstimateResult, type TemplateKey } from '@shared/schemas/calc';
 import type { PieceKind } from '@shared/schemas/customers';
@@ -7,12 +7,14 @@ import { UnitParseError } from '@shared/units';
 import { Alert } from '@/components/alert';
 import { Button } from '@/components/button';
 import { ApiError } from '@/lib/api';
-import { clearBrowserDraft, useBrowserDraft, useOnline } from '@/lib/browser-draft';
+import { BrowserDraftKeeper, clearBrowserDraft, useBrowserDraft, useOnline } from '@/lib/browser-draft';
 import type { CalcCatalog } from '@/lib/catalog';
+import type { Catalog, Species } from '@shared/schemas/catalog';
+import type { LengthUnit, UnitSystem } from '@shared/units';
 import { useDisplayUnits } from '../lib/display-units';
 import {
   buildInput, defaultDimension, describePath, DIMENSION_LABELS, errorsByPath, messageAt, partsFromTemplate, systemStages, TEMPLATE_LABELS,
-  TEMPLATES_FOR_KIND, type EstimateDraft,
+  TEMPLATES_FOR_KIND, type EstimateDraft, type PartDraft, type StageDraft,
 } from '../lib/draft';
 import { formatArea } from '../lib/measures';
 import { CautionsPanel } from './cautions';
@@ -57,8 +59,20 @@ type Outcome = { ok: true; result: EstimateResult } | { ok: false; errors: Recor
  */
 const LiveSummary = memo(ResultsSummary);
 const LiveCautions = memo(CautionsPanel);
+/** The form's sections redraw only when their own fields, messages or figures change (their callbacks are stable). */
+const MemoPartsTable = memo(PartsTable);
+const MemoStagesEditor = memo(StagesEditor);
 
-function Panel({ title, icon, children, actions }: { title: string; icon: ReactNode; children: ReactNode; actions?: ReactNode }) {
+// Icons made once: an element that is the same object as last time is not drawn again.
+const HAMMER = <Hammer className="h-4 w-4 text-amber-600" aria-hidden />;
+const WAND = <Wand2 className="h-4 w-4 text-amber-600" aria-hidden />;
+const THERMOMETER = <Thermometer className="h-4 w-4 text-amber-600" aria-hidden />;
+const SAVE = <Save className="h-4 w-4" aria-hidden />;
+const NO_STAGE_RESULTS: never[] = [];
+
+type Patch = (p: Partial<EstimateDraft>) => void;
+
+const Panel = memo(function Panel({ title, icon, children, actions }: { title: string; icon: ReactNode; children: ReactNode; actions?: ReactNode }) {
   return (
     <section className="rounded-xl border border-parchment-200 bg-white shadow-card">
       <header className="flex flex-wrap items-center justify-between gap-3 border-b border-parchment-200 px-5 py-3">
@@ -71,7 +85,7 @@ function Panel({ title, icon, children, actions }: { title: string; icon: ReactN
       <div className="px-5 py-4">{children}</div>
     </section>
   );
-}
+});
 
 /** Server field names carry the request's "input." prefix; the editor's paths start inside the input. */
 function serverErrors(error: unknown): Record<string, string> {
@@ -83,6 +97,191 @@ function serverErrors(error: unknown): Record<string, string> {
   return out;
 }
 
+/** The piece from a template: the template, its sizes, the wood, and what it makes. */
+const TemplatePiece = memo(function TemplatePiece({
+  template, dimensions, lengthUnit, species, veneered, units, templates, speciesOptions, catalogSpecies, errors, partCount, areaM2, patch,
+}: {
+  template: TemplateKey;
+  dimensions: Record<string, string>;
+  lengthUnit: LengthUnit;
+  species: string;
+  veneered: boolean;
+  units: UnitSystem;
+  templates: TemplateKey[];
+  speciesOptions: { value: string; label: string }[];
+  catalogSpecies: readonly Species[];
+  errors: Record<string, string>;
+  partCount: number | undefined;
+  areaM2: number | undefined;
+  patch: Patch;
+}) {
+  const [templateError, setTemplateError] = useState<string>();
+  const wood = catalogSpecies.find((s) => s.key === species);
+  const editParts = () => {
+    try {
+      const parts = partsFromTemplate({ template, dimensions, species, veneered }, lengthUnit);
+      setTemplateError(undefined);
+      patch({ mode: 'parts', parts });
+    } catch (error) {
+      setTemplateError(error instanceof UnitParseError ? error.message : String(error));
+    }
+  };
+  return (
+    <Panel
+      title="The piece"
+      icon={HAMMER}
+      actions={
+        <Button size="sm" variant="secondary" onClick={editParts}>
+          <LayoutList className="h-3.5 w-3.5" aria-hidden /> Edit the parts table
+        </Button>
+      }
+    >
+      <div className="space-y-4">
+        <p className="text-sm text-walnut-600">
+          Pick a template and type its sizes with their units — <span className="font-medium">190 cm</span>, <span className="font-medium">6 ft 3 in</span>,{' '}
+          <span className="font-medium">1900 mm</span>. A bare number is in {lengthUnit}. Leave a size empty to use the template's usual one.
+        </p>
+        <div className="grid gap-4 sm:grid-cols-2 lg:grid-cols-4">
+          <MiniSelect<TemplateKey>
+            showLabel
+            label="Template"
+            value={template}
+            options={templates.map((t) => ({ value: t, label: TEMPLATE_LABELS[t] }))}
+            onChange={(next) => {
+              const dims: Record<string, string> = {};
+              for (const name of TEMPLATE_DIMENSIONS[next]) dims[name] = dimensions[name] ?? '';
+              patch({ template: next, dimensions: dims });
+            }}
+          />
+          {TEMPLATE_DIMENSIONS[template].map((name) => (
+            <LengthInput
+              key={name}
+              showLabel
+              unit={lengthUnit}
+              label={DIMENSION_LABELS[name] ?? name}
+              value={dimensions[name] ?? ''}
+              placeholder={defaultDimension(template, name, units)}
+              onValue={(v) => {
+                setTemplateError(undefined);
+                patch({ dimensions: { ...dimensions, [name]: v } });
+              }}
+              error={messageAt(errors, `piece.dimensions.${name}`)}
+            />
+          ))}
+        </div>
+        <div className="grid gap-4 sm:grid-cols-2 lg:grid-cols-4">
+          <MiniSelect showLabel label="Wood" value={species} options={speciesOptions} onChange={(next) => patch({ species: next })} error={messageAt(errors, 'piece.species')} hint={wood ? (wood.needsGrainFill ? 'Open pores: grain filled' : wood.pores === 'ebonised' ? 'Ebonised: no grain filling' : 'Closed pores: no grain filling') : undefined} />
+          <div className="pt-5">
+            <CheckField label="Veneered" hint="Careful stripping and cutting back" checked={veneered} onChange={(next) => patch({ veneered: next })} />
+          </div>
+          <div className="pt-5 text-sm text-walnut-600 lg:col-span-2">
+            {partCount !== undefined && areaM2 !== undefined && (
+              <p>
+                The {TEMPLATE_LABELS[template].toLowerCase()} template makes <span className="font-semibold text-walnut-800">{partCount} parts</span>,{' '}
+                <span className="num font-semibold text-walnut-800" data-testid="piece-area">
+                  {formatArea(areaM2, units)}
+                </span>{' '}
+                to polish. Edit the parts table to change any of them.
+              </p>
+            )}
+          </div>
+        </div>
+        {templateError && <Alert tone="error" title="The parts table cannot be made yet">{templateError}</Alert>}
+      </div>
+    </Panel>
+  );
+});
+
+/** The piece as a parts table, edited freely. */
+const PartsPiece = memo(function PartsPiece({ parts, errors, lengthUnit, units, species, areas, patch }: {
+  parts: PartDraft[];
+  errors: Record<string, string>;
+  lengthUnit: LengthUnit;
+  units: UnitSystem;
+  species: readonly Species[];
+  areas: readonly (EstimateResult['parts'][number] | undefined)[];
+  patch: Patch;
+}) {
+  const onParts = useCallback((next: PartDraft[]) => patch({ parts: next }), [patch]);
+  const backToTemplate = () => {
+    if (window.confirm('Go back to the template? Your edits to the parts table will be lost.')) patch({ mode: 'template' });
+  };
+  return (
+    <Panel
+      title="The piece"
+      icon={HAMMER}
+      actions={
+        <Button size="sm" variant="ghost" onClick={backToTemplate}>
+          <ListRestart className="h-3.5 w-3.5" aria-hidden /> Back to the template
+        </Button>
+      }
+    >
+      <MemoPartsTable parts={parts} onChange={onParts} errors={errors} unit={lengthUnit} units={units} species={species} areas={areas} />
+    </Panel>
+  );
+});
+
+/** The finishing system and this estimate's own copy of its stages. */
+const SystemPanel = memo(function SystemPanel({ system, stages, errors, results, catalog, patch }: {
+  system: string;
+  stages: StageDraft[];
+  errors: Record<string, string>;
+  results: EstimateResult['stages'];
+  catalog: Catalog;
+  patch: Patch;
+}) {
+  const onStages = useCallback((next: StageDraft[]) => patch({ stages: next }), [patch]);
+  const chosen = catalog.systems.find((s) => s.key === system);
+  return (
+    <Panel title="Finishing system and stages" icon={WAND}>
+      <div className="mb-4 grid gap-4 sm:grid-cols-[18rem_1fr]">
+        <MiniSelect
+          showLabel
+          label="Finishing system"
+          value={system}
+          options={catalog.systems.map((s) => ({ value: s.key, label: s.name }))}
+          onChange={(key) => patch({ system: key, stages: systemStages(catalog, key) })}
+          error={messageAt(errors, 'system')}
+        />
+        <p className="self-end text-sm text-walnut-600">
+          {chosen?.description} This estimate keeps its own copy of the stages: change them here without touching the workshop's system.
+        </p>
+      </div>
+      <MemoStagesEditor stages={stages} onChange={onStages} errors={errors} results={results} catalog={catalog} />
+    </Panel>
+  );
+});
+
+/** The job: climate, start, discount, title and the revision's note. */
+const JobPanel = memo(function JobPanel({ temperatureC, humidityPct, startDate, discountPct, title, note, errors, titleError, noteError, maxDiscountPct, patch }: {
+  temperatureC: string;
+  humidityPct: string;
+  startDate: string;
+  discountPct: string;
+  title: string;
+  note: string;
+  errors: Record<string, string>;
+  titleError: string | undefined;
+  noteError: string | undefined;
+  maxDiscountPct: number;
+  patch: Patch;
+}) {
+  return (
+    <Panel title="The job" icon={THERMOMETER}>
+      <div className="grid gap-4 sm:grid-cols-2 lg:grid-cols-4">
+        <CellInput showLabel label="Workshop temperature" suffix="°C" inputMode="decimal" value={temperatureC} onValue={(v) => patch({ temperatureC: v })} error={messageAt(errors, 'climate.temperatureC')} hint="Cold slows drying" />
+        <CellInput showLabel label="Relative humidity" suffix="% RH" inputMode="decimal" value={humidityPct} onValue={(v) => patch({ humidityPct: v })} error={messageAt(errors, 'climate.humidityPct')} hint="Above 75 % shellac may bloom" />
+        <CellInput showLabel label="Start date" type="date" value={startDate} onValue={(v) => patch({ startDate: v })} error={messageAt(errors, 'startDate')} />
+        <CellInput showLabel label="Discount" suffix="%" inputMode="decimal" value={discountPct} onValue={(v) => patch({ discountPct: v })} error={messageAt(errors, 'discountPct')} hint={`Workshop cap ${maxDiscountPct} %`} />
+      </div>
+      <div className="mt-4 grid gap-4 sm:grid-cols-2">
+        <CellInput showLabel label="Title" value={title} onValue={(v) => patch({ title: v })} maxLength={160} error={titleError} />
+        <CellInput showLabel label="Note for this revision" placeholder="What changed, and why" value={note} onValue={(v) => patch({ note: v })} maxLength={1000} error={noteError} />
+      </div>
+    </Panel>
+  );
+});
+
 /**
  * The estimate editor: the piece (template or parts table), the finishing system and its stages, the job's
  * climate, start and discount; the shared engine prices it on every change, as the finisher types.
@@ -90,16 +289,15 @@ function serverErrors(error: unknown): Record<string, string> {
 export function EstimateEditor({ calc, pieceKind, initial, saveLabel, saving = false, saveError, notice, onSave, onCancel, today, draftKey }: EstimateEditorProps) {
   const { catalog, settings } = calc;
   const [draft, setDraft] = useState<EstimateDraft>(initial);
-  const kept = useBrowserDraft(draftKey, draft, initial);
+  const kept = useBrowserDraft(draftKey, initial);
   const online = useOnline();
   const [units, setUnits] = useDisplayUnits(settings.units);
-  const [templateError, setTemplateError] = useState<string>();
   const [submitted, setSubmitted] = useState(false);
-  const patch = (p: Partial<EstimateDraft>) => setDraft((d) => ({ ...d, ...p }));
+  const patch = useCallback<Patch>((p) => setDraft((d) => ({ ...d, ...p })), []);
 
-  // The engine runs on the deferred draft so typing never waits for it.
-  const deferred = useDeferredValue(draft);
-  const input = useMemo(() => buildInput(deferred), [deferred]);
+  // The engine runs in the keystroke's own render, so the live figures change with the field typed in (it takes
+  // about a millisecond: unchanged parts keep their engine objects). The detail below trails, once typing pauses.
+  const input = useMemo(() => buildInput(draft), [draft]);
   const outcome = useMemo<Outcome>(() => {
     try {
       return { ok: true, result: estimate(input, catalog, today ? { today } : {}) };
@@ -112,8 +310,10 @@ export function EstimateEditor({ calc, pieceKind, initial, saveLabel, saving = f
   const [lastGood, setLastGood] = useState<EstimateResult | null>(outcome.ok ? outcome.result : null);
   if (outcome.ok && outcome.result !== lastGood) setLastGood(outcome.result);
 
-  const fromServer = serverErrors(saveError);
-  const errors: Record<string, string> = { ...fromServer, ...(outcome.ok ? {} : outcome.errors) };
+  const fromServer = useMemo(() => serverErrors(saveError), [saveError]);
+  // The same object while the messages are the same, so the sections given them need not redraw.
+  const errorsText = JSON.stringify({ ...fromServer, ...(outcome.ok ? {} : outcome.errors) });
+  const errors = useMemo(() => JSON.parse(errorsText) as Record<string, string>, [errorsText]);
   const result = outcome.ok ? outcome.result : lastGood;
   const stale = !outcome.ok;
 
@@ -123,23 +323,10 @@ export function EstimateEditor({ calc, pieceKind, initial, saveLabel, saving = f
     /^(climate\.(temperatureC|humidityPct)|startDate|discountPct|system)$/.test(path);
   const elsewhere = Object.entries(errors).filter(([path]) => !knownPaths(path));
 
-  const templates = [...TEMPLATES_FOR_KIND[pieceKind], ...TEMPLATE_KEYS.filter((t) => !TEMPLATES_FOR_KIND[pieceKind].includes(t))];
-  const speciesOptions = catalog.species.map((s) => ({ value: s.key, label: s.name }));
-  const wood = catalog.species.find((s) => s.key === draft.species);
-  const system = catalog.systems.find((s) => s.key === draft.system);
-
-  const editParts = () => {
-    try {
-      const parts = partsFromTemplate(draft, draft.lengthUnit);
-      setTemplateError(undefined);
-      patch({ mode: 'parts', parts });
-    } catch (error) {
-      setTemplateError(error instanceof UnitParseError ? error.message : String(error));
-    }
-  };
-  const backToTemplate = () => {
-    if (window.confirm('Go back to the template? Your edits to the parts table will be lost.')) patch({ mode: 'template' });
-  };
+  const templates = useMemo(() => [...TEMPLATES_FOR_KIND[pieceKind], ...TEMPLATE_KEYS.filter((t) => !TEMPLATES_FOR_KIND[pieceKind].includes(t))], [pieceKind]);
+  const speciesOptions = useMemo(() => catalog.species.map((s) => ({ value: s.key, label: s.name })), [catalog]);
+  // Areas by row: the figures' own parts, or none while the table cannot be priced.
+  const areas = useMemo(() => (outcome.ok ? outcome.result.parts : draft.parts.map(() => undefined)), [outcome, draft.parts]);
 
   const submit = (e: FormEvent) => {
     e.preventDefault();
@@ -150,6 +337,7 @@ export function EstimateEditor({ calc, pieceKind, initial, saveLabel, saving = f
 
   return (
     <form onSubmit={submit} noValidate className="space-y-6" aria-label="Estimate">
+      <BrowserDraftKeeper draftKey={draftKey} value={draft} initial={initial} />
       {kept.found && (
         <Alert tone="warning" title="Unsaved work on this device">
           <p>
@@ -196,116 +384,41 @@ export function EstimateEditor({ calc, pieceKind, initial, saveLabel, saving = f
       )}
       <div className="grid grid-cols-1 items-start gap-6 xl:grid-cols-[minmax(0,1fr)_26rem]">
         <div className="min-w-0 space-y-6">
-          <Panel
-            title="The piece"
-            icon={<Hammer className="h-4 w-4 text-amber-600" aria-hidden />}
-            actions={
-              draft.mode === 'template' ? (
-                <Button size="sm" variant="secondary" onClick={editParts}>
-                  <LayoutList className="h-3.5 w-3.5" aria-hidden /> Edit the parts table
-                </Button>
-              ) : (
-                <Button size="sm" variant="ghost" onClick={backToTemplate}>
-                  <ListRestart className="h-3.5 w-3.5" aria-hidden /> Back to the template
-                </Button>
-              )
-            }
-          >
-            {draft.mode === 'template' ? (
-              <div className="space-y-4">
-                <p className="text-sm text-walnut-600">
-                  Pick a template and type its sizes with their units — <span className="font-medium">190 cm</span>, <span className="font-medium">6 ft 3 in</span>,{' '}
-                  <span className="font-medium">1900 mm</span>. A bare number is in {draft.lengthUnit}. Leave a size empty to use the template's usual one.
-                </p>
-                <div className="grid gap-4 sm:grid-cols-2 lg:grid-cols-4">
-                  <MiniSelect<TemplateKey>
-                    showLabel
-                    label="Template"
-                    value={draft.template}
-                    options={templates.map((t) => ({ value: t, label: TEMPLATE_LABELS[t] }))}
-                    onChange={(template) => {
-                      const dims: Record<string, string> = {};
-                      for (const name of TEMPLATE_DIMENSIONS[template]) dims[name] = draft.dimensions[name] ?? '';
-                      patch({ template, dimensions: dims });
-                    }}
-                  />
-                  {TEMPLATE_DIMENSIONS[draft.template].map((name) => (
-                    <LengthInput
-                      key={name}
-                      showLabel
-                      unit={draft.lengthUnit}
-                      label={DIMENSION_LABELS[name] ?? name}
-                      value={draft.dimensions[name] ?? ''}
-                      placeholder={defaultDimension(draft.template, name, units)}
-                      onValue={(v) => {
-                        setTemplateError(undefined);
-                        patch({ dimensions: { ...draft.dimensions, [name]: v } });
-                      }}
-                      error={messageAt(errors, `piece.dimensions.${name}`)}
-                    />
-                  ))}
-                </div>
-                <div className="grid gap-4 sm:grid-cols-2 lg:grid-cols-4">
-                  <MiniSelect showLabel label="Wood" value={draft.species} options={speciesOptions} onChange={(species) => patch({ species })} error={messageAt(errors, 'piece.species')} hint={wood ? (wood.needsGrainFill ? 'Open pores: grain filled' : wood.pores === 'ebonised' ? 'Ebonised: no grain filling' : 'Closed pores: no grain filling') : undefined} />
-                  <div className="pt-5">
-                    <CheckField label="Veneered" hint="Careful stripping and cutting back" checked={draft.veneered} onChange={(veneered) => patch({ veneered })} />
-                  </div>
-                  <div className="pt-5 text-sm text-walnut-600 lg:col-span-2">
-                    {result && (
-                      <p>
-                        The {TEMPLATE_LABELS[draft.template].toLowerCase()} template makes <span className="font-semibold text-walnut-800">{result.parts.length} parts</span>,{' '}
-                        <span className="num font-semibold text-walnut-800" data-testid="piece-area">
-                          {formatArea(result.totals.areaM2, units)}
-                        </span>{' '}
-                        to polish. Edit the parts table to change any of them.
-                      </p>
-                    )}
-                  </div>
-                </div>
-                {templateError && <Alert tone="error" title="The parts table cannot be made yet">{templateError}</Alert>}
-              </div>
-            ) : (
-              <PartsTable
-                parts={draft.parts}
-                onChange={(parts) => patch({ parts })}
-                errors={errors}
-                unit={draft.lengthUnit}
-                units={units}
-                species={catalog.species}
-                areas={outcome.ok ? outcome.result.parts : draft.parts.map(() => undefined)}
-              />
-            )}
-          </Panel>
+          {draft.mode === 'template' ? (
+            <TemplatePiece
+              template={draft.template}
+              dimensions={draft.dimensions}
+              lengthUnit={draft.lengthUnit}
+              species={draft.species}
+              veneered={draft.veneered}
+              units={units}
+              templates={templates}
+              speciesOptions={speciesOptions}
+              catalogSpecies={catalog.species}
+              errors={errors}
+              partCount={result?.parts.length}
+              areaM2={result?.totals.areaM2}
+              patch={patch}
+            />
+          ) : (
+            <PartsPiece parts={draft.parts} errors={errors} lengthUnit={draft.lengthUnit} units={units} species={catalog.species} areas={areas} patch={patch} />
+          )}
 
-          <Panel title="Finishing system and stages" icon={<Wand2 className="h-4 w-4 text-amber-600" aria-hidden />}>
-            <div className="mb-4 grid gap-4 sm:grid-cols-[18rem_1fr]">
-              <MiniSelect
-                showLabel
-                label="Finishing system"
-                value={draft.system}
-                options={catalog.systems.map((s) => ({ value: s.key, label: s.name }))}
-                onChange={(key) => patch({ system: key, stages: systemStages(catalog, key) })}
-                error={messageAt(errors, 'system')}
-              />
-              <p className="self-end text-sm text-walnut-600">
-                {system?.description} This estimate keeps its own copy of the stages: change them here without touching the workshop's system.
-              </p>
-            </div>
-            <StagesEditor stages={draft.stages} onChange={(stages) => patch({ stages })} errors={errors} results={result?.stages ?? []} catalog={catalog} />
-          </Panel>
+          <SystemPanel system={draft.system} stages={draft.stages} errors={errors} results={result?.stages ?? NO_STAGE_RESULTS} catalog={catalog} patch={patch} />
 
-          <Panel title="The job" icon={<Thermometer className="h-4 w-4 text-amber-600" aria-hidden />}>
-            <div className="grid gap-4 sm:grid-cols-2 lg:grid-cols-4">
-              <CellInput showLabel label="Workshop temperature" suffix="°C" inputMode="decimal" value={draft.temperatureC} onValue={(v) => patch({ temperatureC: v })} error={messageAt(errors, 'climate.temperatureC')} hint="Cold slows drying" />
-              <CellInput showLabel label="Relative humidity" suffix="% RH" inputMode="decimal" value={draft.humidityPct} onValue={(v) => patch({ humidityPct: v })} error={messageAt(errors, 'climate.humidityPct')} hint="Above 75 % shellac may bloom" />
-              <CellInput showLabel label="Start date" type="date" value={draft.startDate} onValue={(v) => patch({ startDate: v })} error={messageAt(errors, 'startDate')} />
-              <CellInput showLabel label="Discount" suffix="%" inputMode="decimal" value={draft.discountPct} onValue={(v) => patch({ discountPct: v })} error={messageAt(errors, 'discountPct')} hint={`Workshop cap ${catalog.pricing.maxDiscountPct} %`} />
-            </div>
-            <div className="mt-4 grid gap-4 sm:grid-cols-2">
-              <CellInput showLabel label="Title" value={draft.title} onValue={(v) => patch({ title: v })} maxLength={160} error={fromServer.title} />
-              <CellInput showLabel label="Note for this revision" placeholder="What changed, and why" value={draft.note} onValue={(v) => patch({ note: v })} maxLength={1000} error={fromServer.note} />
-            </div>
-          </Panel>
+          <JobPanel
+            temperatureC={draft.temperatureC}
+            humidityPct={draft.humidityPct}
+            startDate={draft.startDate}
+            discountPct={draft.discountPct}
+            title={draft.title}
+            note={draft.note}
+            errors={errors}
+            titleError={fromServer.title}
+            noteError={fromServer.note}
+            maxDiscountPct={catalog.pricing.maxDiscountPct}
+            patch={patch}
+          />
 
           <div className="sticky bottom-0 z-10 -mx-2 space-y-3 rounded-t-xl border-t border-parchment-200 bg-parchment-50/95 px-2 py-3 backdrop-blur">
             {notice}
@@ -327,7 +440,7 @@ export function EstimateEditor({ calc, pieceKind, initial, saveLabel, saving = f
                 </Button>
               )}
               <Button type="submit" variant="accent" busy={saving}>
-                <Save className="h-4 w-4" aria-hidden /> {saveLabel}
+                {SAVE} {saveLabel}
               </Button>
             </div>
           </div>

@@ -1,5 +1,6 @@
 import { Copy, Plus, Scissors, Trash2 } from 'lucide-react';
-import { memo, useCallback, useEffect, useId, useMemo, useRef } from 'react';
+import { defaultRangeExtractor, useWindowVirtualizer, type Range } from '@tanstack/react-virtual';
+import { memo, useCallback, useEffect, useId, useLayoutEffect, useMemo, useRef, useState, type FocusEvent, type ReactNode } from 'react';
 import { COMPLEXITIES, type Species } from '@shared/schemas/catalog';
 import type { PartResult, ShapeKind } from '@shared/schemas/calc';
 import type { LengthUnit, UnitSystem } from '@shared/units';
@@ -124,13 +125,26 @@ interface PartRowProps {
   onSet: (index: number, patch: Partial<PartDraft>) => void;
   onDuplicate: (index: number) => void;
   onRemove: (index: number) => void;
+  /** In a long table drawn in part: the row's offset in the list, the list's length, and the ref that measures it. */
+  top?: number;
+  setSize?: number;
+  measureRef?: (el: HTMLLIElement | null) => void;
 }
 
-function PartRowView({ part: p, index: i, errors, areaM2, canRemove, unit, units, speciesOptions, onSet, onDuplicate, onRemove }: PartRowProps) {
+function PartRowView({ part: p, index: i, errors, areaM2, canRemove, unit, units, speciesOptions, onSet, onDuplicate, onRemove, top, setSize, measureRef }: PartRowProps) {
   const at = `piece.parts.${i}`;
   const set = (patch: Partial<PartDraft>) => onSet(i, patch);
   return (
-    <li className="rounded-lg border border-parchment-200 bg-white px-3 py-2.5 shadow-sm" aria-label={`Part ${i + 1}: ${p.name}`} data-testid={`part-row-${i}`}>
+    <li
+      ref={measureRef}
+      data-index={i}
+      aria-setsize={setSize}
+      aria-posinset={setSize === undefined ? undefined : i + 1}
+      style={top === undefined ? undefined : { position: 'absolute', top: 0, left: 0, width: '100%', transform: `translateY(${top}px)` }}
+      className="rounded-lg border border-parchment-200 bg-white px-3 py-2.5 shadow-sm"
+      aria-label={`Part ${i + 1}: ${p.name}`}
+      data-testid={`part-row-${i}`}
+    >
       <div className="flex flex-wrap items-start gap-2">
         <span className="num mt-1.5 w-6 text-right text-xs font-semibold text-walnut-400">{i + 1}</span>
         <CellInput className="min-w-48 flex-1" label={`Name of part ${i + 1}`} value={p.name} onValue={(v) => set({ name: v })} error={messageAt(errors, `${at}.name`)} />
@@ -206,6 +220,9 @@ const PartRow = memo(
     a.unit === b.unit &&
     a.units === b.units &&
     a.speciesOptions === b.speciesOptions &&
+    a.top === b.top &&
+    a.setSize === b.setSize &&
+    a.measureRef === b.measureRef &&
     JSON.stringify(a.errors) === JSON.stringify(b.errors),
 );
 
@@ -215,6 +232,50 @@ function rowErrors(errors: Record<string, string>, index: number): Record<string
   const out: Record<string, string> = {};
   for (const [k, v] of Object.entries(errors)) if (k.startsWith(prefix)) out[k] = v;
   return out;
+}
+
+/**
+ * A parts table this long is drawn in part: only the rows in view (and a few either side) are in the page, placed
+ * where the whole list would put them, so a keystroke's frame lays out and paints a screenful of rows, not hundreds.
+ * Shorter tables are drawn whole.
+ */
+const DRAWN_WHOLE_UP_TO = 40;
+/** Space between rows, px (the whole table's `space-y-3`). */
+const ROW_GAP = 12;
+
+function VirtualRows({ count, keyAt, row }: { count: number; keyAt: (i: number) => string; row: (i: number, place: { top: number; setSize: number; measureRef: (el: HTMLLIElement | null) => void }) => ReactNode }) {
+  const list = useRef<HTMLOListElement>(null);
+  // The list's top in the page (the window scrolls, not the list); it moves when something above it grows.
+  const [scrollMargin, setScrollMargin] = useState(0);
+  useLayoutEffect(() => {
+    const el = list.current;
+    if (!el) return;
+    const measure = () => setScrollMargin(Math.round(el.getBoundingClientRect().top + window.scrollY));
+    measure();
+    if (typeof ResizeObserver === 'undefined') return;
+    const observer = new ResizeObserver(measure);
+    observer.observe(document.body);
+    return () => observer.disconnect();
+  }, []);
+  // The row holding the focus stays in the page while it is scrolled out of view, so typing and Tab carry on there.
+  const [focused, setFocused] = useState<number | null>(null);
+  const onFocus = (e: FocusEvent<HTMLOListElement>) => {
+    const at = (e.target as HTMLElement).closest<HTMLElement>('li[data-index]')?.dataset.index;
+    if (at !== undefined) setFocused(Number(at));
+  };
+  const rangeExtractor = useCallback(
+    (range: Range) => {
+      const shown = defaultRangeExtractor(range);
+      return focused === null || focused >= range.count || shown.includes(focused) ? shown : [...shown, focused].sort((a, b) => a - b);
+    },
+    [focused],
+  );
+  const virtualizer = useWindowVirtualizer({ count, estimateSize: () => 210, overscan: 3, gap: ROW_GAP, scrollMargin, getItemKey: keyAt, rangeExtractor });
+  return (
+    <ol ref={list} className="relative" style={{ height: virtualizer.getTotalSize() }} onFocus={onFocus}>
+      {virtualizer.getVirtualItems().map((item) => row(item.index, { top: item.start - scrollMargin, setSize: count, measureRef: virtualizer.measureElement }))}
+    </ol>
+  );
 }
 
 /** The parts list, edited freely: shape and sizes, faces, edges, count, cut-outs, wood and complexity. */
@@ -238,27 +299,30 @@ export function PartsTable({ parts, onChange, errors, unit, units, species, area
   }, []);
   const speciesOptions = useMemo(() => species.map((s) => ({ value: s.key, label: `${s.name}${s.needsGrainFill ? ' (open pores)' : ''}` })), [species]);
   const totalError = messageAt(errors, 'piece.parts');
+  const row = (i: number, place?: { top: number; setSize: number; measureRef: (el: HTMLLIElement | null) => void }) => {
+    const p = parts[i]!;
+    return (
+      <PartRow
+        key={p.key}
+        part={p}
+        index={i}
+        errors={rowErrors(errors, i)}
+        areaM2={areas[i]?.areaM2}
+        canRemove={parts.length > 1}
+        unit={unit}
+        units={units}
+        speciesOptions={speciesOptions}
+        onSet={onSet}
+        onDuplicate={onDuplicate}
+        onRemove={onRemove}
+        {...place}
+      />
+    );
+  };
   return (
     <div className="space-y-3">
       {totalError && <FieldMessage id="parts-list" error={`Parts: ${totalError}`} />}
-      <ol className="space-y-3">
-        {parts.map((p, i) => (
-          <PartRow
-            key={p.key}
-            part={p}
-            index={i}
-            errors={rowErrors(errors, i)}
-            areaM2={areas[i]?.areaM2}
-            canRemove={parts.length > 1}
-            unit={unit}
-            units={units}
-            speciesOptions={speciesOptions}
-            onSet={onSet}
-            onDuplicate={onDuplicate}
-            onRemove={onRemove}
-          />
-        ))}
-      </ol>
+      {parts.length < DRAWN_WHOLE_UP_TO ? <ol className="space-y-3">{parts.map((_, i) => row(i))}</ol> : <VirtualRows count={parts.length} keyAt={(i) => parts[i]!.key} row={row} />}
       <Button variant="secondary" onClick={() => onChange([...parts, blankPart(parts[parts.length - 1]?.species ?? species[0]?.key ?? '')])}>
         <Plus className="h-4 w-4" aria-hidden /> Add a part
       </Button>

@@ -21,6 +21,15 @@ function Figure({ label, value, icon, testId, hint }: { label: string; value: Re
 }
 
 const icon = 'h-3.5 w-3.5 text-amber-600';
+// Icons made once: the same element object is not drawn again when the figures change.
+const RULER = <Ruler className={icon} aria-hidden />;
+const LAYERS = <Layers className={icon} aria-hidden />;
+const CLOCK = <Clock className={icon} aria-hidden />;
+const PACKAGE = <Package className={icon} aria-hidden />;
+const DROPLETS = <Droplets className={icon} aria-hidden />;
+const CALENDAR = <CalendarRange className={icon} aria-hidden />;
+const COINS = <Coins className="h-3.5 w-3.5" aria-hidden />;
+const STALE = <TriangleAlert className="h-3.5 w-3.5" aria-hidden />;
 
 /** The totals of an estimate, each with its unit; marked stale when the inputs have moved on and cannot be priced. */
 export function ResultsSummary({ result, units, stale = false, heading = 'Estimate' }: { result: EstimateResult; units: UnitSystem; stale?: boolean; heading?: ReactNode }) {
@@ -33,7 +42,7 @@ export function ResultsSummary({ result, units, stale = false, heading = 'Estima
         </h2>
         {stale && (
           <span className="inline-flex items-center gap-1 rounded-full border border-amber-500 bg-amber-50 px-2 py-0.5 text-xs font-semibold text-amber-800" data-testid="stale">
-            <TriangleAlert className="h-3.5 w-3.5" aria-hidden /> Out of date: fix the marked fields
+            {STALE} Out of date: fix the marked fields
           </span>
         )}
       </header>
@@ -45,21 +54,21 @@ export function ResultsSummary({ result, units, stale = false, heading = 'Estima
           </span>
         </div>
         <dl className="grid grid-cols-2 gap-2 sm:grid-cols-3">
-          <Figure label="Surface" icon={<Ruler className={icon} aria-hidden />} value={formatArea(t.areaM2, units)} testId="total-area" />
-          <Figure label="Shellac coats" icon={<Layers className={icon} aria-hidden />} value={`${t.coats} coats`} testId="total-coats" />
-          <Figure label="Labour" icon={<Clock className={icon} aria-hidden />} value={formatHours(t.labourHours)} testId="total-hours" />
-          <Figure label="Flakes" icon={<Package className={icon} aria-hidden />} value={formatMass(t.flakesG, units)} testId="total-flakes" />
-          <Figure label="Spirit" icon={<Droplets className={icon} aria-hidden />} value={formatVolume(t.spiritL, units, result.display.volumes ?? 'us')} testId="total-spirit" />
+          <Figure label="Surface" icon={RULER} value={formatArea(t.areaM2, units)} testId="total-area" />
+          <Figure label="Shellac coats" icon={LAYERS} value={`${t.coats} coats`} testId="total-coats" />
+          <Figure label="Labour" icon={CLOCK} value={formatHours(t.labourHours)} testId="total-hours" />
+          <Figure label="Flakes" icon={PACKAGE} value={formatMass(t.flakesG, units)} testId="total-flakes" />
+          <Figure label="Spirit" icon={DROPLETS} value={formatVolume(t.spiritL, units, result.display.volumes ?? 'us')} testId="total-spirit" />
           <Figure
             label="Calendar"
-            icon={<CalendarRange className={icon} aria-hidden />}
+            icon={CALENDAR}
             value={formatDays(t.calendarDays)}
             testId="total-days"
             hint={result.calendar.sessions.length > 0 ? `${formatDate(result.calendar.start.slice(0, 10))} – ${formatDate(result.calendar.end.slice(0, 10))}` : undefined}
           />
         </dl>
         <p className="mt-3 flex items-center gap-1.5 text-xs text-walnut-500">
-          <Coins className="h-3.5 w-3.5" aria-hidden /> Deposit <span className="num font-medium text-walnut-700">{formatMoney(result.price.deposit, t.currency)}</span>
+          {COINS} Deposit <span className="num font-medium text-walnut-700">{formatMoney(result.price.deposit, t.currency)}</span>
           <span>· balance</span>
           <span className="num font-medium text-walnut-700">{formatMoney(result.price.balance, t.currency)}</span>
         </p>

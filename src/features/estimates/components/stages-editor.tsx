@@ -8,6 +8,8 @@ import { CellInput, MiniSelect } from './fields';
 
 const MAIN: StageNumber[] = ['sessions', 'coatsPerSession', 'cutLb', 'restHours', 'labourMinPerM2PerCoat'];
 const MORE: StageNumber[] = ['setupMinPerSession', 'polishMlPerM2PerCoat', 'spiritMlPerM2PerSession'];
+const OPEN = <ChevronDown className="h-3.5 w-3.5" aria-hidden />;
+const CLOSED = <ChevronRight className="h-3.5 w-3.5" aria-hidden />;
 
 interface StagesEditorProps {
   stages: StageDraft[];
@@ -84,7 +86,7 @@ export function StagesEditor({ stages, onChange, errors, results, catalog }: Sta
                   <StageUseCell index={i} name={s.base.name} enabled={s.enabled} onToggle={onToggle} />
                   <td className="min-w-44 px-2 py-1.5 align-top">
                     <button type="button" className="mt-1 inline-flex items-center gap-1 text-left font-medium text-walnut-900 hover:text-amber-700" onClick={() => setOpen(expanded ? null : s.key)} aria-expanded={expanded}>
-                      {expanded ? <ChevronDown className="h-3.5 w-3.5" aria-hidden /> : <ChevronRight className="h-3.5 w-3.5" aria-hidden />}
+                      {expanded ? OPEN : CLOSED}
                       {s.base.name}
                     </button>
                     {!s.enabled && <span className="block pl-5 text-xs">not used</span>}

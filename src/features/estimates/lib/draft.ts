@@ -402,7 +402,7 @@ export function draftFromInput(input: EstimateInput, catalog: Catalog, settings:
  * The parts a template generates, as editable rows. Throws when a dimension cannot be read (the caller shows the
  * message beside that dimension).
  */
-export function partsFromTemplate(d: EstimateDraft, unit: LengthUnit): PartDraft[] {
+export function partsFromTemplate(d: Pick<EstimateDraft, 'template' | 'dimensions' | 'species' | 'veneered'>, unit: LengthUnit): PartDraft[] {
   const dims: Record<string, string> = {};
   for (const [k, v] of Object.entries(d.dimensions)) if (v.trim() !== '') dims[k] = v;
   return templateParts(d.template, dims, unit, { species: d.species || undefined, veneered: d.veneered }).map(partDraft);
