@@ -97,6 +97,15 @@ function serverErrors(error: unknown): Record<string, string> {
   return out;
 }
 
+/** The piece's section, from a template or as a parts table: its button switches between the two. */
+function PiecePanel({ action, children }: { action: ReactNode; children: ReactNode }) {
+  return (
+    <Panel title="The piece" icon={HAMMER} actions={action}>
+      {children}
+    </Panel>
+  );
+}
+
 /** The piece from a template: the template, its sizes, the wood, and what it makes. */
 const TemplatePiece = memo(function TemplatePiece({
   template, dimensions, lengthUnit, species, veneered, units, templates, speciesOptions, catalogSpecies, errors, partCount, areaM2, patch,
@@ -127,10 +136,8 @@ const TemplatePiece = memo(function TemplatePiece({
     }
   };
   return (
-    <Panel
-      title="The piece"
-      icon={HAMMER}
-      actions={
+    <PiecePanel
+      action={
         <Button size="sm" variant="secondary" onClick={editParts}>
           <LayoutList className="h-3.5 w-3.5" aria-hidden /> Edit the parts table
         </Button>
@@ -188,7 +195,7 @@ const TemplatePiece = memo(function TemplatePiece({
         </div>
         {templateError && <Alert tone="error" title="The parts table cannot be made yet">{templateError}</Alert>}
       </div>
-    </Panel>
+    </PiecePanel>
   );
 });
 
@@ -207,17 +214,15 @@ const PartsPiece = memo(function PartsPiece({ parts, errors, lengthUnit, units, 
     if (window.confirm('Go back to the template? Your edits to the parts table will be lost.')) patch({ mode: 'template' });
   };
   return (
-    <Panel
-      title="The piece"
-      icon={HAMMER}
-      actions={
+    <PiecePanel
+      action={
         <Button size="sm" variant="ghost" onClick={backToTemplate}>
           <ListRestart className="h-3.5 w-3.5" aria-hidden /> Back to the template
         </Button>
       }
     >
       <MemoPartsTable parts={parts} onChange={onParts} errors={errors} unit={lengthUnit} units={units} species={species} areas={areas} />
-    </Panel>
+    </PiecePanel>
   );
 });
 
@@ -253,13 +258,10 @@ const SystemPanel = memo(function SystemPanel({ system, stages, errors, results,
 });
 
 /** The job: climate, start, discount, title and the revision's note. */
-const JobPanel = memo(function JobPanel({ temperatureC, humidityPct, startDate, discountPct, title, note, errors, titleError, noteError, maxDiscountPct, patch }: {
-  temperatureC: string;
-  humidityPct: string;
-  startDate: string;
-  discountPct: string;
-  title: string;
-  note: string;
+const JobPanel = memo(function JobPanel({ temperatureC, humidityPct, startDate, discountPct, title, note, errors, titleError, noteError, maxDiscountPct, patch }: Pick<
+  EstimateDraft,
+  'temperatureC' | 'humidityPct' | 'startDate' | 'discountPct' | 'title' | 'note'
+> & {
   errors: Record<string, string>;
   titleError: string | undefined;
   noteError: string | undefined;
