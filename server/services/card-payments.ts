@@ -109,8 +109,6 @@ export async function disconnectCardPayments(sequelize: Sequelize, config: Confi
     const former = w.paymentAccountId;
     if (!former) throw problems.conflict('payments_not_connected', 'Card payments are not connected: there is nothing to disconnect.');
     if (former !== accountId) throw problems.conflict('payments_account_changed', 'The card payment account has changed since this page was opened: reload the page to see the one connected now.');
-    // Checkouts recorded before each named its account were opened on this one.
-    await Payment.update({ providerAccountId: former }, { where: { providerAccountId: null }, transaction });
     const open = await Payment.findAll({ where: { status: 'pending', providerAccountId: former }, order: [['id', 'ASC']], transaction, lock: transaction.LOCK.UPDATE });
     if (open.length > 0) {
       const stripe = client(config);
